@@ -1,0 +1,201 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { db } from "@/db/client";
+import { dyeMeasurements, findDyeByCode } from "@/db/queries/dyes";
+import { DyeEditForm } from "@/components/catalogue/dye-edit-form";
+import { Badge, Card, PageHeader } from "@/components/ui/card";
+import { Swatch } from "@/components/ui/swatch";
+import { pageAccess } from "@/lib/auth/page";
+import { ANY_ROLE, BENCH_ROLES, hasRole } from "@/lib/auth/roles";
+import { labToLch } from "@/lib/color/lab";
+import type { Lab } from "@/lib/color/types";
+import { MEDIUM_LABELS, type MediumClass } from "@/lib/solvents/parameters";
+
+const SCALES = {
+  et30: { label: "ET(30)", pick: (s: { et30: number | null }) => s.et30 },
+  alpha: { label: "Kamlet–Taft α", pick: (s: { ktAlpha: number | null }) => s.ktAlpha },
+  pistar: { label: "Kamlet–Taft π*", pick: (s: { ktPiStar: number | null }) => s.ktPiStar },
+  permittivity: { label: "permittivity εr", pick: (s: { permittivity: number | null }) => s.permittivity },
+} as const;
+type ScaleKey = keyof typeof SCALES;
+
+export async function generateMetadata({ params }: { params: Promise<{ code: string }> }): Promise<Metadata> {
+  return { title: decodeURIComponent((await params).code) };
+}
+
+export default async function DyePage({ params, searchParams }: { params: Promise<{ code: string }>; searchParams: Promise<{ scale?: string }> }) {
+  const { user } = await pageAccess(ANY_ROLE);
+  const { code } = await params;
+  const { scale: scaleParam } = await searchParams;
+  const scale: ScaleKey = scaleParam && scaleParam in SCALES ? (scaleParam as ScaleKey) : "et30";
+  const handle = db();
+  const dye = findDyeByCode(handle, { code: decodeURIComponent(code) });
+  if (!dye) notFound();
+  const rows = dyeMeasurements(handle, { dyeId: dye.id });
+  const accepted = rows.filter((r) => r.m.reviewState === "accepted");
+  const counts = { accepted: accepted.length, pending: rows.filter((r) => r.m.reviewState === "pending").length, rejected: rows.filter((r) => r.m.reviewState === "rejected").length };
+
+  // Mean accepted colour per solvent in neutral conditions, for the strip.
+  const neutral = new Map<string, { solvent: (typeof rows)[number]["solvent"]; labs: Lab[] }>();
+  for (const r of accepted) {
+    if (r.condition.acidBase !== "neutral") continue;
+    const entry = neutral.get(r.solvent.id) ?? { solvent: r.solvent, labs: [] };
+    entry.labs.push([r.m.l, r.m.a, r.m.b]);
+    neutral.set(r.solvent.id, entry);
+  }
+  const mean = (labs: Lab[]): Lab => [0, 1, 2].map((k) => labs.reduce((s, l) => s + l[k], 0) / labs.length) as Lab;
+  const byMedium = (["protic", "dipolar-aprotic", "nonpolar"] as MediumClass[]).map((medium) => ({
+    medium,
+    items: [...neutral.values()]
+      .filter((e) => e.solvent.medium === medium)
+      .map((e) => ({ solvent: e.solvent, lab: mean(e.labs), value: SCALES[scale].pick(e.solvent) }))
+      .sort((x, y) => (x.value ?? Infinity) - (y.value ?? Infinity)),
+  }));
+  const acidBase = (["acid", "neutral", "base"] as const).map((state) => {
+    const labs = accepted.filter((r) => r.condition.acidBase === state && r.solvent.name === "Water").map((r) => [r.m.l, r.m.a, r.m.b] as Lab);
+    return { state, lab: labs.length ? mean(labs) : null, n: labs.length };
+  });
+  const photoIds = [...new Set(rows.map((r) => r.m.photoId).filter(Boolean))];
+
+  return (
+    <>
+      <PageHeader
+        title={`${dye.name}`}
+        lead={
+          <>
+            <span className="font-mono">{dye.code}</span> · {dye.dyeClass}
+            {dye.molarMass ? ` · ${dye.molarMass} g/mol` : ""}
+            {dye.casNumber ? ` · CAS ${dye.casNumber}` : ""}
+          </>
+        }
+      />
+      <div className="grid gap-4 lg:grid-cols-3">
+        <Card title="Identity" className="lg:col-span-1">
+          <dl className="space-y-2 text-sm">
+            <div>
+              <dt className="text-ink-soft">Synonyms</dt>
+              <dd>{dye.synonyms.join(", ") || "—"}</dd>
+            </div>
+            <div>
+              <dt className="text-ink-soft">Hazards</dt>
+              <dd>{dye.hazards || "—"}</dd>
+            </div>
+            <div>
+              <dt className="text-ink-soft">Notes</dt>
+              <dd>{dye.notes || "—"}</dd>
+            </div>
+            <div>
+              <dt className="text-ink-soft">Measurements</dt>
+              <dd className="flex gap-2">
+                <Badge tone="ok">{counts.accepted} accepted</Badge>
+                <Badge tone="warn">{counts.pending} pending</Badge>
+                <Badge tone="bad">{counts.rejected} rejected</Badge>
+              </dd>
+            </div>
+            <div>
+              <dt className="text-ink-soft">Photos</dt>
+              <dd>{photoIds.length} rack photos</dd>
+            </div>
+          </dl>
+        </Card>
+        <Card
+          title="Colour across the solvent panel"
+          className="lg:col-span-2"
+          actions={
+            <nav aria-label="Order by" className="flex flex-wrap gap-1 text-xs">
+              {(Object.keys(SCALES) as ScaleKey[]).map((k) => (
+                <Link
+                  key={k}
+                  href={`?scale=${k}`}
+                  aria-current={k === scale ? "true" : undefined}
+                  className={`rounded-full border px-3 py-1.5 ${k === scale ? "border-accent bg-accent-soft text-accent" : "border-line"}`}
+                >
+                  {SCALES[k].label}
+                </Link>
+              ))}
+            </nav>
+          }
+        >
+          <p className="mb-3 text-xs text-ink-soft">Neutral conditions, mean of accepted measurements, ordered by {SCALES[scale].label} within each medium class. Screen colours are approximate.</p>
+          <div className="space-y-4">
+            {byMedium.map(({ medium, items }) => (
+              <div key={medium}>
+                <h3 className="mb-1 text-sm font-semibold">{MEDIUM_LABELS[medium]}</h3>
+                {items.length === 0 ? (
+                  <p className="text-xs text-ink-soft">Not measured in this class yet.</p>
+                ) : (
+                  <ul className="flex flex-wrap gap-2">
+                    {items.map((it) => (
+                      <li key={it.solvent.id} className="flex w-24 flex-col items-center text-center text-[11px] leading-tight">
+                        <Swatch lab={it.lab} size="lg" label={it.solvent.name} />
+                        <span className="mt-1 font-medium">{it.solvent.name}</span>
+                        <span className="text-ink-soft">{it.value === null ? "no value" : it.value}</span>
+                      </li>
+                    ))}
+                  </ul>
+                )}
+              </div>
+            ))}
+          </div>
+        </Card>
+        <Card title="Acid, neutral and base (water)">
+          <ul className="flex gap-4">
+            {acidBase.map((ab) => (
+              <li key={ab.state} className="flex flex-col items-center text-xs">
+                {ab.lab ? <Swatch lab={ab.lab} size="lg" label={ab.state} /> : <span className="swatch-checker inline-block h-16 w-16 rounded-md" />}
+                <span className="mt-1 font-medium">{ab.state}</span>
+                <span className="text-ink-soft">{ab.n ? `${ab.n} measured` : "not measured"}</span>
+              </li>
+            ))}
+          </ul>
+        </Card>
+        <Card title="Measurements" className="lg:col-span-2">
+          <div className="max-h-96 overflow-auto">
+            <table className="w-full text-left text-sm">
+              <thead className="sticky top-0 bg-white text-xs uppercase text-ink-soft">
+                <tr>
+                  <th className="py-2 pr-2"> </th>
+                  <th className="py-2 pr-2">Solvent</th>
+                  <th className="py-2 pr-2">Condition</th>
+                  <th className="py-2 pr-2 text-right">L*</th>
+                  <th className="py-2 pr-2 text-right">C*</th>
+                  <th className="py-2 pr-2 text-right">h°</th>
+                  <th className="py-2 pr-2">State</th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-line">
+                {rows.map(({ m, solvent, condition }) => {
+                  const lch = labToLch([m.l, m.a, m.b]);
+                  return (
+                    <tr key={m.id}>
+                      <td className="py-1.5 pr-2">
+                        <Swatch lab={[m.l, m.a, m.b]} size="sm" />
+                      </td>
+                      <td className="py-1.5 pr-2">{solvent.name}</td>
+                      <td className="py-1.5 pr-2 text-ink-soft">
+                        {condition.acidBase}
+                        {condition.ph !== null ? `, pH ${condition.ph}` : ""}
+                      </td>
+                      <td className="py-1.5 pr-2 text-right tabular-nums">{lch[0].toFixed(1)}</td>
+                      <td className="py-1.5 pr-2 text-right tabular-nums">{lch[1].toFixed(1)}</td>
+                      <td className="py-1.5 pr-2 text-right tabular-nums">{lch[2].toFixed(0)}</td>
+                      <td className="py-1.5 pr-2">
+                        <Badge tone={m.reviewState === "accepted" ? "ok" : m.reviewState === "pending" ? "warn" : "bad"}>{m.reviewState}</Badge>
+                      </td>
+                    </tr>
+                  );
+                })}
+              </tbody>
+            </table>
+          </div>
+        </Card>
+        {hasRole(user.role, BENCH_ROLES) && (
+          <Card title="Edit dye" className="lg:col-span-3">
+            <DyeEditForm dye={dye} />
+          </Card>
+        )}
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,84 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { db } from "@/db/client";
+import { acceptedMeasurements } from "@/db/queries/bench";
+import { listDyes } from "@/db/queries/dyes";
+import { PageHeader } from "@/components/ui/card";
+import { Swatch } from "@/components/ui/swatch";
+import { pageAccess } from "@/lib/auth/page";
+import { ANY_ROLE } from "@/lib/auth/roles";
+import type { Lab } from "@/lib/color/types";
+import { searchDyesByText } from "@/lib/search/text";
+
+export const metadata: Metadata = { title: "Catalogue" };
+
+export default async function CataloguePage({ searchParams }: { searchParams: Promise<{ q?: string }> }) {
+  await pageAccess(ANY_ROLE);
+  const { q = "" } = await searchParams;
+  const handle = db();
+  const all = listDyes(handle);
+  const dyes = q ? searchDyesByText(all, q) : all;
+  // One neutral swatch per solvent, ordered by ETN, gives a quick look at each dye's solvatochromism.
+  const strips = new Map<string, { etn: number; lab: Lab; solvent: string }[]>();
+  for (const row of acceptedMeasurements(handle)) {
+    if (row.condition.acidBase !== "neutral" || row.solvent.etn === null) continue;
+    const list = strips.get(row.dye.id) ?? [];
+    if (!list.some((s) => s.solvent === row.solvent.name)) list.push({ etn: row.solvent.etn, lab: [row.m.l, row.m.a, row.m.b], solvent: row.solvent.name });
+    strips.set(row.dye.id, list);
+  }
+  return (
+    <>
+      <PageHeader
+        title="Catalogue"
+        lead={q ? `${dyes.length} dyes match “${q}” (typo-tolerant over names, codes, synonyms, CAS numbers, classes and notes).` : `${all.length} dyes. The strip shows each dye's colour in neutral solvents from least to most polar (ETN).`}
+      />
+      <form className="mb-4 flex max-w-xl gap-2" role="search">
+        <label htmlFor="catalogue-q" className="sr-only">
+          Search dyes
+        </label>
+        <input id="catalogue-q" name="q" defaultValue={q} type="search" placeholder="e.g. merocyanine, KB-AZ-128, Tidewater" className="min-h-11 flex-1 rounded-lg border border-line bg-white px-3" />
+        <button className="min-h-11 rounded-lg bg-accent px-4 font-semibold text-white">Search</button>
+      </form>
+      <div className="overflow-x-auto rounded-xl border border-line bg-white">
+        <table className="w-full text-left text-sm">
+          <thead className="border-b border-line bg-paper-deep/50 text-xs uppercase tracking-wide text-ink-soft">
+            <tr>
+              <th className="px-4 py-3">Code</th>
+              <th className="px-4 py-3">Name</th>
+              <th className="px-4 py-3">Class</th>
+              <th className="px-4 py-3">Colour by polarity (ETN ↑)</th>
+              <th className="px-4 py-3 text-right">Accepted / all</th>
+            </tr>
+          </thead>
+          <tbody className="divide-y divide-line">
+            {dyes.map((d) => {
+              const strip = (strips.get(d.id) ?? []).sort((x, y) => x.etn - y.etn);
+              return (
+                <tr key={d.id} className="hover:bg-paper/60">
+                  <td className="px-4 py-2 font-mono text-xs">
+                    <Link href={`/catalogue/${encodeURIComponent(d.code)}`} className="font-semibold text-accent hover:underline">
+                      {d.code}
+                    </Link>
+                  </td>
+                  <td className="px-4 py-2">{d.name}</td>
+                  <td className="px-4 py-2 text-ink-soft">{d.dyeClass}</td>
+                  <td className="px-4 py-2">
+                    <div className="flex gap-0.5">
+                      {strip.map((s) => (
+                        <Swatch key={s.solvent} lab={s.lab} size="sm" label={s.solvent} />
+                      ))}
+                    </div>
+                  </td>
+                  <td className="px-4 py-2 text-right tabular-nums">
+                    {d.acceptedCount} / {d.measurementCount}
+                  </td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+        {dyes.length === 0 && <p className="p-6 text-sm text-ink-soft">No dye matches. Try fewer letters, a code such as KB-MC-114, or a class such as azo.</p>}
+      </div>
+    </>
+  );
+}

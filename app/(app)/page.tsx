@@ -1,0 +1,83 @@
+import Link from "next/link";
+import { db } from "@/db/client";
+import { countMeasurements, listRecentPhotos } from "@/db/queries/bench";
+import { listDyes } from "@/db/queries/dyes";
+import { listSolvents } from "@/db/queries/solvents";
+import { Card, PageHeader } from "@/components/ui/card";
+import { pageAccess } from "@/lib/auth/page";
+import { ANY_ROLE } from "@/lib/auth/roles";
+
+export default async function OverviewPage() {
+  const { user } = await pageAccess(ANY_ROLE);
+  const handle = db();
+  const dyes = listDyes(handle);
+  const solvents = listSolvents(handle);
+  const states = Object.fromEntries(countMeasurements(handle).map((s) => [s.state, s.n]));
+  const photos = listRecentPhotos(handle, { limit: 5 });
+  const stats = [
+    { label: "Dyes in the catalogue", value: dyes.length, href: "/catalogue" },
+    { label: "Accepted measurements", value: states.accepted ?? 0, href: "/catalogue" },
+    { label: "Waiting for review", value: states.pending ?? 0, href: user.role === "formulator" ? undefined : "/review" },
+    { label: "Solvents with parameters", value: solvents.length, href: "/solvents" },
+  ];
+  return (
+    <>
+      <PageHeader title={`Hello, ${user.name.split(" ")[0]}`} lead="Calibrated CIELAB records of every dye across the solvent panel and acid/base conditions." />
+      <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+        {stats.map((s) => {
+          const body = (
+            <>
+              <p className="text-3xl font-bold tabular-nums">{s.value}</p>
+              <p className="mt-1 text-sm text-ink-soft">{s.label}</p>
+            </>
+          );
+          return s.href ? (
+            <Link key={s.label} href={s.href} className="rounded-xl border border-line bg-white p-5 hover:border-accent">
+              {body}
+            </Link>
+          ) : (
+            <div key={s.label} className="rounded-xl border border-line bg-white p-5">
+              {body}
+            </div>
+          );
+        })}
+      </div>
+      <div className="mt-6 grid gap-4 lg:grid-cols-2">
+        <Card title="Latest rack photos">
+          <ul className="divide-y divide-line text-sm">
+            {photos.map(({ photo, uploader, profile, count }) => (
+              <li key={photo.id} className="flex justify-between gap-3 py-2">
+                <span className="truncate">{photo.originalName}</span>
+                <span className="shrink-0 text-ink-soft">
+                  {count} vials · {profile ?? "no profile"} · {uploader}
+                </span>
+              </li>
+            ))}
+          </ul>
+        </Card>
+        <Card title="Where to start">
+          <ul className="space-y-2 text-sm">
+            <li>
+              <Link className="font-medium text-accent hover:underline" href="/search">
+                Search by colour
+              </Link>{" "}
+              — the dye that is violet in a dipolar aprotic medium, or shifts most between acid and base.
+            </li>
+            <li>
+              <Link className="font-medium text-accent hover:underline" href="/catalogue">
+                Browse the catalogue
+              </Link>{" "}
+              — each dye&apos;s colour across the solvent panel.
+            </li>
+            <li>
+              <Link className="font-medium text-accent hover:underline" href="/solvents">
+                Solvent table
+              </Link>{" "}
+              — ET(30), Kamlet–Taft α, β, π* and permittivity, each with its source.
+            </li>
+          </ul>
+        </Card>
+      </div>
+    </>
+  );
+}

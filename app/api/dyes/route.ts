@@ -1,0 +1,28 @@
+import { z } from "zod";
+import { db } from "@/db/client";
+import { listDyes } from "@/db/queries/dyes";
+import { apiRoute } from "@/lib/auth/guard";
+import { ANY_ROLE } from "@/lib/auth/roles";
+import { searchDyesByText } from "@/lib/search/text";
+
+const query = z.object({
+  q: z.string().max(200, "q is at most 200 characters").optional().default(""),
+  limit: z.coerce.number({ error: "limit must be a whole number" }).int("limit must be a whole number").min(1).max(500).optional().default(500),
+});
+
+export const GET = apiRoute({ access: ANY_ROLE, query }, async ({ query }) => {
+  const all = listDyes(db());
+  const hits = searchDyesByText(all, query.q, query.limit);
+  return {
+    dyes: hits.map((d) => ({
+      id: d.id,
+      code: d.code,
+      name: d.name,
+      class: d.dyeClass,
+      synonyms: d.synonyms,
+      casNumber: d.casNumber,
+      molarMass: d.molarMass,
+      measurements: d.acceptedCount,
+    })),
+  };
+});

@@ -1,0 +1,34 @@
+"use client";
+
+import { useActionState } from "react";
+import { inviteAction } from "@/app/actions/people";
+import { Field, Select, TextInput } from "@/components/ui/field";
+import { FormMessage, SubmitButton } from "@/components/ui/form-status";
+
+export function InviteForm() {
+  const [state, action] = useActionState(inviteAction, null);
+  const e = state?.fieldErrors ?? {};
+  return (
+    <form action={action} className="grid gap-4 md:grid-cols-4" noValidate data-testid="invite-form">
+      <Field label="Name" name="name" error={e.name}>
+        <TextInput name="name" error={e.name} />
+      </Field>
+      <Field label="E-mail" name="email" error={e.email}>
+        <TextInput name="email" type="email" error={e.email} />
+      </Field>
+      <Field label="Role" name="role" error={e.role}>
+        <Select name="role" defaultValue="chemist" error={e.role}>
+          <option value="chemist">Chemist</option>
+          <option value="formulator">Formulator</option>
+          <option value="admin">Admin</option>
+        </Select>
+      </Field>
+      <div className="flex items-end">
+        <SubmitButton pendingText="Inviting…">Send invitation</SubmitButton>
+      </div>
+      <div className="md:col-span-4">
+        <FormMessage state={state} />
+      </div>
+    </form>
+  );
+}

@@ -1,0 +1,64 @@
+import { and, desc, eq, sql } from "drizzle-orm";
+import type { Db } from "../connection";
+import { conditions, dyes, measurements, solvents, type Dye, type NewDye } from "../schema";
+import { recordAudit } from "./audit";
+
+export type DyeSummary = Dye & { measurementCount: number; acceptedCount: number };
+
+export function listDyes(db: Db): DyeSummary[] {
+  const counts = db
+    .select({
+      dyeId: measurements.dyeId,
+      n: sql<number>`count(*)`,
+      accepted: sql<number>`sum(case when ${measurements.reviewState} = 'accepted' then 1 else 0 end)`,
+    })
+    .from(measurements)
+    .groupBy(measurements.dyeId)
+    .all();
+  const byDye = new Map(counts.map((c) => [c.dyeId, c]));
+  return db
+    .select()
+    .from(dyes)
+    .orderBy(dyes.code)
+    .all()
+    .map((d) => ({ ...d, measurementCount: byDye.get(d.id)?.n ?? 0, acceptedCount: byDye.get(d.id)?.accepted ?? 0 }));
+}
+
+export function findDyeByCode(db: Db, { code }: { code: string }): Dye | undefined {
+  return db.select().from(dyes).where(eq(dyes.code, code)).get();
+}
+
+export function findDyeById(db: Db, { id }: { id: string }): Dye | undefined {
+  return db.select().from(dyes).where(eq(dyes.id, id)).get();
+}
+
+/** Every measurement of a dye with its condition and solvent, newest first. */
+export function dyeMeasurements(db: Db, { dyeId, acceptedOnly = false }: { dyeId: string; acceptedOnly?: boolean }) {
+  return db
+    .select({ m: measurements, condition: conditions, solvent: solvents })
+    .from(measurements)
+    .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
+    .innerJoin(solvents, eq(conditions.solventId, solvents.id))
+    .where(acceptedOnly ? and(eq(measurements.dyeId, dyeId), eq(measurements.reviewState, "accepted")) : eq(measurements.dyeId, dyeId))
+    .orderBy(desc(measurements.createdAt))
+    .all();
+}
+
+export function updateDye(db: Db, { actorId, id, changes }: { actorId: string; id: string; changes: Partial<NewDye> }) {
+  return db.transaction((tx) => {
+    const before = tx.select().from(dyes).where(eq(dyes.id, id)).get();
+    if (!before) return undefined;
+    tx.update(dyes).set({ ...changes, updatedAt: new Date() }).where(eq(dyes.id, id)).run();
+    const after = tx.select().from(dyes).where(eq(dyes.id, id)).get();
+    recordAudit(tx, { actorId, action: "dye.update", entity: "dye", entityId: id, before, after });
+    return after;
+  });
+}
+
+export function createDye(db: Db, { actorId, dye }: { actorId: string; dye: NewDye & { id: string } }) {
+  db.transaction((tx) => {
+    tx.insert(dyes).values({ ...dye, createdBy: actorId }).run();
+    recordAudit(tx, { actorId, action: "dye.create", entity: "dye", entityId: dye.id, after: dye });
+  });
+  return findDyeById(db, { id: dye.id });
+}

@@ -1,0 +1,38 @@
+import { and, eq } from "drizzle-orm";
+import { AppError } from "../../lib/errors";
+import type { Db } from "../connection";
+import { measurements, type Role } from "../schema";
+import { recordAudit } from "./audit";
+
+/**
+ * Accepts or rejects a pending measurement. The author may never review their own work; the update is
+ * conditional on the state still being pending, so two reviewers cannot both decide.
+ */
+export function decideMeasurement(
+  db: Db,
+  input: { reviewer: { id: string; role: Role }; measurementId: string; decision: "accepted" | "rejected"; note: string },
+) {
+  if (input.reviewer.role === "formulator") throw new AppError("forbidden", "Formulators read measurements but do not review them.");
+  return db.transaction((tx) => {
+    const m = tx.select().from(measurements).where(eq(measurements.id, input.measurementId)).get();
+    if (!m) throw new AppError("not_found", "That measurement no longer exists.");
+    if (m.createdBy === input.reviewer.id) throw new AppError("forbidden", "You cannot review your own measurement; another chemist or an admin must.");
+    if (m.reviewState !== "pending") throw new AppError("conflict", `This measurement was already ${m.reviewState}.`);
+    const reviewedAt = new Date();
+    const changed = tx
+      .update(measurements)
+      .set({ reviewState: input.decision, reviewedBy: input.reviewer.id, reviewedAt, reviewNote: input.note || null })
+      .where(and(eq(measurements.id, m.id), eq(measurements.reviewState, "pending")))
+      .run();
+    if (changed.changes !== 1) throw new AppError("conflict", "Someone else reviewed this measurement a moment ago.");
+    recordAudit(tx, {
+      actorId: input.reviewer.id,
+      action: `measurement.${input.decision === "accepted" ? "accept" : "reject"}`,
+      entity: "measurement",
+      entityId: m.id,
+      before: { reviewState: "pending" },
+      after: { reviewState: input.decision, note: input.note },
+    });
+    return { authorId: m.createdBy };
+  });
+}

@@ -1,0 +1,399 @@
+/**
+ * The Solvatlas data model (SQLite through Drizzle).
+ *
+ * Conventions: snake_case columns; times are integer milliseconds since the epoch (`timestamp_ms`),
+ * except `sessions.expires_at`, which lucia stores in seconds; colour coordinates are `real` and never
+ * rounded in storage; every colour row names its illuminant (reference white) and observer.
+ */
+import { sql } from "drizzle-orm";
+import { index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+
+export const ROLES = ["admin", "chemist", "formulator"] as const;
+export type Role = (typeof ROLES)[number];
+
+export const MEDIA = ["protic", "dipolar-aprotic", "nonpolar"] as const;
+export type Medium = (typeof MEDIA)[number];
+
+export const ACID_BASE = ["acid", "neutral", "base"] as const;
+export type AcidBase = (typeof ACID_BASE)[number];
+
+export const REVIEW_STATES = ["pending", "accepted", "rejected"] as const;
+export type ReviewState = (typeof REVIEW_STATES)[number];
+
+export const ILLUMINANTS = ["D65", "D50", "A"] as const;
+export type IlluminantName = (typeof ILLUMINANTS)[number];
+
+const createdAt = () =>
+  integer("created_at", { mode: "timestamp_ms" })
+    .notNull()
+    .default(sql`(unixepoch('subsec') * 1000)`);
+
+// ---------------------------------------------------------------- people and access
+
+export const users = sqliteTable("users", {
+  id: text("id").primaryKey(),
+  email: text("email").notNull().unique(),
+  name: text("name").notNull(),
+  role: text("role", { enum: ROLES }).notNull(),
+  /** scrypt hash (`scrypt$N$r$p$salt$hash`); null until an invited person sets a password. */
+  passwordHash: text("password_hash"),
+  deactivatedAt: integer("deactivated_at", { mode: "timestamp_ms" }),
+  createdAt: createdAt(),
+});
+export type User = typeof users.$inferSelect;
+export type NewUser = typeof users.$inferInsert;
+
+export const sessions = sqliteTable(
+  "sessions",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    /** Unix seconds (lucia's SQLite adapter). */
+    expiresAt: integer("expires_at").notNull(),
+  },
+  (t) => [index("sessions_user_idx").on(t.userId)],
+);
+export type Session = typeof sessions.$inferSelect;
+
+export const invitations = sqliteTable(
+  "invitations",
+  {
+    id: text("id").primaryKey(),
+    email: text("email").notNull(),
+    name: text("name").notNull(),
+    role: text("role", { enum: ROLES }).notNull(),
+    /** sha256 of the secret in the link; the secret itself is never stored. */
+    tokenHash: text("token_hash").notNull().unique(),
+    invitedBy: text("invited_by")
+      .notNull()
+      .references(() => users.id),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("invitations_email_idx").on(t.email)],
+);
+export type Invitation = typeof invitations.$inferSelect;
+
+export const passwordResets = sqliteTable("password_resets", {
+  id: text("id").primaryKey(),
+  userId: text("user_id")
+    .notNull()
+    .references(() => users.id, { onDelete: "cascade" }),
+  tokenHash: text("token_hash").notNull().unique(),
+  expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+  usedAt: integer("used_at", { mode: "timestamp_ms" }),
+  createdAt: createdAt(),
+});
+export type PasswordReset = typeof passwordResets.$inferSelect;
+
+export const apiTokens = sqliteTable(
+  "api_tokens",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    /** First characters of the token, shown in lists so a person can tell tokens apart. */
+    prefix: text("prefix").notNull(),
+    tokenHash: text("token_hash").notNull().unique(),
+    lastUsedAt: integer("last_used_at", { mode: "timestamp_ms" }),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }),
+    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("api_tokens_user_idx").on(t.userId)],
+);
+export type ApiToken = typeof apiTokens.$inferSelect;
+
+/** One row per sign-in attempt; throttling counts recent failures per e-mail and per address. */
+export const signInAttempts = sqliteTable(
+  "sign_in_attempts",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    email: text("email").notNull(),
+    ip: text("ip").notNull(),
+    succeeded: integer("succeeded", { mode: "boolean" }).notNull(),
+    at: integer("at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("sign_in_attempts_email_idx").on(t.email, t.at), index("sign_in_attempts_ip_idx").on(t.ip, t.at)],
+);
+
+// ---------------------------------------------------------------- reference data
+
+export const dyes = sqliteTable("dyes", {
+  id: text("id").primaryKey(),
+  code: text("code").notNull().unique(),
+  name: text("name").notNull(),
+  /** JSON array of strings. */
+  synonyms: text("synonyms", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),
+  casNumber: text("cas_number"),
+  dyeClass: text("dye_class").notNull(),
+  /** g/mol */
+  molarMass: real("molar_mass"),
+  notes: text("notes").notNull().default(""),
+  hazards: text("hazards").notNull().default(""),
+  createdBy: text("created_by").references(() => users.id),
+  createdAt: createdAt(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+});
+export type Dye = typeof dyes.$inferSelect;
+export type NewDye = typeof dyes.$inferInsert;
+
+export const solvents = sqliteTable("solvents", {
+  id: text("id").primaryKey(),
+  name: text("name").notNull().unique(),
+  synonyms: text("synonyms", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),
+  /** Reichardt ET(30), kcal/mol. */
+  et30: real("et30"),
+  et30Source: text("et30_source"),
+  /** ETN = (ET(30) − 30.7) / 32.4, derived; kept for sorting and queries. */
+  etn: real("etn"),
+  /** Kamlet–Taft H-bond donor acidity α. */
+  ktAlpha: real("kt_alpha"),
+  ktAlphaSource: text("kt_alpha_source"),
+  /** Kamlet–Taft H-bond acceptor basicity β. */
+  ktBeta: real("kt_beta"),
+  ktBetaSource: text("kt_beta_source"),
+  /** Kamlet–Taft dipolarity/polarizability π*. */
+  ktPiStar: real("kt_pi_star"),
+  ktPiStarSource: text("kt_pi_star_source"),
+  /** Relative permittivity εr at about 25 °C. */
+  permittivity: real("permittivity"),
+  permittivitySource: text("permittivity_source"),
+  medium: text("medium", { enum: MEDIA }).notNull(),
+  mediumSource: text("medium_source").notNull(),
+  /** Safety notes shown beside the solvent; never a substitute for the supplier's SDS. */
+  cautions: text("cautions").notNull().default(""),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+});
+export type Solvent = typeof solvents.$inferSelect;
+export type NewSolvent = typeof solvents.$inferInsert;
+
+export const conditions = sqliteTable(
+  "conditions",
+  {
+    id: text("id").primaryKey(),
+    solventId: text("solvent_id")
+      .notNull()
+      .references(() => solvents.id),
+    acidBase: text("acid_base", { enum: ACID_BASE }).notNull(),
+    ph: real("ph"),
+    additive: text("additive").notNull().default(""),
+    /** µmol/L of dye. */
+    concentrationUmolL: real("concentration_umol_l"),
+    pathLengthMm: real("path_length_mm"),
+    temperatureC: real("temperature_c"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("conditions_solvent_idx").on(t.solventId)],
+);
+export type Condition = typeof conditions.$inferSelect;
+
+// ---------------------------------------------------------------- lighting
+
+export type TargetPatch = { name: string; lab: [number, number, number] };
+
+export const calibrationTargets = sqliteTable("calibration_targets", {
+  id: text("id").primaryKey(),
+  name: text("name").notNull().unique(),
+  description: text("description").notNull().default(""),
+  /** Reference white the patch Lab values are relative to. */
+  whitePoint: text("white_point", { enum: ILLUMINANTS }).notNull().default("D65"),
+  patches: text("patches", { mode: "json" }).$type<TargetPatch[]>().notNull(),
+  createdAt: createdAt(),
+});
+export type CalibrationTarget = typeof calibrationTargets.$inferSelect;
+
+export const CORRECTION_KINDS = ["none", "white-scaling", "matrix-3x3", "root-polynomial"] as const;
+export type CorrectionKind = (typeof CORRECTION_KINDS)[number];
+
+export const lightingProfiles = sqliteTable("lighting_profiles", {
+  id: text("id").primaryKey(),
+  name: text("name").notNull().unique(),
+  /** The CIE illuminant the light source stands for. */
+  illuminant: text("illuminant", { enum: ILLUMINANTS }).notNull(),
+  lightSource: text("light_source").notNull(),
+  camera: text("camera").notNull(),
+  targetId: text("target_id").references(() => calibrationTargets.id),
+  correctionKind: text("correction_kind", { enum: CORRECTION_KINDS }).notNull(),
+  /** Fitted correction: for matrix-3x3 a row-major 3×3 in linear RGB; for white-scaling 3 gains. */
+  correction: text("correction", { mode: "json" }).$type<number[]>().notNull(),
+  /** Residual ΔE00 per patch from the fit. */
+  residuals: text("residuals", { mode: "json" }).$type<{ patch: string; deltaE00: number }[]>(),
+  validFrom: integer("valid_from", { mode: "timestamp_ms" }).notNull(),
+  validUntil: integer("valid_until", { mode: "timestamp_ms" }),
+  approvedBy: text("approved_by").references(() => users.id),
+  approvedAt: integer("approved_at", { mode: "timestamp_ms" }),
+  createdBy: text("created_by").references(() => users.id),
+  createdAt: createdAt(),
+});
+export type LightingProfile = typeof lightingProfiles.$inferSelect;
+
+// ---------------------------------------------------------------- bench records
+
+export type ExifSummary = {
+  make?: string;
+  model?: string;
+  takenAt?: string;
+  orientation?: number;
+  exposureTime?: number;
+  fNumber?: number;
+  iso?: number;
+};
+
+export const photos = sqliteTable(
+  "photos",
+  {
+    id: text("id").primaryKey(),
+    storageKey: text("storage_key").notNull(),
+    sha256: text("sha256").notNull().unique(),
+    byteSize: integer("byte_size").notNull(),
+    mimeType: text("mime_type").notNull(),
+    width: integer("width").notNull(),
+    height: integer("height").notNull(),
+    exif: text("exif", { mode: "json" }).$type<ExifSummary>().notNull().default(sql`'{}'`),
+    originalName: text("original_name").notNull().default(""),
+    lightingProfileId: text("lighting_profile_id").references(() => lightingProfiles.id),
+    uploadedBy: text("uploaded_by")
+      .notNull()
+      .references(() => users.id),
+    takenAt: integer("taken_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("photos_profile_idx").on(t.lightingProfileId)],
+);
+export type Photo = typeof photos.$inferSelect;
+
+export type RegionShape = "rect" | "ellipse";
+export type Region = { shape: RegionShape; x: number; y: number; w: number; h: number };
+
+export const measurements = sqliteTable(
+  "measurements",
+  {
+    id: text("id").primaryKey(),
+    photoId: text("photo_id").references(() => photos.id),
+    region: text("region", { mode: "json" }).$type<Region>(),
+    dyeId: text("dye_id")
+      .notNull()
+      .references(() => dyes.id),
+    conditionId: text("condition_id")
+      .notNull()
+      .references(() => conditions.id),
+    lightingProfileId: text("lighting_profile_id").references(() => lightingProfiles.id),
+    /** Robust mean of linear RGB (sRGB transfer undone, before any correction), 0–1. */
+    rawR: real("raw_r").notNull(),
+    rawG: real("raw_g").notNull(),
+    rawB: real("raw_b").notNull(),
+    /** Corrected tristimulus values, Y of the reference white = 100. */
+    x: real("x").notNull(),
+    y: real("y").notNull(),
+    z: real("z").notNull(),
+    l: real("l").notNull(),
+    a: real("a").notNull(),
+    b: real("b").notNull(),
+    illuminant: text("illuminant", { enum: ILLUMINANTS }).notNull().default("D65"),
+    observer: text("observer").notNull().default("CIE 1931 2°"),
+    pixelCount: integer("pixel_count").notNull(),
+    rejectedCount: integer("rejected_count").notNull(),
+    /** Spread of the region (ΔE00-like uniformity figure); lower is more uniform. */
+    spread: real("spread").notNull(),
+    flags: text("flags", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),
+    flagReason: text("flag_reason"),
+    reviewState: text("review_state", { enum: REVIEW_STATES }).notNull().default("pending"),
+    reviewedBy: text("reviewed_by").references(() => users.id),
+    reviewedAt: integer("reviewed_at", { mode: "timestamp_ms" }),
+    reviewNote: text("review_note"),
+    createdBy: text("created_by")
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index("measurements_dye_idx").on(t.dyeId),
+    index("measurements_condition_idx").on(t.conditionId),
+    index("measurements_photo_idx").on(t.photoId),
+    index("measurements_review_idx").on(t.reviewState),
+  ],
+);
+export type Measurement = typeof measurements.$inferSelect;
+export type NewMeasurement = typeof measurements.$inferInsert;
+
+export const spectra = sqliteTable(
+  "spectra",
+  {
+    id: text("id").primaryKey(),
+    dyeId: text("dye_id")
+      .notNull()
+      .references(() => dyes.id),
+    conditionId: text("condition_id")
+      .notNull()
+      .references(() => conditions.id),
+    /** [[wavelength_nm, decadic absorbance], …] as measured. */
+    points: text("points", { mode: "json" }).$type<[number, number][]>().notNull(),
+    lambdaMaxNm: real("lambda_max_nm"),
+    concentrationUmolL: real("concentration_umol_l"),
+    pathLengthMm: real("path_length_mm"),
+    instrument: text("instrument").notNull().default(""),
+    createdBy: text("created_by")
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("spectra_dye_idx").on(t.dyeId)],
+);
+export type Spectrum = typeof spectra.$inferSelect;
+
+// ---------------------------------------------------------------- formulator work
+
+export const shortlists = sqliteTable("shortlists", {
+  id: text("id").primaryKey(),
+  ownerId: text("owner_id")
+    .notNull()
+    .references(() => users.id, { onDelete: "cascade" }),
+  name: text("name").notNull(),
+  notes: text("notes").notNull().default(""),
+  createdAt: createdAt(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+});
+export type Shortlist = typeof shortlists.$inferSelect;
+
+export const shortlistItems = sqliteTable(
+  "shortlist_items",
+  {
+    id: text("id").primaryKey(),
+    shortlistId: text("shortlist_id")
+      .notNull()
+      .references(() => shortlists.id, { onDelete: "cascade" }),
+    dyeId: text("dye_id")
+      .notNull()
+      .references(() => dyes.id),
+    note: text("note").notNull().default(""),
+    position: integer("position").notNull().default(0),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("shortlist_items_unique").on(t.shortlistId, t.dyeId)],
+);
+export type ShortlistItem = typeof shortlistItems.$inferSelect;
+
+// ---------------------------------------------------------------- audit
+
+export const auditLog = sqliteTable(
+  "audit_log",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    at: integer("at", { mode: "timestamp_ms" }).notNull(),
+    /** Null for the system (seed, migrations, CLI without a user). */
+    actorId: text("actor_id").references(() => users.id),
+    action: text("action").notNull(),
+    entity: text("entity").notNull(),
+    entityId: text("entity_id"),
+    before: text("before", { mode: "json" }),
+    after: text("after", { mode: "json" }),
+  },
+  (t) => [index("audit_entity_idx").on(t.entity, t.entityId), index("audit_at_idx").on(t.at)],
+);
+export type AuditEntry = typeof auditLog.$inferSelect;

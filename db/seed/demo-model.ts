@@ -1,0 +1,186 @@
+/**
+ * The invented demo scenario: the colour lab of "Kestrel Bay Coatings", a fictional company.
+ * Every dye, code and response below is made up. Colours are generated from a physical-looking model so
+ * that fits and searches find real structure:
+ *
+ *   ν̃max(solvent) = ν̃0 + s·π* + a·α + b·β   (kK, a Kamlet–Taft-shaped response, invented coefficients)
+ *   A(ν̃) = Σ Apeak · exp(−½((ν̃ − ν̃max)/σ)²)   (Gaussian bands in wavenumber)
+ *   acid/base forms mixed by the Henderson–Hasselbalch fraction 1 / (1 + 10^(pKa − pH))
+ *
+ * and the colour is the CIE colour of the transmitted D65 light (lib/color/spectrum).
+ */
+import { absorbanceToXyz, type SampledSpectrum } from "../../lib/color/spectrum";
+import { WHITE_POINTS_2DEG } from "../../lib/color/illuminants";
+import { xyzToLab } from "../../lib/color/lab";
+import type { Lab, Xyz } from "../../lib/color/types";
+
+export type Band = { nu0: number; s: number; a: number; b: number; sigma: number; peak: number };
+
+export type DemoDye = {
+  code: string;
+  name: string;
+  dyeClass: string;
+  synonyms: string[];
+  molarMass: number;
+  notes: string;
+  hazards: string;
+  /** Neutral (or acid) form. */
+  band: Band;
+  /** Base form, for dyes with an acid/base response. */
+  baseBand?: Band;
+  pKa?: number;
+};
+
+export type SolventParams = { alpha: number; beta: number; piStar: number };
+
+/** Deterministic pseudo-random numbers (mulberry32) so the demo is the same on every machine. */
+export function rng(seed: number): () => number {
+  let t = seed >>> 0;
+  return () => {
+    t = (t + 0x6d2b79f5) >>> 0;
+    let r = Math.imul(t ^ (t >>> 15), 1 | t);
+    r = (r + Math.imul(r ^ (r >>> 7), 61 | r)) ^ r;
+    return ((r ^ (r >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+export function gaussian(random: () => number): number {
+  const u = Math.max(random(), 1e-12);
+  const v = random();
+  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
+}
+
+const HAZ_GENERIC = "Handle as a possible skin sensitizer: gloves, avoid dust; see the supplier's SDS.";
+
+type Template = {
+  dyeClass: string;
+  prefix: string;
+  names: string[];
+  band: () => Band;
+  acidBase?: boolean;
+  hazards?: string;
+};
+
+/** Invented families: coefficient ranges chosen to look like the sign and size of real solvatochromism. */
+function families(random: () => number): Template[] {
+  const pick = (lo: number, hi: number) => lo + (hi - lo) * random();
+  return [
+    {
+      dyeClass: "betaine",
+      prefix: "BT",
+      names: ["Tidewater Betaine 1", "Tidewater Betaine 2", "Tidewater Betaine 4", "Tidewater Betaine 7"],
+      band: () => ({ nu0: pick(12.8, 14.2), s: pick(2.0, 3.2), a: pick(5.5, 7.5), b: pick(-0.6, 0.4), sigma: pick(1.6, 2.1), peak: pick(0.9, 1.3) }),
+    },
+    {
+      dyeClass: "merocyanine",
+      prefix: "MC",
+      names: ["Estuary Merocyanine A", "Estuary Merocyanine B", "Estuary Merocyanine C", "Estuary Merocyanine D", "Estuary Merocyanine E"],
+      band: () => ({ nu0: pick(17.0, 19.5), s: pick(-1.8, 1.6), a: pick(1.8, 3.8), b: pick(-0.8, 0.8), sigma: pick(1.3, 1.8), peak: pick(1.0, 1.6) }),
+    },
+    {
+      dyeClass: "azo",
+      prefix: "AZ",
+      names: ["Kestrel Orange 11", "Kestrel Scarlet 12", "Kestrel Red 14", "Kestrel Yellow 15", "Kestrel Amber 18"],
+      band: () => ({ nu0: pick(19.5, 24.0), s: pick(-1.6, -0.6), a: pick(-0.6, 0.5), b: pick(-0.5, 0.2), sigma: pick(1.8, 2.5), peak: pick(1.0, 1.5) }),
+      acidBase: true,
+    },
+    {
+      dyeClass: "sulfonephthalein",
+      prefix: "SP",
+      names: ["Shoal Indicator Blue", "Shoal Indicator Purple", "Shoal Indicator Green", "Shoal Indicator Red"],
+      band: () => ({ nu0: pick(22.5, 24.5), s: pick(-0.6, 0), a: pick(-0.3, 0.3), b: pick(-0.2, 0.2), sigma: pick(1.6, 2.0), peak: pick(0.9, 1.3) }),
+      acidBase: true,
+    },
+    {
+      dyeClass: "xanthene",
+      prefix: "XN",
+      names: ["Harbour Rose 21", "Harbour Pink 22", "Harbour Gold 23", "Harbour Coral 25"],
+      band: () => ({ nu0: pick(18.0, 20.0), s: pick(-0.9, -0.3), a: pick(0.2, 0.9), b: pick(-0.3, 0.3), sigma: pick(0.9, 1.3), peak: pick(1.2, 1.8) }),
+      acidBase: true,
+    },
+    {
+      dyeClass: "triarylmethane",
+      prefix: "TM",
+      names: ["Gannet Violet 31", "Gannet Blue 32", "Gannet Green 33", "Gannet Teal 34"],
+      band: () => ({ nu0: pick(16.0, 17.6), s: pick(-0.8, -0.2), a: pick(-0.4, 0.3), b: pick(-0.3, 0.3), sigma: pick(1.1, 1.5), peak: pick(1.3, 1.9) }),
+      acidBase: true,
+    },
+    {
+      dyeClass: "coumarin",
+      prefix: "CM",
+      names: ["Marram Coumarin 41", "Marram Coumarin 43", "Marram Coumarin 47"],
+      band: () => ({ nu0: pick(23.5, 25.5), s: pick(-2.2, -1.0), a: pick(-1.4, -0.4), b: pick(-0.6, 0.0), sigma: pick(1.7, 2.3), peak: pick(0.8, 1.2) }),
+    },
+    {
+      dyeClass: "anthraquinone",
+      prefix: "AQ",
+      names: ["Skerry Blue 51", "Skerry Violet 52", "Skerry Red 55"],
+      band: () => ({ nu0: pick(16.5, 19.0), s: pick(-0.7, -0.2), a: pick(-0.5, 0.1), b: pick(-0.2, 0.2), sigma: pick(1.8, 2.4), peak: pick(0.9, 1.3) }),
+    },
+    {
+      dyeClass: "nitrophenolate",
+      prefix: "NP",
+      names: ["Pier Yellow 61", "Pier Yellow 62"],
+      band: () => ({ nu0: pick(27.5, 29.0), s: pick(-1.5, -0.8), a: pick(0.8, 1.6), b: pick(-0.4, 0.0), sigma: pick(2.2, 2.8), peak: pick(0.9, 1.3) }),
+      acidBase: true,
+    },
+  ];
+}
+
+export function demoDyes(): DemoDye[] {
+  const random = rng(20261202);
+  const dyes: DemoDye[] = [];
+  let serial = 100;
+  for (const fam of families(random)) {
+    for (const name of fam.names) {
+      serial += 7;
+      const band = fam.band();
+      const dye: DemoDye = {
+        code: `KB-${fam.prefix}-${serial}`,
+        name,
+        dyeClass: fam.dyeClass,
+        synonyms: [`${fam.prefix}${serial}`, `${name.split(" ")[0]} ${fam.prefix}-${serial}`],
+        molarMass: Math.round((280 + 420 * random()) * 100) / 100,
+        notes: `Invented demo dye of the ${fam.dyeClass} family (Kestrel Bay Coatings demo scenario).`,
+        hazards: fam.hazards ?? HAZ_GENERIC,
+        band,
+      };
+      if (fam.acidBase) {
+        // The base form absorbs at lower energy (bathochromic), as typical for phenolate/azo indicators.
+        dye.baseBand = { ...band, nu0: band.nu0 - (3.0 + 3.5 * random()), peak: band.peak * (1.1 + 0.4 * random()) };
+        dye.pKa = Math.round((3 + 7 * random()) * 10) / 10;
+      }
+      dyes.push(dye);
+    }
+  }
+  return dyes;
+}
+
+function bandCentre(band: Band, solvent: SolventParams): number {
+  return band.nu0 + band.s * solvent.piStar + band.a * solvent.alpha + band.b * solvent.beta;
+}
+
+/** Absorbance spectrum (380–780 nm, 2 nm) of a dye in a solvent at a pH (null = unbuffered, neutral form). */
+export function demoSpectrum(dye: DemoDye, solvent: SolventParams, pH: number | null, scale = 1): SampledSpectrum {
+  const wavelengths: number[] = [];
+  const values: number[] = [];
+  const fractionBase = dye.baseBand && dye.pKa !== undefined && pH !== null ? 1 / (1 + Math.pow(10, dye.pKa - pH)) : 0;
+  for (let nm = 380; nm <= 780; nm += 2) {
+    const nu = 1e4 / nm; // kK
+    let a = 0;
+    const acidCentre = bandCentre(dye.band, solvent);
+    a += (1 - fractionBase) * dye.band.peak * Math.exp(-0.5 * ((nu - acidCentre) / dye.band.sigma) ** 2);
+    if (dye.baseBand && fractionBase > 0) {
+      const baseCentre = bandCentre(dye.baseBand, solvent);
+      a += fractionBase * dye.baseBand.peak * Math.exp(-0.5 * ((nu - baseCentre) / dye.baseBand.sigma) ** 2);
+    }
+    wavelengths.push(nm);
+    values.push(a * scale);
+  }
+  return { wavelengths, values };
+}
+
+export function demoColour(dye: DemoDye, solvent: SolventParams, pH: number | null): { xyz: Xyz; lab: Lab } {
+  const xyz = absorbanceToXyz(demoSpectrum(dye, solvent, pH), "D65");
+  return { xyz, lab: xyzToLab(xyz, WHITE_POINTS_2DEG.D65) };
+}

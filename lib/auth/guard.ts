@@ -1,0 +1,135 @@
+/**
+ * The one wrapper every route handler and server action goes through: parse the input with zod,
+ * identify the caller, check the role, then run the handler. Failures become typed errors.
+ */
+import "server-only";
+import { unstable_rethrow } from "next/navigation";
+import { z } from "zod";
+import { db } from "@/db/client";
+import type { Role } from "@/db/schema";
+import { AppError, isAppError } from "@/lib/errors";
+import { identifyCaller, sameOrigin } from "./request";
+import { describeAllowed, hasRole } from "./roles";
+import type { AuthUser } from "./service";
+import { currentUser } from "./session";
+
+export type Access = readonly Role[] | "public";
+
+function flattenIssues(error: z.ZodError): { message: string; fieldErrors: Record<string, string[]> } {
+  const fieldErrors: Record<string, string[]> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.join(".") || "_";
+    (fieldErrors[key] ??= []).push(issue.message);
+  }
+  const first = error.issues[0];
+  const where = first.path.length ? `${first.path.join(".")}: ` : "";
+  return { message: `${where}${first.message}`, fieldErrors };
+}
+
+export function parseInput<S extends z.ZodType>(schema: S, input: unknown): z.infer<S> {
+  const result = schema.safeParse(input);
+  if (!result.success) {
+    const { message, fieldErrors } = flattenIssues(result.error);
+    throw new AppError("invalid_input", message, fieldErrors);
+  }
+  return result.data;
+}
+
+function authorize(user: AuthUser | null, access: Access): asserts user is AuthUser {
+  if (access === "public") return;
+  if (!user) throw new AppError("unauthenticated", "Sign in first, or send an API token as 'Authorization: Bearer <token>'.");
+  if (!hasRole(user.role, access)) {
+    throw new AppError("forbidden", `Only ${describeAllowed(access)} may do this; you are signed in as a ${user.role}.`);
+  }
+}
+
+export function errorResponse(error: unknown): Response {
+  if (isAppError(error)) {
+    return Response.json(
+      { error: { code: error.code, message: error.message, ...(error.fieldErrors ? { fields: error.fieldErrors } : {}) } },
+      { status: error.status },
+    );
+  }
+  console.error("Unhandled error in route handler:", error);
+  return Response.json(
+    { error: { code: "internal", message: "Something went wrong on the server. Try again; if it keeps happening, tell your admin." } },
+    { status: 500 },
+  );
+}
+
+type RouteContext<P> = { params: Promise<P> };
+
+/** Route handler wrapper. `query` is parsed from the URL's search params; `body` from JSON. */
+export function apiRoute<Q extends z.ZodType = z.ZodType<Record<string, never>>, B extends z.ZodType = z.ZodType<undefined>, P = unknown>(
+  spec: { access: Access; query?: Q; body?: B },
+  handler: (ctx: { req: Request; user: AuthUser; query: z.infer<Q>; body: z.infer<B>; params: P }) => Promise<Response | unknown>,
+) {
+  return async (req: Request, context?: RouteContext<P>): Promise<Response> => {
+    try {
+      const caller = await identifyCaller(db(), req.headers);
+      if (caller.kind === "invalid") throw new AppError("unauthenticated", caller.reason);
+      const user = caller.kind === "user" ? caller.user : null;
+      authorize(user, spec.access);
+      const mutating = !["GET", "HEAD", "OPTIONS"].includes(req.method);
+      if (mutating && caller.kind === "user" && caller.via === "session" && !sameOrigin(req.headers)) {
+        throw new AppError("forbidden", "This request did not come from a Solvatlas page; reload the page and try again.");
+      }
+      const query = spec.query ? parseInput(spec.query, Object.fromEntries(new URL(req.url).searchParams)) : {};
+      let body: unknown = undefined;
+      if (spec.body) {
+        const raw = await req.json().catch(() => {
+          throw new AppError("invalid_input", "The request body must be valid JSON.");
+        });
+        body = parseInput(spec.body, raw);
+      }
+      const params = (context ? await context.params : {}) as P;
+      const result = await handler({ req, user: user as AuthUser, query: query as z.infer<Q>, body: body as z.infer<B>, params });
+      return result instanceof Response ? result : Response.json(result);
+    } catch (error) {
+      return errorResponse(error);
+    }
+  };
+}
+
+/** What a server action returns to its form. */
+export type ActionState = {
+  ok: boolean;
+  message?: string;
+  fieldErrors?: Record<string, string[]>;
+  data?: Record<string, unknown>;
+} | null;
+
+export function formDataToObject(formData: FormData): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const [key, value] of formData.entries()) {
+    if (key.startsWith("$ACTION")) continue;
+    if (key in out) {
+      const prev = out[key];
+      out[key] = Array.isArray(prev) ? [...prev, value] : [prev, value];
+    } else out[key] = value;
+  }
+  return out;
+}
+
+/**
+ * Server action wrapper, usable with useActionState: `(prevState, formData) => ActionState`.
+ * Actions are public endpoints; this checks the caller's session and role on every call.
+ */
+export function formAction<S extends z.ZodType>(
+  spec: { access: Access; schema: S },
+  handler: (input: z.infer<S>, ctx: { user: AuthUser }) => Promise<ActionState | void>,
+) {
+  return async (_prev: ActionState, formData: FormData): Promise<ActionState> => {
+    try {
+      const user = await currentUser();
+      authorize(user, spec.access);
+      const input = parseInput(spec.schema, formDataToObject(formData));
+      return (await handler(input, { user })) ?? { ok: true };
+    } catch (error) {
+      unstable_rethrow(error);
+      if (isAppError(error)) return { ok: false, message: error.message, fieldErrors: error.fieldErrors };
+      console.error("Unhandled error in server action:", error);
+      return { ok: false, message: "Something went wrong on the server. Nothing was saved; try again." };
+    }
+  };
+}

@@ -1,0 +1,37 @@
+import Fuse from "fuse.js";
+
+export type SearchableDye = {
+  id: string;
+  code: string;
+  name: string;
+  synonyms: string[];
+  casNumber: string | null;
+  dyeClass: string;
+  notes: string;
+};
+
+/**
+ * Typo-tolerant text search over dyes (fuse.js). Exact code or CAS matches come first; the fuzzy
+ * threshold 0.35 lets "merocyanin" or "Tidewatr" through without matching everything.
+ */
+export function searchDyesByText<T extends SearchableDye>(all: T[], query: string, limit = 50): T[] {
+  const q = query.trim();
+  if (!q) return all.slice(0, limit);
+  const exact = all.filter((d) => d.code.toLowerCase() === q.toLowerCase() || d.casNumber === q);
+  const fuse = new Fuse(all, {
+    keys: [
+      { name: "code", weight: 3 },
+      { name: "name", weight: 3 },
+      { name: "synonyms", weight: 2 },
+      { name: "casNumber", weight: 2 },
+      { name: "dyeClass", weight: 1.5 },
+      { name: "notes", weight: 0.5 },
+    ],
+    threshold: 0.35,
+    ignoreLocation: true,
+    minMatchCharLength: 2,
+  });
+  const fuzzy = fuse.search(q, { limit }).map((r) => r.item);
+  const seen = new Set<string>();
+  return [...exact, ...fuzzy].filter((d) => (seen.has(d.id) ? false : (seen.add(d.id), true))).slice(0, limit);
+}
