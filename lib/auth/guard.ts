@@ -94,6 +94,8 @@ export function apiRoute<Q extends z.ZodType = z.ZodType<Record<string, never>>,
 /** What a server action returns to its form. */
 export type ActionState = {
   ok: boolean;
+  /** Error code when ok is false (see lib/errors). */
+  code?: string;
   message?: string;
   fieldErrors?: Record<string, string[]>;
   data?: Record<string, unknown>;
@@ -127,9 +129,9 @@ export function formAction<S extends z.ZodType>(
       return (await handler(input, { user })) ?? { ok: true };
     } catch (error) {
       unstable_rethrow(error);
-      if (isAppError(error)) return { ok: false, message: error.message, fieldErrors: error.fieldErrors };
+      if (isAppError(error)) return { ok: false, code: error.code, message: error.message, fieldErrors: error.fieldErrors };
       console.error("Unhandled error in server action:", error);
-      return { ok: false, message: "Something went wrong on the server. Nothing was saved; try again." };
+      return { ok: false, code: "internal", message: "Something went wrong on the server. Nothing was saved; try again." };
     }
   };
 }

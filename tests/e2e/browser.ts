@@ -1,0 +1,25 @@
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { chromium, type BrowserContext, type Page } from "playwright-core";
+
+/** Debian's Chromium, headless, with a fresh profile and no background traffic. */
+export async function launchBrowser(): Promise<BrowserContext> {
+  const profile = fs.mkdtempSync(path.join(os.tmpdir(), "solvatlas-chrome-"));
+  return chromium.launchPersistentContext(profile, {
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    headless: true,
+    viewport: { width: 1280, height: 860 },
+    args: ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
+  });
+}
+
+/** Collects console errors so a test can assert a page loaded cleanly. */
+export function watchConsole(page: Page): string[] {
+  const errors: string[] = [];
+  page.on("console", (m) => {
+    if (m.type() === "error") errors.push(m.text());
+  });
+  page.on("pageerror", (e) => errors.push(e.message));
+  return errors;
+}
