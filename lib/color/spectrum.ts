@@ -86,6 +86,9 @@ export function parseAbsorbanceCsv(text: string): SampledSpectrum {
   for (let i = first + 1; i < lines.length; i++) {
     if (lines[i].trim() === "") continue;
     const c = cells(lines[i]);
+    if (c.length > header.length) {
+      throw new ColorInputError(`Line ${i + 1} of the spectrum has ${c.length} values but the header names ${header.length} columns; use a dot, not a comma, as the decimal separator.`);
+    }
     const parse = (s: string | undefined, what: string) => {
       const v = s !== undefined && /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s) ? Number(s) : NaN;
       if (!Number.isFinite(v)) {
