@@ -47,6 +47,6 @@ export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;
   if (!name) throw new CliError(USAGE);
   const command = COMMANDS[name];
-  if (!command) throw new CliError(`Unknown command '${name}'. ${USAGE}`);
+  if (!command) throw new CliError(`Unknown command '${name}'; ${USAGE.charAt(0).toLowerCase()}${USAGE.slice(1)}`);
   return command(rest);
 }
