@@ -6,6 +6,7 @@ import { ColorInputError } from "../color/errors";
 import type { WhitePointName } from "../color/illuminants";
 import { colourOfRegion } from "../color/measure";
 import { decodePhoto, measureRegion, type RegionSpec } from "../color/regions";
+import { fitPkaHendersonHasselbalch, parsePhSeriesCsv } from "../color/pka";
 import { parseAbsorbanceCsv, spectrumColour } from "../color/spectrum";
 import type { Lab } from "../color/types";
 import { CliError } from "./errors";
@@ -146,6 +147,30 @@ export async function spectrumCommand(args: string[]): Promise<unknown> {
     };
   } catch (error) {
     if (error instanceof TypeError) throw new CliError("The spectrum file is not UTF-8 text; save it as a plain CSV file.");
+    asCliError(error);
+  }
+}
+
+const PKA_USAGE = "use 'pka <csv> [--blank L,a,b]'";
+
+export async function pkaCommand(args: string[]): Promise<unknown> {
+  const { values, positionals } = parse(args, { blank: { type: "string" } }, PKA_USAGE);
+  if (positionals.length > 1) throw new CliError(`Give one pH series file, not ${positionals.length}; ${PKA_USAGE}.`);
+  const blank = values.blank !== undefined ? (numberList(values.blank, 3, "--blank", "100,0,0") as Lab) : ([100, 0, 0] as Lab);
+  const bytes = await readInput(positionals[0], "pH series CSV", PKA_USAGE);
+  try {
+    const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+    const fit = fitPkaHendersonHasselbalch(parsePhSeriesCsv(text), blank);
+    return {
+      pKa: fit.pKa,
+      pKaStdErr: fit.pKaStdErr,
+      transition: fit.transition,
+      acidLab: fit.acidLab,
+      baseLab: fit.baseLab,
+      rmsDeltaE00: fit.rmsDeltaE00,
+    };
+  } catch (error) {
+    if (error instanceof TypeError) throw new CliError("The pH series file is not UTF-8 text; save it as a plain CSV file.");
     asCliError(error);
   }
 }

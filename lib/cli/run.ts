@@ -1,11 +1,11 @@
 import { parseArgs } from "node:util";
 
-import { measureCommand, spectrumCommand } from "./color-commands";
+import { measureCommand, pkaCommand, spectrumCommand } from "./color-commands";
 import { CliError } from "./errors";
 
 export { CliError };
 
-const USAGE = "Usage: cli <command> ... with a command of measure, spectrum or token (see the README).";
+const USAGE = "Usage: cli <command> ... with a command of measure, spectrum, pka or token (see the README).";
 
 type Command = (args: string[]) => Promise<unknown>;
 
@@ -41,7 +41,7 @@ const tokenCommand: Command = async (args) => {
   }
 };
 
-export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, token: tokenCommand };
+export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, pka: pkaCommand, token: tokenCommand };
 
 export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;

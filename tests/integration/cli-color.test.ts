@@ -9,7 +9,7 @@ import os from "node:os";
 import path from "node:path";
 import sharp from "sharp";
 import { beforeAll, describe, expect, it } from "vitest";
-import { labToLinearSrgb } from "@/lib/color/convert";
+import { labToLinearSrgb, linearSrgbToLab } from "@/lib/color/convert";
 import { deltaE00 } from "@/lib/color/difference";
 import { srgbEncode } from "@/lib/color/srgb";
 import type { Lab } from "@/lib/color/types";
@@ -69,6 +69,17 @@ beforeAll(async () => {
   fs.writeFileSync(file("comma.csv"), "wavelength_nm;absorbance\n400;0,05\n500;0,7\n");
   fs.writeFileSync(file("bad-number.csv"), "wavelength_nm,absorbance\n400,0.05\n500,n/a\n");
   fs.writeFileSync(file("empty.csv"), "");
+  // A pH series of an invented indicator: yellow (acid) to violet (base), pKa 7.0, mixed per channel by Beer–Lambert.
+  const white = labToLinearSrgb([100, 0, 0], "D65");
+  const acid = labToLinearSrgb([85, 2, 60], "D65").map((v, c) => -Math.log10(v / white[c]));
+  const base = labToLinearSrgb([45, 55, -40], "D65").map((v, c) => -Math.log10(v / white[c]));
+  const rows = [4, 5, 6, 6.5, 7, 7.5, 8, 9, 10].map((pH) => {
+    const f = 1 / (1 + 10 ** (7 - pH));
+    const lab = linearSrgbToLab([0, 1, 2].map((c) => white[c] * 10 ** -((1 - f) * acid[c] + f * base[c])) as [number, number, number], "D65");
+    return [pH, ...lab].join(",");
+  });
+  fs.writeFileSync(file("series.csv"), ["pH,L,a,b", ...rows].join("\n") + "\n");
+  fs.writeFileSync(file("short-series.csv"), ["pH,L,a,b", ...rows.slice(0, 3)].join("\n") + "\n");
   fs.writeFileSync(file("binary.csv"), Buffer.from([0xff, 0xfe, 0x00, 0x81, 0x00]));
 });
 
@@ -170,6 +181,31 @@ describe("cli spectrum", () => {
     [["spectrum", "band.csv", "--scale", "two"], /non-negative number/],
     [["spectrum", "band.csv", "--illuminant", "F2"], /D65, D50 or A/],
     [["spectrum"], /Give the spectrum CSV file/],
+  ])("refuses %j cleanly", async (args, pattern) => {
+    const run = await cli(args.map((a, i) => (i === 1 && !a.startsWith("/") ? file(a) : a)));
+    expectRefusal(run, pattern);
+  });
+});
+
+describe("cli pka", () => {
+  it("prints the contract's JSON and recovers the pKa of the series", async () => {
+    const run = await cli(["pka", file("series.csv")], true);
+    expect(run.stderr).toBe("");
+    const out = JSON.parse(run.stdout);
+    expect(Object.keys(out)).toEqual(["pKa", "pKaStdErr", "transition", "acidLab", "baseLab", "rmsDeltaE00"]);
+    expect(out.pKa).toBeCloseTo(7, 3);
+    expect(out.transition[0]).toBeLessThan(out.pKa);
+    expect(out.transition[1]).toBeGreaterThan(out.pKa);
+    expect(deltaE00(out.acidLab, [85, 2, 60])).toBeLessThan(0.05);
+    expect(out.rmsDeltaE00).toBeLessThan(0.05);
+  });
+
+  it.each([
+    [["pka", "/no/such/series.csv"], /does not exist/],
+    [["pka", "short-series.csv"], /at least 5 vials/],
+    [["pka", "band.csv"], /header/],
+    [["pka", "series.csv", "--blank", "100,0"], /3 comma-separated numbers/],
+    [["pka"], /Give the pH series CSV file/],
   ])("refuses %j cleanly", async (args, pattern) => {
     const run = await cli(args.map((a, i) => (i === 1 && !a.startsWith("/") ? file(a) : a)));
     expectRefusal(run, pattern);
