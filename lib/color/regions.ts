@@ -162,6 +162,8 @@ function decodeLut(bitDepth: 8 | 16): Float64Array {
 const Y_BINS = 65536;
 /** Fixed-point fraction bits of the luminance tables (integer adds are faster than float adds). */
 const Y_FRACTION_BITS = 4;
+/** Sum of up to three of these stays a negative int32 (3 × −2²⁸ > −2³¹). */
+const CLIPPED_ENTRY = -(2 ** 28);
 const Y_LUTS: Partial<Record<8 | 16, [Int32Array, Int32Array, Int32Array]>> = {};
 /**
  * Per-channel luminance contributions in bins of 1/65535 of white (fixed point, 4 fraction bits):
@@ -174,7 +176,14 @@ function luminanceLuts(bitDepth: 8 | 16): [Int32Array, Int32Array, Int32Array] {
   if (!luts) {
     const lin = decodeLut(bitDepth);
     const scale = (Y_BINS - 1) * (1 << Y_FRACTION_BITS);
-    const table = (weight: number) => Int32Array.from(lin, (v) => Math.round(weight * v * scale));
+    const table = (weight: number) => {
+      const t = Int32Array.from(lin, (v) => Math.round(weight * v * scale));
+      // Clipped codes (0 and the top code) get a large negative entry, so a clipped pixel's
+      // luminance bin is negative and the outlier test drops it with no separate clip test.
+      t[0] = CLIPPED_ENTRY;
+      t[t.length - 1] = CLIPPED_ENTRY;
+      return t;
+    };
     luts = [table(0.2126), table(0.7152), table(0.0722)];
     Y_LUTS[bitDepth] = luts;
   }
@@ -277,33 +286,37 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
   }
   if (pixels === 0) throw new ColorInputError(`The region ${describe(region)} contains no whole pixel; make it larger.`);
 
-  // Clipped: a channel at code 0 or `max`; with the unsigned compare, (code − 1) ≥ max − 1 says both.
-  const top = max - 1;
   // Pass 1: luminance histogram of the unclipped pixels, from every pixel of small regions and every
-  // 4th pixel of large ones: the median and MAD only set the outlier cut, and 1 in 4 of ≥ 20 000
-  // pixels estimates them to well under a code value while saving most of a pass over the data.
+  // 4th pixel of every 2nd row of large ones: the median and MAD only set the outlier cut, and 1 in 8
+  // of ≥ 20 000 pixels estimates them to well under a code value while saving most of a pass. The
+  // sample's clipped fraction serves the near-clipping flag.
   const yHist = new Uint32Array(Y_BINS);
-  const sampleLuminance = (stride: number): number => {
+  let sampledClipped = 0;
+  const sampleLuminance = (stride: number, rowStep: number): number => {
     let count = 0;
-    for (let s = 0; s < spans.length; s += 2) {
+    sampledClipped = 0;
+    for (let s = 0; s < spans.length; s += 2 * rowStep) {
       for (let o = spans[s], oEnd = spans[s + 1]; o <= oEnd; o += stride) {
-        const r = data[o];
-        const g = data[o + 1];
-        const b = data[o + 2];
-        if ((r - 1) >>> 0 >= top || (g - 1) >>> 0 >= top || (b - 1) >>> 0 >= top) continue;
-        yHist[(yr[r] + yg[g] + yb[b]) >> Y_FRACTION_BITS]++;
+        const bin = (yr[data[o]] + yg[data[o + 1]] + yb[data[o + 2]]) >> Y_FRACTION_BITS;
+        if (bin < 0) {
+          sampledClipped++;
+          continue;
+        }
+        yHist[bin]++;
         count++;
       }
     }
     return count;
   };
-  let sampled = sampleLuminance(pixels >= 20_000 ? 12 : 3);
-  if (sampled === 0 && pixels >= 20_000) sampled = sampleLuminance(3);
+  const large = pixels >= 20_000;
+  let sampled = large ? sampleLuminance(12, 2) : sampleLuminance(3, 1);
+  if (sampled === 0 && large) sampled = sampleLuminance(3, 1);
   if (sampled === 0) {
     throw new ColorInputError(
       `Every pixel of the region ${describe(region)} is clipped (black or white); reduce the exposure or move the region onto the sample.`,
     );
   }
+  const clippedFraction = sampledClipped / (sampled + sampledClipped);
   const medBin = histogramMedian(yHist, sampled);
   const madBins = histogramMad(yHist, sampled, medBin);
   const med = medBin / (Y_BINS - 1);
@@ -312,20 +325,15 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
   const lo = Math.max(0, Math.ceil(medBin - cut));
   const hi = Math.floor(medBin + cut);
 
-  // Pass 2, every pixel: drop clipped ones and luminance outliers, histogram the codes of the rest.
+  // Pass 2, every pixel: drop clipped ones (negative bin) and luminance outliers, histogram the rest.
   const hist = [new Uint32Array(max + 1), new Uint32Array(max + 1), new Uint32Array(max + 1)];
   const [h0, h1, h2] = hist;
-  let clipped = 0;
   let accepted = 0;
   for (let s = 0; s < spans.length; s += 2) {
     for (let o = spans[s], oEnd = spans[s + 1]; o <= oEnd; o += 3) {
       const r = data[o];
       const g = data[o + 1];
       const b = data[o + 2];
-      if ((r - 1) >>> 0 >= top || (g - 1) >>> 0 >= top || (b - 1) >>> 0 >= top) {
-        clipped++;
-        continue;
-      }
       const bin = (yr[r] + yg[g] + yb[b]) >> Y_FRACTION_BITS;
       if (bin < lo || bin > hi) continue;
       h0[r]++;
@@ -373,7 +381,7 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
   if (rejected > REGION_LIMITS.maxRejectedFraction * pixels) flags.push("much-rejected");
   if (spread > REGION_LIMITS.maxSpread) flags.push("non-uniform");
   const encoded = linearRgb.map(srgbEncode);
-  if (clipped > REGION_LIMITS.maxClippedFraction * pixels || encoded.some((e) => e < REGION_LIMITS.clipMargin || e > 1 - REGION_LIMITS.clipMargin)) {
+  if (clippedFraction > REGION_LIMITS.maxClippedFraction || encoded.some((e) => e < REGION_LIMITS.clipMargin || e > 1 - REGION_LIMITS.clipMargin)) {
     flags.push("near-clipping");
   }
   return { linearRgb, pixels, rejected, spread, flags };
