@@ -79,17 +79,15 @@ export function sniffPhotoFormat(b: Uint8Array): PhotoFormat | null {
   return null;
 }
 
-function decodeFailure(error: unknown): ColorInputError {
-  const message = error instanceof Error ? error.message : String(error);
-  if (/pixel limit/i.test(message)) return tooLarge();
-  return new ColorInputError("The image could not be decoded because its data is truncated or damaged; export or copy the photo again.");
+function tooLarge(maxPixels: number): ColorInputError {
+  const limit = maxPixels >= 1e6 ? `${Number((maxPixels / 1e6).toFixed(1))} million` : String(maxPixels);
+  return new ColorInputError(`The image has more than ${limit} pixels; reduce it or crop it to the vials before measuring.`);
 }
 
-let maxPixelsInMessage = DEFAULT_MAX_PIXELS;
-function tooLarge(): ColorInputError {
-  return new ColorInputError(
-    `The image has more than ${(maxPixelsInMessage / 1e6).toFixed(0)} megapixels; reduce it or crop it to the vials before measuring.`,
-  );
+function decodeFailure(error: unknown, maxPixels: number): ColorInputError {
+  const message = error instanceof Error ? error.message : String(error);
+  if (/pixel limit/i.test(message)) return tooLarge(maxPixels);
+  return new ColorInputError("The image could not be decoded because its data is truncated or damaged; export or copy the photo again.");
 }
 
 /**
@@ -99,7 +97,6 @@ function tooLarge(): ColorInputError {
  */
 export async function decodePhoto(bytes: Uint8Array, opts: { maxPixels?: number } = {}): Promise<DecodedPhoto> {
   const maxPixels = opts.maxPixels ?? DEFAULT_MAX_PIXELS;
-  maxPixelsInMessage = maxPixels;
   if (bytes.length === 0) throw new ColorInputError(`The file is empty; choose a photo in ${ALLOWED} format.`);
   const format = sniffPhotoFormat(bytes);
   if (!format) throw new ColorInputError(`The file is not a ${ALLOWED} image; export the photo in one of those formats.`);
@@ -110,13 +107,13 @@ export async function decodePhoto(bytes: Uint8Array, opts: { maxPixels?: number 
   try {
     meta = await sharp(input, options).metadata();
   } catch (error) {
-    throw decodeFailure(error);
+    throw decodeFailure(error, maxPixels);
   }
-  if (meta.format !== format && !(format === "tiff" && meta.format === "tiff")) {
+  if (meta.format !== format) {
     throw new ColorInputError(`The file starts like a ${format.toUpperCase()} image but is not one; export the photo again.`);
   }
-  if (!meta.width || !meta.height) throw decodeFailure(new Error("no size"));
-  if (meta.width * meta.height > maxPixels) throw tooLarge();
+  if (!meta.width || !meta.height) throw decodeFailure(new Error("no size"), maxPixels);
+  if (meta.width * meta.height > maxPixels) throw tooLarge(maxPixels);
   const bitDepth: 8 | 16 = meta.depth === "ushort" ? 16 : meta.depth === "uchar" ? 8 : 0 as 8;
   if (bitDepth !== 8 && bitDepth !== 16) {
     throw new ColorInputError(`The image stores ${meta.depth} samples; save it with 8- or 16-bit integer channels.`);
@@ -126,11 +123,20 @@ export async function decodePhoto(bytes: Uint8Array, opts: { maxPixels?: number 
   try {
     // rotate() without an angle applies the EXIF orientation. For 16-bit output libvips needs the
     // rgb16 interpretation: raw({depth:"ushort"}) alone would hold 8-bit values in 16-bit words.
+    // For 8-bit output libvips converts an embedded ICC profile to sRGB itself; for rgb16 it does
+    // not, so the transform is asked for explicitly (only with a profile: without one it would
+    // distort the values).
     let pipeline = sharp(input, options).rotate().removeAlpha();
-    pipeline = bitDepth === 16 ? pipeline.toColourspace("rgb16").raw({ depth: "ushort" }) : pipeline.toColourspace("srgb").raw();
+    if (bitDepth === 16) {
+      pipeline = pipeline.toColourspace("rgb16");
+      if (meta.icc) pipeline = pipeline.withIccProfile("srgb");
+      pipeline = pipeline.raw({ depth: "ushort" });
+    } else {
+      pipeline = pipeline.toColourspace("srgb").raw();
+    }
     raw = await pipeline.toBuffer({ resolveWithObject: true });
   } catch (error) {
-    throw decodeFailure(error);
+    throw decodeFailure(error, maxPixels);
   }
   const { info } = raw;
   if (info.channels !== 3) throw new ColorInputError("The image could not be turned into three colour channels; save it as an RGB photo.");

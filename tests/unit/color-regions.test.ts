@@ -5,7 +5,8 @@ import { labToLinearSrgb, linearSrgbToLab } from "@/lib/color/convert";
 import { deltaE00 } from "@/lib/color/difference";
 import { colourOfRegion } from "@/lib/color/measure";
 import { ColorInputError, decodePhoto, measureRegion, measureRegions, sniffPhotoFormat, type RegionSpec } from "@/lib/color/regions";
-import { srgbEncode } from "@/lib/color/srgb";
+import { mat3Inverse, mat3Mul, type Mat3 } from "@/lib/color/matrix";
+import { mat3MulVec, srgbEncode } from "@/lib/color/srgb";
 import type { Lab, LinearRgb } from "@/lib/color/types";
 
 /** The acceptance bound for synthetic photos (a design target, no published source). */
@@ -143,6 +144,42 @@ describe("photo regions (synthetic images made in the test)", () => {
     expect(Math.abs(linearSrgbToLab(topLeft.linearRgb, "D65")[1])).toBeLessThan(3);
   });
 
+  it("converts an embedded ICC profile (Display P3) to sRGB before measuring (8-bit)", async () => {
+    const width = 40;
+    const height = 30;
+    const pixels = render({ width, height, depth: 8, paint: () => sampleRgb, noise: 0 });
+    // For 8-bit output sharp converts the sRGB pixels to P3 on writing and embeds the P3 profile.
+    const bytes = new Uint8Array(await sharp(pixels, { raw: { width, height, channels: 3 } }).withIccProfile("p3").png().toBuffer());
+    const photo = await decodePhoto(bytes);
+    const lab = linearSrgbToLab(measureRegion(photo, { shape: "rect", x: 0, y: 0, w: width, h: height }).linearRgb, "D65");
+    expect(deltaE00(lab, SAMPLE_LAB)).toBeLessThan(MAX_DE00);
+  });
+
+  it("converts an embedded ICC profile (Display P3) to sRGB before measuring (16-bit)", async () => {
+    // Display P3: primaries R 0.680/0.320, G 0.265/0.690, B 0.150/0.060, D65 white, sRGB transfer
+    // curve (SMPTE EG 432-1 / Apple; from memory). Linear P3 = M_P3⁻¹ · M_sRGB · linear sRGB.
+    const fromPrimaries = (xy: number[][]): Mat3 => {
+      const cols = xy.map(([x, y]) => [x / y, 1, (1 - x - y) / y]);
+      const m: Mat3 = [0, 1, 2].map((r) => [cols[0][r], cols[1][r], cols[2][r]]) as Mat3;
+      const w = [0.3127 / 0.329, 1, (1 - 0.3127 - 0.329) / 0.329] as LinearRgb;
+      const s = mat3MulVec(mat3Inverse(m), w);
+      return m.map((row) => [row[0] * s[0], row[1] * s[1], row[2] * s[2]]) as Mat3;
+    };
+    const srgbToP3 = mat3Mul(mat3Inverse(fromPrimaries([[0.68, 0.32], [0.265, 0.69], [0.15, 0.06]])), fromPrimaries([[0.64, 0.33], [0.3, 0.6], [0.15, 0.06]]));
+    const p3 = mat3MulVec(srgbToP3, sampleRgb).map((v) => Math.round(srgbEncode(v) * 65535));
+    const width = 40;
+    const height = 30;
+    const pixels = new Uint16Array(width * height * 3).map((_, i) => p3[i % 3]);
+    // When writing rgb16, sharp attaches the profile without converting the pixels (checked below).
+    const bytes = new Uint8Array(await sharp(pixels, { raw: { width, height, channels: 3 } }).toColourspace("rgb16").withIccProfile("p3").png().toBuffer());
+    const stored = await sharp(bytes, { ignoreIcc: true }).toColourspace("rgb16").raw({ depth: "ushort" }).toBuffer();
+    expect(Array.from(new Uint16Array(stored.buffer, stored.byteOffset, 3))).toEqual(p3);
+    const photo = await decodePhoto(bytes);
+    expect(photo.bitDepth).toBe(16);
+    const lab = linearSrgbToLab(measureRegion(photo, { shape: "rect", x: 0, y: 0, w: width, h: height }).linearRgb, "D65");
+    expect(deltaE00(lab, SAMPLE_LAB)).toBeLessThan(MAX_DE00);
+  });
+
   it("counts the pixels of an ellipse inscribed in its box (≈ π/4 of the box)", async () => {
     const photo = await decodePhoto(await encode(render({ width: 200, height: 200, depth: 8, paint: () => sampleRgb, noise: 0 }), 200, 200, "png"));
     const rect = measureRegion(photo, { shape: "rect", x: 0, y: 0, w: 200, h: 200 });
@@ -197,7 +234,7 @@ describe("photo input is refused cleanly", () => {
 
   it("refuses an image above the pixel limit", async () => {
     const bytes = await encode(render({ width: 50, height: 40, depth: 8, paint: () => sampleRgb, noise: 0 }), 50, 40, "png");
-    await expect(decodePhoto(bytes, { maxPixels: 1000 })).rejects.toThrow(/megapixels/);
+    await expect(decodePhoto(bytes, { maxPixels: 1000 })).rejects.toThrow(/more than 1000 pixels/);
   });
 
   it("refuses regions off the image, empty or not numbers", async () => {
