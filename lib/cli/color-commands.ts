@@ -116,6 +116,8 @@ export async function measureCommand(args: string[]): Promise<unknown> {
         pixels: stats.pixels,
         rejected: stats.rejected,
         flags: [...colour.flags, ...referenceFlags],
+        // Added to the contract's fields: the region's pixel-to-pixel scatter in ΔE*ab.
+        spread: stats.spread,
       };
     });
     return { measurements };
