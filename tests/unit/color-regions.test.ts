@@ -129,7 +129,10 @@ describe("photo regions (synthetic images made in the test)", () => {
     const pixels = render({ width, height, depth: 8, paint: (x, y) => (x < 20 && y < 20 ? red : [0.2, 0.2, 0.2]), noise: 0 });
     const jpeg = await sharp(pixels, { raw: { width, height, channels: 3 } })
       .jpeg({ quality: 95 })
-      .withExif({ IFD0: { Make: "Acme", Model: "Bench 1" } })
+      .withExif({
+        IFD0: { Make: "Acme", Model: "Bench 1", DateTime: "2026:12:01 10:00:00" },
+        IFD2: { DateTimeOriginal: "2026:11:30 09:15:02", ExposureTime: "1/60", FNumber: "28/10", ISOSpeedRatings: "200" },
+      })
       .withMetadata({ orientation: 6 })
       .toBuffer();
     const photo = await decodePhoto(new Uint8Array(jpeg));
@@ -137,6 +140,11 @@ describe("photo regions (synthetic images made in the test)", () => {
     expect(photo.exif.orientation).toBe(6);
     expect(photo.exif.make).toBe("Acme");
     expect(photo.exif.model).toBe("Bench 1");
+    // DateTimeOriginal (Exif sub-IFD) wins over IFD0 DateTime (CIPA DC-008).
+    expect(photo.exif.takenAt).toBe("2026:11:30 09:15:02");
+    expect(photo.exif.exposureTime).toBeCloseTo(1 / 60, 12);
+    expect(photo.exif.fNumber).toBeCloseTo(2.8, 12);
+    expect(photo.exif.iso).toBe(200);
     // After a clockwise quarter turn the stored top-left block sits at the top-right.
     const topRight = measureRegion(photo, { shape: "rect", x: 24, y: 2, w: 14, h: 14 });
     const topLeft = measureRegion(photo, { shape: "rect", x: 2, y: 2, w: 14, h: 14 });
