@@ -5,6 +5,7 @@ import { labToLinearSrgb, linearSrgbToLab } from "@/lib/color/convert";
 import { deltaE00 } from "@/lib/color/difference";
 import { colourOfRegion } from "@/lib/color/measure";
 import { ColorInputError, decodePhoto, measureRegion, measureRegions, sniffPhotoFormat, type RegionSpec } from "@/lib/color/regions";
+import { parseExif } from "@/lib/color/exif";
 import { mat3Inverse, mat3Mul, type Mat3 } from "@/lib/color/matrix";
 import { mat3MulVec, srgbEncode } from "@/lib/color/srgb";
 import type { Lab, LinearRgb } from "@/lib/color/types";
@@ -213,6 +214,19 @@ describe("photo regions (synthetic images made in the test)", () => {
     const stats = { linearRgb: [0.5, 0.2, 0.1] as LinearRgb, pixels: 100, rejected: 0, spread: 0, flags: [] };
     const colour = colourOfRegion(stats, { kind: "white-scaling", gains: [3, 1, 1] }, "D65");
     expect(colour.flags).toContain("out-of-srgb-gamut");
+  });
+});
+
+describe("EXIF reading", () => {
+  it("never throws on damaged EXIF blocks and reads nothing from them", () => {
+    let seed = 7;
+    for (let k = 0; k < 200; k++) {
+      const block = new Uint8Array(64).map(() => ((seed = (seed * 1103515245 + 12345) & 0x7fffffff) >> 16) & 0xff);
+      block.set([0x49, 0x49, 0x2a, 0x00], 0);
+      expect(() => parseExif(block)).not.toThrow();
+    }
+    expect(parseExif(new Uint8Array([1, 2, 3]))).toEqual({});
+    expect(parseExif(undefined)).toEqual({});
   });
 });
 
