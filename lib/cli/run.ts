@@ -1,11 +1,10 @@
 import { parseArgs } from "node:util";
-
 import { measureCommand, pkaCommand, spectrumCommand } from "./color-commands";
 import { CliError } from "./errors";
 
 export { CliError };
 
-const USAGE = "Usage: cli <command> ... with a command of measure, spectrum, pka or token (see the README).";
+const COMMAND_LIST = "measure <image> --roi x,y,w,h, spectrum <csv>, pka <csv> or token create --email <user> --name <label>";
 
 type Command = (args: string[]) => Promise<unknown>;
 
@@ -45,8 +44,8 @@ export const COMMANDS: Record<string, Command> = { measure: measureCommand, spec
 
 export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;
-  if (!name) throw new CliError(USAGE);
+  if (!name) throw new CliError(`Give a command: ${COMMAND_LIST}.`);
   const command = COMMANDS[name];
-  if (!command) throw new CliError(`Unknown command '${name}'; ${USAGE.charAt(0).toLowerCase()}${USAGE.slice(1)}`);
+  if (!command) throw new CliError(`Unknown command '${name}'; the commands are ${COMMAND_LIST}.`);
   return command(rest);
 }

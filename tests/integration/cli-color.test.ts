@@ -143,7 +143,7 @@ describe("cli measure", () => {
     [["measure", "scene.png", "--roi", "-5,0,10,10"], /--roi needs a value/],
     [["measure", "scene.png", "--roi=-5,0,10,10"], /whole non-negative/],
     [["measure", "scene.png", "other.png", "--roi", "0,0,10,10"], /one image/],
-    [["nonsense"], /Unknown command/],
+    [["nonsense"], /Unknown command 'nonsense'; the commands are measure/],
   ])("refuses %j cleanly", async (args, pattern) => {
     const run = await cli(args.map((a, i) => (i === 1 && !a.startsWith("/") && !a.startsWith("--") ? file(a) : a)));
     expectRefusal(run, pattern);
