@@ -1,7 +1,7 @@
 /**
  * Benchmark: measure 8 vial regions and one white reference in a generated 12 MP JPEG, and compare
  * the median time with one plain full decode of the same file (sharp → raw) in the same run.
- * Usage: npm run bench:measure [-- --runs 9]. Goal: ratio ≤ 1.5 (decode once, never per region).
+ * Usage: npm run bench:measure [-- --runs 15]. Goal: ratio ≤ 1.5 (decode once, never per region).
  */
 import sharp from "sharp";
 import { fitWhiteScaling } from "../lib/color/correction";
@@ -11,7 +11,7 @@ import { decodePhoto, measureRegion, measureRegions, type RegionSpec } from "../
 const WIDTH = 4000;
 const HEIGHT = 3000;
 const runsArg = process.argv.indexOf("--runs");
-const RUNS = runsArg > 0 ? Math.max(3, Number(process.argv[runsArg + 1]) || 9) : 9;
+const RUNS = runsArg > 0 ? Math.max(3, Number(process.argv[runsArg + 1]) || 15) : 15;
 
 /** Deterministic pseudo-random numbers (mulberry32) so every run measures the same picture. */
 function random(seed: number): () => number {
