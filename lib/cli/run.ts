@@ -1,13 +1,10 @@
 import { parseArgs } from "node:util";
-import { eq } from "drizzle-orm";
-import { databaseFile, migrateDatabase, openDatabase } from "../../db/connection";
-import { users } from "../../db/schema";
-import { createApiToken } from "../auth/service";
-import { dataDir } from "../config/env";
+import { measureCommand, pkaCommand, spectrumCommand } from "./color-commands";
+import { CliError } from "./errors";
 
-export class CliError extends Error {}
+export { CliError };
 
-const USAGE = "Usage: cli token create --email <user> --name <label> (commands: token).";
+const COMMAND_LIST = "measure <image> --roi x,y,w,h, spectrum <csv>, pka <csv> or token create --email <user> --name <label>";
 
 type Command = (args: string[]) => Promise<unknown>;
 
@@ -22,6 +19,14 @@ const tokenCommand: Command = async (args) => {
   }
   if (!values.email) throw new CliError("Give the account's e-mail with --email.");
   if (!values.name || !values.name.trim()) throw new CliError("Name the token with --name, e.g. --name plate-reader-script.");
+  // Loaded here so the colour commands start without the database and auth modules.
+  const [{ eq }, { databaseFile, migrateDatabase, openDatabase }, { users }, { createApiToken }, { dataDir }] = await Promise.all([
+    import("drizzle-orm"),
+    import("../../db/connection"),
+    import("../../db/schema"),
+    import("../auth/service"),
+    import("../config/env"),
+  ]);
   const db = openDatabase(databaseFile(dataDir()));
   try {
     migrateDatabase(db);
@@ -35,12 +40,12 @@ const tokenCommand: Command = async (args) => {
   }
 };
 
-export const COMMANDS: Record<string, Command> = { token: tokenCommand };
+export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, pka: pkaCommand, token: tokenCommand };
 
 export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;
-  if (!name) throw new CliError(USAGE);
+  if (!name) throw new CliError(`Give a command: ${COMMAND_LIST}.`);
   const command = COMMANDS[name];
-  if (!command) throw new CliError(`Unknown command '${name}'. ${USAGE}`);
+  if (!command) throw new CliError(`Unknown command '${name}'; the commands are ${COMMAND_LIST}.`);
   return command(rest);
 }
