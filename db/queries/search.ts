@@ -2,8 +2,9 @@ import type Database from "better-sqlite3";
 import { eq, sql } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
 import type { LabBox } from "../../lib/search/bound";
-import { conditionMatches, type ConditionFilter } from "../../lib/search/filters";
+import { classRuns, conditionClass, conditionMatches, type ConditionFilter } from "../../lib/search/filters";
 import { rankByColourIndexed, type ColourColumns } from "../../lib/search/rank";
+import type { ShiftDye } from "../../lib/search/shift";
 import type { Db } from "../connection";
 import { conditions, solvents, type AcidBase, type Medium } from "../schema";
 
@@ -76,7 +77,9 @@ function keyCache(client: Database.Database): KeyCache {
       // Overlap test: points are stored as degenerate boxes rounded outward to float32, so every
       // colour inside the query box is returned.
       boxIds: client
-        .prepare("SELECT id FROM measurement_lab_rtree WHERE l_max >= ? AND l_min <= ? AND a_max >= ? AND a_min <= ? AND b_max >= ? AND b_min <= ?")
+        .prepare(
+          "SELECT id FROM measurement_lab_rtree WHERE l_max >= ? AND l_min <= ? AND a_max >= ? AND a_min <= ? AND b_max >= ? AND b_min <= ? AND k_max >= ? AND k_min <= ?",
+        )
         .pluck(true),
       lookup: client
         .prepare(
@@ -188,8 +191,14 @@ export function searchByColour(
   const cache = keyCache(db.$client);
   if (!cache.warm) warmUp(db.$client, cache);
 
+  // The R*Tree's fourth dimension holds the condition class, so only matching classes are read.
+  const runs = classRuns(catalogue.filter((c) => allowedIds.has(c.id)).map((c) => conditionClass(c.medium, c.acidBase)));
   const fetch = (box: LabBox): ColourColumns => {
-    const keys = cache.boxIds.all(clamp(box.lMin), clamp(box.lMax), clamp(box.aMin), clamp(box.aMax), clamp(box.bMin), clamp(box.bMax)) as number[];
+    const keys: number[] = [];
+    for (const [kFrom, kTo] of runs) {
+      const part = cache.boxIds.all(clamp(box.lMin), clamp(box.lMax), clamp(box.aMin), clamp(box.aMax), clamp(box.bMin), clamp(box.bMax), kFrom - 0.5, kTo + 0.5) as number[];
+      for (const key of part) keys.push(key);
+    }
     const unknown = keys.filter((k) => !(k < cache.known.length && cache.known[k]));
     if (unknown.length) learn(cache, unknown);
     const allowed = cache.condIds.map((id) => allowedIds.has(id));
@@ -242,4 +251,33 @@ export function resolveSolvent(db: Db, { text }: { text: string }): { id: string
     .from(solvents)
     .where(sql`${solvents.id} = ${text} OR lower(${solvents.name}) = lower(${text})`)
     .get();
+}
+
+export type ShiftPayload = { measurementId: string; solvent: string; medium: Medium; acidBase: AcidBase; ph: number | null };
+
+/**
+ * Each dye's accepted colours under two conditions, for the shift search (lib/search/shift). A few
+ * thousand rows at most in a lab's catalogue, so read in one statement.
+ */
+export function shiftCandidates(db: Db, { a, b }: { a: ConditionFilter; b: ConditionFilter }): { dyes: Map<string, { id: string; code: string; name: string }>; candidates: ShiftDye<ShiftPayload>[] } {
+  const rows = db.$client
+    .prepare(
+      `SELECT m.id, m.dye_id, d.code, d.name, m.l, m.a, m.b, c.solvent_id, s.name, s.medium, c.acid_base, c.ph
+       FROM measurements m JOIN dyes d ON d.id = m.dye_id JOIN conditions c ON c.id = m.condition_id JOIN solvents s ON s.id = c.solvent_id
+       WHERE m.review_state = 'accepted' ORDER BY d.code, m.id`,
+    )
+    .raw(true)
+    .all() as [string, string, string, string, number, number, number, string, string, Medium, AcidBase, number | null][];
+  const dyeInfo = new Map<string, { id: string; code: string; name: string }>();
+  const byDye = new Map<string, ShiftDye<ShiftPayload>>();
+  for (const [id, dyeId, code, name, l, la, lb, solventId, solvent, medium, acidBase, ph] of rows) {
+    if (!dyeInfo.has(dyeId)) dyeInfo.set(dyeId, { id: dyeId, code, name });
+    let entry = byDye.get(dyeId);
+    if (!entry) byDye.set(dyeId, (entry = { dyeId, a: [], b: [] }));
+    const facts = { solventId, medium, acidBase, ph };
+    const colour = { lab: [l, la, lb] as Lab, solventId, payload: { measurementId: id, solvent, medium, acidBase, ph } };
+    if (conditionMatches(a, facts)) entry.a.push(colour);
+    if (conditionMatches(b, facts)) entry.b.push(colour);
+  }
+  return { dyes: dyeInfo, candidates: [...byDye.values()] };
 }

@@ -53,3 +53,26 @@ export const conditionFilterSchema = z
     phMax: optionalNumber("phMax", -2, 16),
   })
   .refine((v) => v.phMin === undefined || v.phMax === undefined || v.phMin <= v.phMax, { message: "phMin must not be above phMax.", path: ["phMin"] });
+
+const MEDIUM_ORDER = { protic: 0, "dipolar-aprotic": 1, nonpolar: 2 } as const;
+const ACID_BASE_ORDER = { acid: 0, neutral: 1, base: 2 } as const;
+
+/**
+ * The condition class stored as the fourth R*Tree dimension (migration 0003): 3·medium + acid/base,
+ * medium protic 0, dipolar-aprotic 1, nonpolar 2; acid 0, neutral 1, base 2.
+ */
+export function conditionClass(medium: ConditionFacts["medium"], acidBase: ConditionFacts["acidBase"]): number {
+  return 3 * MEDIUM_ORDER[medium] + ACID_BASE_ORDER[acidBase];
+}
+
+/** Sorted class codes as contiguous [from, to] runs, one R*Tree range per run. */
+export function classRuns(codes: Iterable<number>): [number, number][] {
+  const sorted = [...new Set(codes)].sort((x, y) => x - y);
+  const runs: [number, number][] = [];
+  for (const k of sorted) {
+    const last = runs[runs.length - 1];
+    if (last && k === last[1] + 1) last[1] = k;
+    else runs.push([k, k]);
+  }
+  return runs;
+}

@@ -8,7 +8,7 @@ import { eq } from "drizzle-orm";
 import { GET as search } from "@/app/api/search/route";
 import { db } from "@/db/client";
 import { acceptedMeasurements } from "@/db/queries/bench";
-import { measurements } from "@/db/schema";
+import { measurements, solvents } from "@/db/schema";
 import { seedDemo } from "@/db/seed/demo";
 import { dataDir } from "@/lib/config/env";
 import { createApiToken } from "@/lib/auth/service";
@@ -118,6 +118,17 @@ describe("GET /api/search", () => {
     db().update(measurements).set({ reviewState: "rejected" }).where(eq(measurements.id, "ms_it_new")).run();
     const { body: gone } = await call("lab=12,70,-90&limit=1");
     expect(gone.results[0].deltaE00).toBeCloseTo(before.results[0].deltaE00, 9);
+  });
+
+  it("follows a solvent moved to another medium class (the R*Tree's class dimension is re-keyed)", async () => {
+    const { body: before } = await call("lab=50,0,0&solvent=Toluene&medium=nonpolar&limit=3");
+    expect(before.results.length).toBeGreaterThan(0);
+    db().update(solvents).set({ medium: "dipolar-aprotic" }).where(eq(solvents.name, "Toluene")).run();
+    const { body: moved } = await call("lab=50,0,0&solvent=Toluene&medium=dipolar-aprotic&limit=3");
+    expect(moved.results.map((r: Hit) => r.dye.id)).toEqual(before.results.map((r: Hit) => r.dye.id));
+    expect((await call("lab=50,0,0&solvent=Toluene&medium=nonpolar&limit=3")).body.results).toEqual([]);
+    db().update(solvents).set({ medium: "nonpolar" }).where(eq(solvents.name, "Toluene")).run();
+    expect((await call("lab=50,0,0&solvent=Toluene&medium=nonpolar&limit=3")).body.results.map((r: Hit) => r.dye.id)).toEqual(before.results.map((r: Hit) => r.dye.id));
   });
 
   it("returns an empty list when no condition matches", async () => {
