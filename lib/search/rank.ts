@@ -44,6 +44,18 @@ export type ColourColumns = {
  */
 export type BoxFetch = (box: LabBox) => ColourColumns;
 
+/** Number of values ≤ x in an ascending array. */
+function upperBound(sorted: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid] <= x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
 export type IndexedHit = { dye: number; ref: number; lab: Lab; deltaE00: number };
 export type IndexedRanking = {
   hits: IndexedHit[];
@@ -75,30 +87,51 @@ export function rankByColourIndexed(
   let r = startRadius;
   let rounds = 0;
   let scanned = 0;
+  let bestD = new Float64Array(0);
+  let bestI = new Int32Array(0);
   for (;;) {
     rounds++;
     const box = labBoxForDeltaE00(target, r);
     const all = boxIsUnbounded(box);
     const cols = fetch(box);
     scanned += cols.count;
-    const best = new Map<number, number>(); // dye → index into cols of its best colour
-    const bestD = new Map<number, number>();
+    // Best colour per dye, in typed arrays indexed by the dye number (dense in practice).
+    let maxDye = -1;
+    for (let i = 0; i < cols.count; i++) if (cols.dye[i] > maxDye) maxDye = cols.dye[i];
+    if (bestD.length <= maxDye) {
+      bestD = new Float64Array(maxDye + 1);
+      bestI = new Int32Array(maxDye + 1);
+    }
+    bestD.fill(Infinity, 0, maxDye + 1);
+    const touched: number[] = [];
     for (let i = 0; i < cols.count; i++) {
       const d = ciede2000(L, A, B, cols.l[i], cols.a[i], cols.b[i]);
       const dye = cols.dye[i];
-      const prev = bestD.get(dye);
-      if (prev === undefined || d < prev) {
-        bestD.set(dye, d);
-        best.set(dye, i);
+      const prev = bestD[dye];
+      if (prev === Infinity) touched.push(dye);
+      if (d < prev) {
+        bestD[dye] = d;
+        bestI[dye] = i;
       }
     }
-    const ranked: IndexedHit[] = [];
-    for (const [dye, i] of best) ranked.push({ dye, ref: cols.ref[i], lab: [cols.l[i], cols.a[i], cols.b[i]], deltaE00: bestD.get(dye)! });
-    const keyed = ranked.map((h) => ({ h, deltaE00: h.deltaE00, dyeId: dyeKey(h.dye) }));
-    keyed.sort(compareRanked);
-    const exact = all ? keyed : keyed.filter((k) => k.deltaE00 <= r);
-    if (all || exact.length >= limit) return { hits: exact.slice(0, limit).map((k) => k.h), radius: r, rounds, scanned };
+    const dists = Float64Array.from(touched, (dye) => bestD[dye]).sort();
+    const exactCount = all ? dists.length : upperBound(dists, r);
+    if (all || exactCount >= limit) {
+      // Everything up to the limit-th distance, ties included, then the exact order (ΔE00, dye id).
+      const cut = Math.min(limit, exactCount);
+      const threshold = cut > 0 ? dists[cut - 1] : -Infinity;
+      const chosen = touched
+        .filter((dye) => bestD[dye] <= threshold)
+        .map((dye) => ({ dye, deltaE00: bestD[dye], dyeId: dyeKey(dye) }))
+        .sort(compareRanked)
+        .slice(0, cut);
+      const hits = chosen.map(({ dye, deltaE00 }): IndexedHit => {
+        const i = bestI[dye];
+        return { dye, ref: cols.ref[i], lab: [cols.l[i], cols.a[i], cols.b[i]], deltaE00 };
+      });
+      return { hits, radius: r, rounds, scanned };
+    }
     // The limit-th best seen bounds the true limit-th distance from above, so that radius finishes.
-    r = keyed.length >= limit ? Math.max(keyed[limit - 1].deltaE00, r * 1.01) : r * growth;
+    r = dists.length >= limit ? Math.max(dists[limit - 1], r * 1.01) : r * growth;
   }
 }
