@@ -87,7 +87,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
             )}
             {kind === "lab" && <input name="lab" aria-label="CIELAB D65 as L,a,b" defaultValue={params.get("lab") ?? ""} placeholder="40,45,-50" className="min-h-11 w-48 rounded-lg border border-line px-3" />}
             {kind === "word" && (
-              <select name="word" aria-label="Colour word" defaultValue={params.get("word") ?? "violet"} className="min-h-11 w-48 rounded-lg border border-line bg-white px-3">
+              <select name="word" aria-label="Colour name" defaultValue={params.get("word") ?? "violet"} className="min-h-11 w-48 rounded-lg border border-line bg-white px-3">
                 {COLOUR_WORDS.map((w) => (
                   <option key={w.word} value={w.word}>
                     {w.word}

@@ -54,6 +54,7 @@ describe("the demo formulator", () => {
     await page.getByRole("link", { name: "Open the shortlist" }).click();
     await page.waitForURL(/\/shortlists\/sl_/);
     const shortlistUrl = page.url();
+    await page.getByTestId("shortlist-item").first().waitFor();
     expect(await page.getByTestId("shortlist-item").count()).toBe(1);
     await expect(page.getByTestId("shortlist-item").innerText()).resolves.toContain(code);
 
@@ -64,6 +65,7 @@ describe("the demo formulator", () => {
     await search.hits().nth(1).getByRole("checkbox").check();
     await page.getByRole("link", { name: "Compare 2 dyes" }).click();
     await page.waitForURL(/\/compare\?dyes=/);
+    await page.getByRole("heading", { name: "Compare dyes" }).waitFor();
     const matrix = page.getByRole("table", { name: "ΔE00 matrix" });
     await matrix.waitFor();
     expect(await matrix.locator("tbody tr").count()).toBe(2);
@@ -71,6 +73,7 @@ describe("the demo formulator", () => {
 
     // Export the shortlist.
     await page.goto(shortlistUrl);
+    await page.getByTestId("shortlist-item").first().waitFor();
     const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Export CSV" }).click()]);
     expect(download.suggestedFilename()).toBe("Violet-in-aprotic-media.csv");
     const csv = fs.readFileSync((await download.path())!, "utf8");

@@ -13,7 +13,7 @@ export class SearchPage {
 
   async searchWord(word: string, medium: string) {
     await this.page.getByText("Colour word", { exact: true }).click();
-    await this.page.getByLabel("Colour word").selectOption(word);
+    await this.page.getByLabel("Colour name").selectOption(word);
     await this.page.getByLabel("Medium").selectOption(medium);
     await this.page.getByRole("button", { name: "Search" }).click();
     await this.hits().first().waitFor();
