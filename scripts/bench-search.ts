@@ -3,7 +3,9 @@
  * database built with the real migrations (schema, R*Tree and its triggers). Prints p50/p95 of top-20
  * queries through `searchByColour` (R*Tree prefilter + exact CIEDE2000), the same queries by brute
  * force (every accepted row read from SQLite, exact CIEDE2000, best per dye), the ratio between them,
- * and recall of the indexed results against brute force (the ranking is meant to be identical).
+ * and recall of the indexed results against brute force (the ranking is meant to be identical). A
+ * second baseline scans every colour held in memory (typed arrays) with the same CIEDE2000, for the
+ * ratio of the ranking work alone; recall is also checked on every query against it.
  *
  * Options: --measurements N (default 1e6), --queries N (default 200), --brute N (default 40),
  * --keep (leave the database file).
@@ -111,6 +113,39 @@ function bruteForce(target: Lab, filter: ConditionFilter) {
   return [...best.entries()].sort((x, y) => x[1] - y[1] || (x[0] < y[0] ? -1 : 1)).slice(0, LIMIT);
 }
 
+// The strictest baseline: every accepted colour already in memory (typed arrays, loaded untimed),
+// the same inlined CIEDE2000, best per dye. Measures the ranking work alone, without SQLite.
+const memRows = client.prepare("SELECT m.dye_id, m.condition_id, m.l, m.a, m.b FROM measurements m WHERE m.review_state = 'accepted'").raw(true).all() as [string, string, number, number, number][];
+const memDyeIds: string[] = [];
+const memDyeIndex = new Map<string, number>();
+const memCondIds = catalogue.map((c) => c.id);
+const memCondIndex = new Map(memCondIds.map((id, i) => [id, i]));
+const memDye = new Int32Array(memRows.length);
+const memCond = new Int32Array(memRows.length);
+const memLab = new Float64Array(memRows.length * 3);
+memRows.forEach(([dyeId, condId, l, a, b], i) => {
+  let d = memDyeIndex.get(dyeId);
+  if (d === undefined) memDyeIndex.set(dyeId, (d = memDyeIds.push(dyeId) - 1));
+  memDye[i] = d;
+  memCond[i] = memCondIndex.get(condId)!;
+  memLab[3 * i] = l;
+  memLab[3 * i + 1] = a;
+  memLab[3 * i + 2] = b;
+});
+memRows.length = 0;
+function bruteForceInMemory(target: Lab, filter: ConditionFilter) {
+  const allowed = catalogue.map((c) => conditionMatches(filter, c));
+  const best = new Float64Array(memDyeIds.length).fill(Infinity);
+  for (let i = 0; i < memDye.length; i++) {
+    if (!allowed[memCond[i]]) continue;
+    const d = ciede2000(target[0], target[1], target[2], memLab[3 * i], memLab[3 * i + 1], memLab[3 * i + 2]);
+    if (d < best[memDye[i]]) best[memDye[i]] = d;
+  }
+  const out: [string, number][] = [];
+  best.forEach((d, i) => d < Infinity && out.push([memDyeIds[i], d]));
+  return out.sort((x, y) => x[1] - y[1] || (x[0] < y[0] ? -1 : 1)).slice(0, LIMIT);
+}
+
 const quantile = (xs: number[], q: number) => {
   const s = [...xs].sort((a, b) => a - b);
   return s[Math.min(s.length - 1, Math.floor(q * s.length))];
@@ -124,7 +159,7 @@ const firstSearchMs = performance.now() - tw;
 for (const q of queries.slice(0, 10)) searchByColour(db, { target: q.target, filter: q.filter, limit: LIMIT });
 
 const fastTimes: number[] = [];
-const fastResults = [];
+const fastResults: ReturnType<typeof searchByColour>[] = [];
 let rounds = 0;
 let scanned = 0;
 for (const q of queries) {
@@ -152,6 +187,22 @@ for (let i = 0; i < Math.min(BRUTE, queries.length); i++) {
   if (brute.length === got.length && brute.every(([id, d], k) => got[k].dye.id === id && got[k].deltaE00 === d)) identical++;
 }
 
+// Recall and exactness over every query against the in-memory brute force, with its timings.
+const memTimes: number[] = [];
+let memFound = 0;
+let memExpected = 0;
+let memIdentical = 0;
+queries.forEach((q, i) => {
+  const t = performance.now();
+  const brute = bruteForceInMemory(q.target, q.filter);
+  memTimes.push(performance.now() - t);
+  const got = fastResults[i].results;
+  const ids = new Set(got.map((r) => r.dye.id));
+  memExpected += brute.length;
+  memFound += brute.filter(([id]) => ids.has(id)).length;
+  if (brute.length === got.length && brute.every(([id, d], k) => got[k].dye.id === id && got[k].deltaE00 === d)) memIdentical++;
+});
+
 const fast50 = quantile(fastTimes, 0.5);
 const fast95 = quantile(fastTimes, 0.95);
 const brute50 = quantile(bruteTimes, 0.5);
@@ -166,8 +217,12 @@ const report = {
   indexedMs: { p50: Number(fast50.toFixed(2)), p95: Number(fast95.toFixed(2)), max: Number(Math.max(...fastTimes).toFixed(2)) },
   bruteForceMs: { queries: bruteTimes.length, p50: Number(brute50.toFixed(1)), p95: Number(quantile(bruteTimes, 0.95).toFixed(1)) },
   speedup: { medianOverMedian: Number((brute50 / fast50).toFixed(1)), bruteMedianOverIndexedP95: Number((brute50 / fast95).toFixed(1)) },
+  bruteForceInMemoryMs: { queries: memTimes.length, p50: Number(quantile(memTimes, 0.5).toFixed(1)), p95: Number(quantile(memTimes, 0.95).toFixed(1)) },
+  speedupOverInMemory: { medianOverMedian: Number((quantile(memTimes, 0.5) / fast50).toFixed(1)), inMemoryMedianOverIndexedP95: Number((quantile(memTimes, 0.5) / fast95).toFixed(1)) },
   recall: expected ? found / expected : 1,
   identicalRankings: `${identical}/${bruteTimes.length}`,
+  recallAllQueriesInMemory: memExpected ? memFound / memExpected : 1,
+  identicalRankingsAllQueries: `${memIdentical}/${queries.length}`,
   indexedMsByFilter: Object.fromEntries(
     FILTERS.map((f, k) => {
       const ts = fastTimes.filter((_, i) => i % FILTERS.length === k);

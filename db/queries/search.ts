@@ -52,6 +52,8 @@ type KeyCache = {
   dyeIndex: Map<string, number>;
   condIds: string[];
   condIndex: Map<string, number>;
+  /** Colours seen per condition index: only a hint for the first search radius, never for results. */
+  condCount: number[];
   boxIds: Database.Statement;
   lookup: Database.Statement;
   warm: boolean;
@@ -74,6 +76,7 @@ function keyCache(client: Database.Database): KeyCache {
       dyeIndex: new Map(),
       condIds: [],
       condIndex: new Map(),
+      condCount: [],
       // Overlap test: points are stored as degenerate boxes rounded outward to float32, so every
       // colour inside the query box is returned.
       boxIds: client
@@ -128,7 +131,9 @@ function store(c: KeyCache, rows: Iterable<KeyRow>) {
   for (const [key, dyeId, condId, l, a, b] of rows) {
     grow(c, key);
     c.dye[key] = intern(c.dyeIds, c.dyeIndex, dyeId);
-    c.cond[key] = intern(c.condIds, c.condIndex, condId);
+    const ci = intern(c.condIds, c.condIndex, condId);
+    c.cond[key] = ci;
+    c.condCount[ci] = (c.condCount[ci] ?? 0) + 1;
     c.l[key] = l;
     c.a[key] = a;
     c.b[key] = b;
@@ -219,7 +224,11 @@ export function searchByColour(
     return cols;
   };
 
-  const ranking = rankByColourIndexed(target, fetch, { limit, dyeKey: (d) => cache.dyeIds[d] });
+  // Start wider when the filter leaves fewer colours (radius ∝ cube root of the density); speed only.
+  const total = cache.condCount.reduce((sum, n) => sum + (n ?? 0), 0);
+  const matching = cache.condIds.reduce((sum, id, i) => sum + (allowedIds.has(id) ? (cache.condCount[i] ?? 0) : 0), 0);
+  const startRadius = 0.5 * Math.min(4, Math.cbrt(total / Math.max(1, matching)));
+  const ranking = rankByColourIndexed(target, fetch, { limit, dyeKey: (d) => cache.dyeIds[d], startRadius });
   // One statement for the hits' identities and replicate counts (prepared once per connection).
   const detail = detailStatement(db.$client);
   const facts = new Map(

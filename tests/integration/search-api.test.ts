@@ -17,6 +17,8 @@ import { findColourWord, matchesColourWord, prototypeLab } from "@/lib/search/co
 import { conditionMatches, type ConditionFilter } from "@/lib/search/filters";
 import { hexToLabD65 } from "@/lib/search/query";
 import { rankByColourExhaustive } from "@/lib/search/rank";
+import { ciede2000 } from "@/lib/search/ciede2000";
+import { GET as shiftSearch } from "@/app/api/search/shift/route";
 
 let token = "";
 type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: { solvent: string; medium: string; acidBase: string; pH: number | null }; predicted: boolean; measurements: number };
@@ -155,6 +157,62 @@ describe("GET /api/search", () => {
     const { status, body } = await call(qs);
     expect(status).toBe(422);
     expect(body.error.code).toBe("invalid_input");
+    expect(body.error.message).toMatch(message);
+  });
+});
+
+describe("GET /api/search/shift", () => {
+  async function shift(query: string) {
+    const res = await shiftSearch(new Request(`http://localhost:3000/api/search/shift?${query}`, { headers: { authorization: `Bearer ${token}` } }));
+    return { status: res.status, body: await res.json() };
+  }
+  type ShiftHit = { dye: { code: string }; shift: number; a: { lab: Lab; condition: { solvent: string; acidBase: string; medium: string } }; b: { lab: Lab; condition: { solvent: string; acidBase: string; medium: string } }; viewers: { kind: string; deltaE00: number; passes: boolean }[] };
+
+  it("ranks acid → base in one solvent by the largest ΔE00, each shift exact for its pair", async () => {
+    const { status, body } = await shift("aAcidBase=acid&bAcidBase=base&sameSolvent=true&minShift=5&limit=50");
+    expect(status).toBe(200);
+    expect(body.results.length).toBeGreaterThan(0);
+    for (const r of body.results as ShiftHit[]) {
+      expect(r.a.condition.acidBase).toBe("acid");
+      expect(r.b.condition.acidBase).toBe("base");
+      expect(r.a.condition.solvent).toBe(r.b.condition.solvent);
+      expect(r.shift).toBeGreaterThanOrEqual(5);
+      expect(r.shift).toBeCloseTo(ciede2000(...r.a.lab, ...r.b.lab), 12);
+    }
+    const shifts = (body.results as ShiftHit[]).map((r) => r.shift);
+    expect([...shifts].sort((x, y) => y - x)).toEqual(shifts);
+    // Dyes never measured in acid and base are listed with the reason, not silently dropped.
+    expect(body.failures.some((f: { reason: string }) => /No accepted colour|same solvent|below the minimum/.test(f.reason))).toBe(true);
+  });
+
+  it("protic → aprotic from violet: the closest violet in A comes first", async () => {
+    const { body } = await shift("aMedium=protic&bMedium=aprotic&from=violet&limit=5");
+    const first = body.results[0] as ShiftHit & { fromDeltaE00: number };
+    expect(first.a.condition.medium).toBe("protic");
+    expect(first.b.condition.medium).not.toBe("protic");
+    const froms = body.results.map((r: { fromDeltaE00: number }) => r.fromDeltaE00);
+    expect([...froms].sort((x: number, y: number) => x - y)).toEqual(froms);
+  });
+
+  it("with a colour-vision requirement, every result passes it and failures say for which viewers", async () => {
+    const { body } = await shift("aAcidBase=acid&bAcidBase=base&sameSolvent=true&minShift=10&viewers=protan,deutan,tritan&viewerMinShift=8");
+    for (const r of body.results as ShiftHit[]) {
+      expect(r.viewers.map((v) => v.kind)).toEqual(["protan", "deutan", "tritan"]);
+      expect(r.viewers.every((v) => v.passes && v.deltaE00 >= 8)).toBe(true);
+    }
+    for (const f of body.failures as { reason: string; viewers: { passes: boolean }[] }[]) {
+      if (/visible/.test(f.reason)) expect(f.viewers.some((v) => !v.passes)).toBe(true);
+    }
+  });
+
+  it.each([
+    ["viewers=owl", /viewers must be/],
+    ["minShift=-1", /minShift must be/],
+    ["from=plaid", /from must be a colour word/],
+    ["aMedium=gas", /aMedium must be one of/],
+  ])("answers 422 for '%s'", async (qs, message) => {
+    const { status, body } = await shift(qs);
+    expect(status).toBe(422);
     expect(body.error.message).toMatch(message);
   });
 });
