@@ -227,7 +227,7 @@ export function searchByColour(
   // Start wider when the filter leaves fewer colours (radius ∝ cube root of the density); speed only.
   const total = cache.condCount.reduce((sum, n) => sum + (n ?? 0), 0);
   const matching = cache.condIds.reduce((sum, id, i) => sum + (allowedIds.has(id) ? (cache.condCount[i] ?? 0) : 0), 0);
-  const startRadius = 0.5 * Math.min(4, Math.cbrt(total / Math.max(1, matching)));
+  const startRadius = 0.5 * Math.min(4, Math.max(1, Math.cbrt(total / Math.max(1, matching))));
   const ranking = rankByColourIndexed(target, fetch, { limit, dyeKey: (d) => cache.dyeIds[d], startRadius });
   // One statement for the hits' identities and replicate counts (prepared once per connection).
   const detail = detailStatement(db.$client);

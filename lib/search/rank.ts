@@ -84,7 +84,8 @@ export function rankByColourIndexed(
   { limit, dyeKey, startRadius = 0.5, growth = 1.6 }: { limit: number; dyeKey: (dye: number) => string; startRadius?: number; growth?: number },
 ): IndexedRanking {
   const [L, A, B] = target;
-  let r = startRadius;
+  // A zero or invalid start could never grow; fall back to a small positive radius.
+  let r = startRadius > 0 && Number.isFinite(startRadius) ? startRadius : 0.5;
   let rounds = 0;
   let scanned = 0;
   let bestD = new Float64Array(0);

@@ -209,6 +209,13 @@ describe("rankByColourIndexed equals exhaustive ranking", () => {
     expect(none.hits).toEqual([]);
   });
 
+  it("terminates and is exact from a zero or non-finite start radius, and on an empty store", () => {
+    compare(world, [50, 20, 20], 10, undefined, 0);
+    compare(world, [50, 20, 20], 10, undefined, Number.NaN);
+    const empty = rankByColourIndexed([50, 0, 0], () => ({ dye: [], l: [], a: [], b: [], ref: [], count: 0 }), { limit: 5, dyeKey: String, startRadius: 0 });
+    expect(empty.hits).toEqual([]);
+  });
+
   it("when fewer dyes than the limit match, returns them all", () => {
     const small = makeWorld(4, 5, 3);
     expect(compare(small, [50, 0, 0], 20).hits).toHaveLength(5);
