@@ -65,7 +65,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
   return (
     <>
       <Card>
-        <form onSubmit={submit} role="search" aria-label="Search by colour" className="space-y-4">
+        <form key={qs} onSubmit={submit} role="search" aria-label="Search by colour" className="space-y-4">
           <fieldset>
             <legend className="mb-2 text-sm font-medium">Target colour</legend>
             <div className="mb-3 flex flex-wrap gap-2" role="radiogroup" aria-label="How to give the target">
