@@ -11,6 +11,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/catalogue", label: "Catalogue", roles: ALL, hint: "Dyes and their colour response" },
   { href: "/bench", label: "Bench", roles: BENCH, hint: "Rack photos and measurements" },
   { href: "/search", label: "Search", roles: ALL, hint: "Find a dye by colour and condition" },
+  { href: "/compare", label: "Compare", roles: ALL, hint: "Dyes side by side across conditions" },
   { href: "/solvents", label: "Solvents", roles: ALL, hint: "Solvent parameters with sources" },
   { href: "/lighting", label: "Lighting", roles: ALL, hint: "Lighting profiles and calibration targets" },
   { href: "/review", label: "Review", roles: BENCH, hint: "Measurements waiting for a second chemist" },

@@ -1,19 +1,138 @@
-import { deltaE00 } from "@/lib/color/difference";
 import type { Lab } from "@/lib/color/types";
+import { boxIsUnbounded, labBoxForDeltaE00, type LabBox } from "./bound";
+import { ciede2000 } from "./ciede2000";
 
 export type Candidate<T> = { dyeId: string; lab: Lab; payload: T };
 export type Ranked<T> = Candidate<T> & { deltaE00: number };
 
+/** Orders by ΔE00 ascending, ties by dye id, so brute force and the indexed search agree exactly. */
+function compareRanked(x: { deltaE00: number; dyeId: string }, y: { deltaE00: number; dyeId: string }): number {
+  return x.deltaE00 - y.deltaE00 || (x.dyeId < y.dyeId ? -1 : x.dyeId > y.dyeId ? 1 : 0);
+}
+
 /**
- * Exact ranking by CIEDE2000 to a target, one result per dye (its closest colour), ascending.
- * Brute force over the candidates; ties are broken by dye id so the order is stable.
+ * Exact ranking by CIEDE2000 to a target, one result per dye (its closest colour), ascending, by
+ * looking at every candidate. The reference the indexed search is tested against.
+ * Within one dye, the first of equally close colours wins.
  */
 export function rankByColourExhaustive<T>(target: Lab, candidates: Iterable<Candidate<T>>, limit: number): Ranked<T>[] {
   const best = new Map<string, Ranked<T>>();
+  const [L, A, B] = target;
   for (const c of candidates) {
-    const d = deltaE00(target, c.lab);
+    const d = ciede2000(L, A, B, c.lab[0], c.lab[1], c.lab[2]);
     const prev = best.get(c.dyeId);
     if (!prev || d < prev.deltaE00) best.set(c.dyeId, { ...c, deltaE00: d });
   }
-  return [...best.values()].sort((x, y) => x.deltaE00 - y.deltaE00 || (x.dyeId < y.dyeId ? -1 : 1)).slice(0, limit);
+  return [...best.values()].sort(compareRanked).slice(0, limit);
+}
+
+/** Columnar candidates returned by a box fetch (typed arrays keep the hot loop allocation-free). */
+export type ColourColumns = {
+  /** Dense dye index per colour (any integer id; mapped back through `dyeIds`). */
+  dye: Int32Array | number[];
+  l: Float64Array | number[];
+  a: Float64Array | number[];
+  b: Float64Array | number[];
+  /** Caller's reference per colour (e.g. a row number), returned with the winner. */
+  ref: Int32Array | number[];
+  count: number;
+};
+
+/**
+ * The candidates whose colour lies in a box, already restricted to the condition filters.
+ * Must return every stored colour inside the box (extra colours outside it are harmless).
+ */
+export type BoxFetch = (box: LabBox) => ColourColumns;
+
+/** Number of values ≤ x in an ascending array. */
+function upperBound(sorted: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid] <= x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+export type IndexedHit = { dye: number; ref: number; lab: Lab; deltaE00: number };
+export type IndexedRanking = {
+  hits: IndexedHit[];
+  /** ΔE00 radius whose box was searched last. */
+  radius: number;
+  rounds: number;
+  /** Colours fetched and compared, all rounds together. */
+  scanned: number;
+};
+
+/**
+ * Exact top-`limit` dyes by CIEDE2000, one hit per dye, using a box prefilter (an R*Tree in practice).
+ *
+ * Round by round: fetch the box {@link labBoxForDeltaE00}(target, r), which holds every colour within
+ * ΔE00 ≤ r; compute ΔE00 exactly for each colour fetched and keep each dye's best. A dye whose best
+ * is ≤ r is exact: any closer colour of that dye would also be within r, hence in the box. If at least
+ * `limit` dyes are exact, they are the answer: every other dye's true best is > r. Otherwise grow r:
+ * to the `limit`-th best ΔE00 seen so far when `limit` dyes were seen at all (their bests are upper
+ * bounds of the true ones, so the true `limit`-th distance is no larger and the next round finishes),
+ * else multiplied by `growth`. A box with no finite side sees everything, so the last round is always exact.
+ * Ties are broken by the dye's `dyeKey` (its id), as in {@link rankByColourExhaustive}.
+ */
+export function rankByColourIndexed(
+  target: Lab,
+  fetch: BoxFetch,
+  { limit, dyeKey, startRadius = 0.5, growth = 1.6 }: { limit: number; dyeKey: (dye: number) => string; startRadius?: number; growth?: number },
+): IndexedRanking {
+  const [L, A, B] = target;
+  // A zero or invalid start could never grow; fall back to a small positive radius.
+  let r = startRadius > 0 && Number.isFinite(startRadius) ? startRadius : 0.5;
+  let rounds = 0;
+  let scanned = 0;
+  let bestD = new Float64Array(0);
+  let bestI = new Int32Array(0);
+  for (;;) {
+    rounds++;
+    const box = labBoxForDeltaE00(target, r);
+    const all = boxIsUnbounded(box);
+    const cols = fetch(box);
+    scanned += cols.count;
+    // Best colour per dye, in typed arrays indexed by the dye number (dense in practice).
+    let maxDye = -1;
+    for (let i = 0; i < cols.count; i++) if (cols.dye[i] > maxDye) maxDye = cols.dye[i];
+    if (bestD.length <= maxDye) {
+      bestD = new Float64Array(maxDye + 1);
+      bestI = new Int32Array(maxDye + 1);
+    }
+    bestD.fill(Infinity, 0, maxDye + 1);
+    const touched: number[] = [];
+    for (let i = 0; i < cols.count; i++) {
+      const d = ciede2000(L, A, B, cols.l[i], cols.a[i], cols.b[i]);
+      const dye = cols.dye[i];
+      const prev = bestD[dye];
+      if (prev === Infinity) touched.push(dye);
+      if (d < prev) {
+        bestD[dye] = d;
+        bestI[dye] = i;
+      }
+    }
+    const dists = Float64Array.from(touched, (dye) => bestD[dye]).sort();
+    const exactCount = all ? dists.length : upperBound(dists, r);
+    if (all || exactCount >= limit) {
+      // Everything up to the limit-th distance, ties included, then the exact order (ΔE00, dye id).
+      const cut = Math.min(limit, exactCount);
+      const threshold = cut > 0 ? dists[cut - 1] : -Infinity;
+      const chosen = touched
+        .filter((dye) => bestD[dye] <= threshold)
+        .map((dye) => ({ dye, deltaE00: bestD[dye], dyeId: dyeKey(dye) }))
+        .sort(compareRanked)
+        .slice(0, cut);
+      const hits = chosen.map(({ dye, deltaE00 }): IndexedHit => {
+        const i = bestI[dye];
+        return { dye, ref: cols.ref[i], lab: [cols.l[i], cols.a[i], cols.b[i]], deltaE00 };
+      });
+      return { hits, radius: r, rounds, scanned };
+    }
+    // The limit-th best seen bounds the true limit-th distance from above, so that radius finishes.
+    r = dists.length >= limit ? Math.max(dists[limit - 1], r * 1.01) : r * growth;
+  }
 }

@@ -17,7 +17,10 @@ export type SearchableDye = {
 export function searchDyesByText<T extends SearchableDye>(all: T[], query: string, limit = 50): T[] {
   const q = query.trim();
   if (!q) return all.slice(0, limit);
-  const exact = all.filter((d) => d.code.toLowerCase() === q.toLowerCase() || d.casNumber === q);
+  // CAS numbers match with or without their dashes (e.g. 10081-39-7 or 10081397).
+  const digits = q.replace(/[\s-]/g, "");
+  const casOf = (d: T) => (d.casNumber ?? "").replace(/-/g, "");
+  const exact = all.filter((d) => d.code.toLowerCase() === q.toLowerCase() || d.casNumber === q || (/^\d{5,10}$/.test(digits) && casOf(d) === digits));
   const fuse = new Fuse(all, {
     keys: [
       { name: "code", weight: 3 },

@@ -1,9 +1,16 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
+import { eq } from "drizzle-orm";
 import { db } from "@/db/client";
 import { dyeMeasurements, findDyeByCode } from "@/db/queries/dyes";
+import { inArray } from "drizzle-orm";
+import { AbPlane, type PlanePoint } from "@/components/catalogue/ab-plane";
 import { DyeEditForm } from "@/components/catalogue/dye-edit-form";
+import { AddToShortlistForm, CreateShortlistForm } from "@/components/shortlists/shortlist-forms";
+import { ButtonLink } from "@/components/ui/button";
+import { listShortlists } from "@/db/queries/shortlists";
+import { lightingProfiles, photos } from "@/db/schema";
 import { Badge, Card, PageHeader } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
@@ -56,7 +63,29 @@ export default async function DyePage({ params, searchParams }: { params: Promis
     const labs = accepted.filter((r) => r.condition.acidBase === state && r.solvent.name === "Water").map((r) => [r.m.l, r.m.a, r.m.b] as Lab);
     return { state, lab: labs.length ? mean(labs) : null, n: labs.length };
   });
-  const photoIds = [...new Set(rows.map((r) => r.m.photoId).filter(Boolean))];
+  const photoIds = [...new Set(rows.map((r) => r.m.photoId).filter((v): v is string => Boolean(v)))];
+  const photoRows = photoIds.length
+    ? handle
+        .select({ id: photos.id, name: photos.originalName, takenAt: photos.takenAt, createdAt: photos.createdAt, profile: lightingProfiles.name })
+        .from(photos)
+        .leftJoin(lightingProfiles, eq(photos.lightingProfileId, lightingProfiles.id))
+        .where(inArray(photos.id, photoIds))
+        .all()
+        .sort((x, y) => (y.takenAt ?? y.createdAt).getTime() - (x.takenAt ?? x.createdAt).getTime())
+    : [];
+  const perPhoto = new Map<string, number>();
+  for (const r of rows) if (r.m.photoId) perPhoto.set(r.m.photoId, (perPhoto.get(r.m.photoId) ?? 0) + 1);
+
+  // One point per condition (solvent × acid/base × pH): the mean of its accepted colours.
+  const byCondition = new Map<string, { label: string; medium: MediumClass; acidBase: "acid" | "neutral" | "base"; labs: Lab[] }>();
+  for (const r of accepted) {
+    const key = r.condition.id;
+    const entry = byCondition.get(key) ?? { label: `${r.solvent.name}, ${r.condition.acidBase}${r.condition.ph !== null ? ` pH ${r.condition.ph}` : ""}`, medium: r.solvent.medium, acidBase: r.condition.acidBase, labs: [] };
+    entry.labs.push([r.m.l, r.m.a, r.m.b]);
+    byCondition.set(key, entry);
+  }
+  const planePoints: PlanePoint[] = [...byCondition.values()].map((e) => ({ lab: mean(e.labs), label: e.label, medium: e.medium, acidBase: e.acidBase }));
+  const myLists = listShortlists(handle, { ownerId: user.id }).map(({ list }) => ({ id: list.id, name: list.name }));
 
   return (
     <>
@@ -95,7 +124,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             </div>
             <div>
               <dt className="text-ink-soft">Photos</dt>
-              <dd>{photoIds.length} rack photos</dd>
+              <dd>{photoIds.length} rack photos (listed below)</dd>
             </div>
           </dl>
         </Card>
@@ -137,6 +166,18 @@ export default async function DyePage({ params, searchParams }: { params: Promis
                 )}
               </div>
             ))}
+          </div>
+        </Card>
+        <Card title="a*b* plane, one point per condition" className="lg:col-span-1">
+          {planePoints.length ? <AbPlane points={planePoints} /> : <p className="text-sm text-ink-soft">No accepted colours yet.</p>}
+        </Card>
+        <Card title="Shortlist and compare" className="lg:col-span-2">
+          <div className="grid gap-6 md:grid-cols-2">
+            {myLists.length > 0 ? <AddToShortlistForm dyeId={dye.id} lists={myLists} /> : <p className="text-sm text-ink-soft">You keep no shortlists yet; start one here.</p>}
+            <CreateShortlistForm dyeId={dye.id} />
+          </div>
+          <div className="mt-4">
+            <ButtonLink href={`/compare?dyes=${encodeURIComponent(dye.code)}`}>Compare with other dyes</ButtonLink>
           </div>
         </Card>
         <Card title="Acid, neutral and base (water)">
@@ -189,6 +230,22 @@ export default async function DyePage({ params, searchParams }: { params: Promis
               </tbody>
             </table>
           </div>
+        </Card>
+        <Card title={`Photos it was measured in (${photoRows.length})`} className="lg:col-span-3">
+          {photoRows.length === 0 ? (
+            <p className="text-sm text-ink-soft">No rack photos: these colours were entered without a photo.</p>
+          ) : (
+            <ul className="grid gap-2 text-sm sm:grid-cols-2 lg:grid-cols-3">
+              {photoRows.map((p) => (
+                <li key={p.id} className="rounded-lg border border-line p-2">
+                  <p className="font-medium">{p.name || p.id}</p>
+                  <p className="text-ink-soft">
+                    {(p.takenAt ?? p.createdAt).toISOString().slice(0, 10)} · {p.profile ?? "no lighting profile"} · {perPhoto.get(p.id) ?? 0} vials of this dye
+                  </p>
+                </li>
+              ))}
+            </ul>
+          )}
         </Card>
         {hasRole(user.role, BENCH_ROLES) && (
           <Card title="Edit dye" className="lg:col-span-3">

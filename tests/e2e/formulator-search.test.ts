@@ -1,0 +1,90 @@
+/**
+ * The formulator's flow in Chromium on the demo: "violet in an aprotic medium", open a hit, keep it on
+ * a new shortlist, compare two dyes, export the shortlist as CSV.
+ */
+import fs from "node:fs";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { BrowserContext } from "playwright-core";
+import { launchBrowser, watchConsole } from "./browser";
+import { SearchPage } from "./pages/search-page";
+import { SignInPage } from "./pages/sign-in-page";
+
+const base = inject("baseUrl");
+let browser: BrowserContext;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("the demo formulator", () => {
+  it("searches violet in an aprotic medium, shortlists a hit, compares two dyes and exports the shortlist", async () => {
+    const page = await browser.newPage();
+    const errors = watchConsole(page);
+    const signIn = new SignInPage(page, base);
+    await signIn.signIn("formulator@demo.test");
+
+    const search = new SearchPage(page, base);
+    await search.open();
+    await search.searchWord("violet", "aprotic");
+    // The query lives in the URL, so the search can be bookmarked and shared.
+    expect(new URL(page.url()).searchParams.get("word")).toBe("violet");
+    expect(new URL(page.url()).searchParams.get("medium")).toBe("aprotic");
+    const codes = await search.hitCodes();
+    expect(codes.length).toBeGreaterThanOrEqual(2);
+    const betaine = codes.find((c) => c.startsWith("KB-BT-"));
+    expect(betaine, `hits: ${codes.join(" | ")}`).toBeTruthy();
+    const firstHit = search.hits().filter({ hasText: betaine! }).first();
+    await expect(firstHit.innerText()).resolves.toMatch(/dipolar aprotic/);
+    await expect(firstHit.innerText()).resolves.toMatch(/measured/);
+    await expect(firstHit.innerText()).resolves.toMatch(/ΔE00 \d+\.\d/);
+
+    // Open the hit and keep it on a new shortlist.
+    const code = betaine!.split(" · ")[0];
+    await firstHit.getByRole("link", { name: betaine! }).click();
+    await page.waitForURL(`${base}/catalogue/${encodeURIComponent(code)}`);
+    await page.getByRole("img", { name: /a\*b\* plane/ }).waitFor();
+    const create = page.getByRole("form", { name: "New shortlist" });
+    await create.getByLabel("Name of a new shortlist").fill("Violet in aprotic media");
+    await create.getByLabel("Note on this dye (optional)").fill("deep violet in acetonitrile");
+    await create.getByRole("button", { name: "Create and add" }).click();
+    await page.getByText("Created “Violet in aprotic media” with this dye.").waitFor();
+    await page.getByRole("link", { name: "Open the shortlist" }).click();
+    await page.waitForURL(/\/shortlists\/sl_/);
+    const shortlistUrl = page.url();
+    await page.getByTestId("shortlist-item").first().waitFor();
+    expect(await page.getByTestId("shortlist-item").count()).toBe(1);
+    await expect(page.getByTestId("shortlist-item").innerText()).resolves.toContain(code);
+
+    // Back to the bookmarked search; tick two dyes and compare them.
+    await page.goto(`${base}/search?word=violet&medium=aprotic`);
+    await search.hits().first().waitFor();
+    await search.hits().nth(0).getByRole("checkbox").check();
+    await search.hits().nth(1).getByRole("checkbox").check();
+    await page.getByRole("link", { name: "Compare 2 dyes" }).click();
+    await page.waitForURL(/\/compare\?dyes=/);
+    await page.getByRole("heading", { name: "Compare dyes" }).waitFor();
+    const matrix = page.getByRole("table", { name: "ΔE00 matrix" });
+    await matrix.waitFor();
+    expect(await matrix.locator("tbody tr").count()).toBe(2);
+    await expect(matrix.locator("tbody tr").first().innerText()).resolves.toMatch(/0\.0/);
+
+    // Export the shortlist.
+    await page.goto(shortlistUrl);
+    await page.getByTestId("shortlist-item").first().waitFor();
+    const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Export CSV" }).click()]);
+    expect(download.suggestedFilename()).toBe("Violet-in-aprotic-media.csv");
+    const csv = fs.readFileSync((await download.path())!, "utf8");
+    const lines = csv.trim().split(/\r?\n/);
+    expect(lines[0]).toBe("code,name,class,cas_number,molar_mass_g_mol,accepted_measurements,note,hazards");
+    expect(lines).toHaveLength(2);
+    expect(lines[1]).toContain(code);
+    expect(lines[1]).toContain("deep violet in acetonitrile");
+
+    await signIn.signOut();
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+});

@@ -1,0 +1,218 @@
+/**
+ * GET /api/search on the seeded demo database: exact against brute force over every accepted
+ * measurement, the condition filters, colour words, the key cache staying right as measurements are
+ * accepted, rejected or reassigned, and the error messages for bad input.
+ */
+import { beforeAll, describe, expect, it } from "vitest";
+import { eq } from "drizzle-orm";
+import { GET as search } from "@/app/api/search/route";
+import { db } from "@/db/client";
+import { acceptedMeasurements } from "@/db/queries/bench";
+import { measurements, solvents } from "@/db/schema";
+import { seedDemo } from "@/db/seed/demo";
+import { dataDir } from "@/lib/config/env";
+import { createApiToken } from "@/lib/auth/service";
+import type { Lab } from "@/lib/color/types";
+import { findColourWord, matchesColourWord, prototypeLab } from "@/lib/search/colour-words";
+import { conditionMatches, type ConditionFilter } from "@/lib/search/filters";
+import { hexToLabD65 } from "@/lib/search/query";
+import { rankByColourExhaustive } from "@/lib/search/rank";
+import { ciede2000 } from "@/lib/search/ciede2000";
+import { GET as shiftSearch } from "@/app/api/search/shift/route";
+
+let token = "";
+type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: { solvent: string; medium: string; acidBase: string; pH: number | null }; predicted: boolean; measurements: number };
+
+beforeAll(async () => {
+  await seedDemo(db(), dataDir());
+  token = createApiToken(db(), { userId: "usr_demo_formulator", name: "search test", actorId: null }).token;
+}, 120_000);
+
+async function call(query: string, auth = true) {
+  const res = await search(new Request(`http://localhost:3000/api/search?${query}`, { headers: auth ? { authorization: `Bearer ${token}` } : {} }));
+  return { status: res.status, body: await res.json() };
+}
+
+function brute(target: Lab, filter: ConditionFilter & { solventName?: string }, limit: number, accept?: (l: number, a: number, b: number) => boolean) {
+  const rows = acceptedMeasurements(db()).filter(
+    (r) =>
+      conditionMatches(filter, { solventId: r.solvent.id, medium: r.solvent.medium, acidBase: r.condition.acidBase, ph: r.condition.ph }) &&
+      (!filter.solventName || r.solvent.name === filter.solventName) &&
+      (!accept || accept(r.m.l, r.m.a, r.m.b)),
+  );
+  return rankByColourExhaustive(target, rows.map((r) => ({ dyeId: r.dye.id, lab: [r.m.l, r.m.a, r.m.b] as Lab, payload: r })), limit);
+}
+
+describe("GET /api/search", () => {
+  it("answers 401 without credentials", async () => {
+    expect((await call("lab=50,0,0", false)).status).toBe(401);
+  });
+
+  const FILTERS: [string, ConditionFilter & { solventName?: string }][] = [
+    ["", { medium: "any", acidBase: "any" }],
+    ["&medium=protic", { medium: "protic", acidBase: "any" }],
+    ["&medium=dipolar-aprotic", { medium: "dipolar-aprotic", acidBase: "any" }],
+    ["&medium=nonpolar", { medium: "nonpolar", acidBase: "any" }],
+    ["&medium=aprotic", { medium: "aprotic", acidBase: "any" }],
+    ["&acidBase=base", { medium: "any", acidBase: "base" }],
+    ["&acidBase=acid&phMin=2&phMax=4", { medium: "any", acidBase: "acid", phMin: 2, phMax: 4 }],
+    ["&solvent=Methanol", { medium: "any", acidBase: "any", solventName: "Methanol" }],
+    ["&solvent=Toluene&medium=protic", { medium: "protic", acidBase: "any", solventName: "Toluene" }],
+  ];
+  const TARGETS: Lab[] = [[40, 45, -50], [85, -5, 70], [50, 0, 0], [30, 10, -40], [60, 60, 30], [95, 0, 2]];
+
+  it.each(FILTERS)("ranks exactly as brute force over the accepted measurements (filter '%s')", async (qs, filter) => {
+    for (const t of TARGETS) {
+      for (const limit of [1, 5, 20, 200]) {
+        const { status, body } = await call(`lab=${t.join(",")}&limit=${limit}${qs}`);
+        expect(status).toBe(200);
+        const expected = brute(t, filter, limit);
+        expect(body.results.map((r: Hit) => r.dye.id)).toEqual(expected.map((e) => e.dyeId));
+        body.results.forEach((r: Hit, i: number) => {
+          expect(r.deltaE00).toBeCloseTo(expected[i].deltaE00, 9);
+          expect(r.lab).toEqual(expected[i].lab);
+          expect(r.predicted).toBe(false);
+          expect(r.condition.solvent).toBe(expected[i].payload.solvent.name);
+          expect(r.condition.acidBase).toBe(expected[i].payload.condition.acidBase);
+          expect(r.measurements).toBeGreaterThanOrEqual(1);
+        });
+      }
+    }
+  });
+
+  it("gives each dye once and matches the contract's shape", async () => {
+    const { body } = await call("hex=7a3fa0&medium=aprotic&limit=50");
+    const ids = body.results.map((r: Hit) => r.dye.id);
+    expect(new Set(ids).size).toBe(ids.length);
+    expect(body.results[0]).toMatchObject({ dye: { id: expect.any(String), code: expect.any(String), name: expect.any(String) }, deltaE00: expect.any(Number), lab: [expect.any(Number), expect.any(Number), expect.any(Number)], condition: { solvent: expect.any(String), medium: expect.stringMatching(/dipolar-aprotic|nonpolar/), acidBase: expect.any(String) }, predicted: false });
+    const expected = brute(hexToLabD65("7a3fa0")!, { medium: "aprotic", acidBase: "any" }, 50);
+    expect(ids).toEqual(expected.map((e) => e.dyeId));
+  });
+
+  it("finds the betaine dyes for 'violet in an aprotic medium', in dipolar aprotic solvents", async () => {
+    const { body } = await call("word=violet&medium=aprotic&limit=10");
+    expect(body.target.word).toBe("violet");
+    const violet = findColourWord("violet")!;
+    for (const r of body.results as Hit[]) expect(matchesColourWord(violet, ...r.lab)).toBe(true);
+    const codes = body.results.map((r: Hit) => r.dye.code);
+    expect(codes.some((c: string) => c.startsWith("KB-BT-"))).toBe(true);
+    const betaine = (body.results as Hit[]).find((r) => r.dye.code.startsWith("KB-BT-"))!;
+    expect(betaine.condition.medium).toBe("dipolar-aprotic");
+    const expected = brute(prototypeLab(violet), { medium: "aprotic", acidBase: "any" }, 10, (l, a, b) => matchesColourWord(violet, l, a, b));
+    expect(codes).toEqual(expected.map((e) => e.payload.dye.code));
+  });
+
+  it("sees a newly accepted measurement, drops a rejected one and follows a reassigned one (no stale cache)", async () => {
+    const { body: before } = await call("lab=12,70,-90&limit=1");
+    const far = [12, 70, -90];
+    const template = acceptedMeasurements(db())[0];
+    db().insert(measurements).values({ ...template.m, id: "ms_it_new", l: far[0], a: far[1], b: far[2], reviewState: "accepted" }).run();
+    const { body: after } = await call("lab=12,70,-90&limit=1");
+    expect(after.results[0].deltaE00).toBeLessThan(1e-9);
+    expect(after.results[0].measurementId).toBe("ms_it_new");
+    expect(before.results[0].deltaE00).toBeGreaterThan(1);
+
+    const other = acceptedMeasurements(db()).find((r) => r.dye.id !== template.dye.id && r.solvent.medium !== template.solvent.medium)!;
+    db().update(measurements).set({ dyeId: other.dye.id, conditionId: other.condition.id }).where(eq(measurements.id, "ms_it_new")).run();
+    const { body: moved } = await call(`lab=12,70,-90&limit=1&medium=${other.solvent.medium}`);
+    expect(moved.results[0]).toMatchObject({ measurementId: "ms_it_new", dye: { id: other.dye.id } });
+
+    db().update(measurements).set({ reviewState: "rejected" }).where(eq(measurements.id, "ms_it_new")).run();
+    const { body: gone } = await call("lab=12,70,-90&limit=1");
+    expect(gone.results[0].deltaE00).toBeCloseTo(before.results[0].deltaE00, 9);
+  });
+
+  it("follows a solvent moved to another medium class (the R*Tree's class dimension is re-keyed)", async () => {
+    const { body: before } = await call("lab=50,0,0&solvent=Toluene&medium=nonpolar&limit=3");
+    expect(before.results.length).toBeGreaterThan(0);
+    db().update(solvents).set({ medium: "dipolar-aprotic" }).where(eq(solvents.name, "Toluene")).run();
+    const { body: moved } = await call("lab=50,0,0&solvent=Toluene&medium=dipolar-aprotic&limit=3");
+    expect(moved.results.map((r: Hit) => r.dye.id)).toEqual(before.results.map((r: Hit) => r.dye.id));
+    expect((await call("lab=50,0,0&solvent=Toluene&medium=nonpolar&limit=3")).body.results).toEqual([]);
+    db().update(solvents).set({ medium: "nonpolar" }).where(eq(solvents.name, "Toluene")).run();
+    expect((await call("lab=50,0,0&solvent=Toluene&medium=nonpolar&limit=3")).body.results.map((r: Hit) => r.dye.id)).toEqual(before.results.map((r: Hit) => r.dye.id));
+  });
+
+  it("returns an empty list when no condition matches", async () => {
+    const { status, body } = await call("lab=50,0,0&acidBase=acid&phMin=13&phMax=14");
+    expect(status).toBe(200);
+    expect(body.results).toEqual([]);
+  });
+
+  it.each([
+    ["", /hex=rrggbb, lab=L,a,b or word/],
+    ["hex=12345", /hex must be six hexadecimal digits/],
+    ["lab=50,abc,0", /lab must be three numbers/],
+    ["lab=150,0,0", /0 ≤ L ≤ 100/],
+    ["lab=50,0,0&hex=ffffff", /one target/],
+    ["lab=50,0,0&medium=water", /medium must be one of/],
+    ["lab=50,0,0&acidBase=salty", /acidBase must be one of/],
+    ["lab=50,0,0&limit=0", /limit must be a whole number/],
+    ["lab=50,0,0&limit=abc", /limit must be a whole number/],
+    ["lab=50,0,0&phMin=9&phMax=3", /phMin must not be above phMax/],
+    ["lab=50,0,0&phMin=x", /phMin must be a number/],
+    ["word=chartreuse", /word must be one of/],
+    ["lab=50,0,0&solvent=Unobtainium", /no solvent called/],
+  ])("answers 422 with a clear message for '%s'", async (qs, message) => {
+    const { status, body } = await call(qs);
+    expect(status).toBe(422);
+    expect(body.error.code).toBe("invalid_input");
+    expect(body.error.message).toMatch(message);
+  });
+});
+
+describe("GET /api/search/shift", () => {
+  async function shift(query: string) {
+    const res = await shiftSearch(new Request(`http://localhost:3000/api/search/shift?${query}`, { headers: { authorization: `Bearer ${token}` } }));
+    return { status: res.status, body: await res.json() };
+  }
+  type ShiftHit = { dye: { code: string }; shift: number; a: { lab: Lab; condition: { solvent: string; acidBase: string; medium: string } }; b: { lab: Lab; condition: { solvent: string; acidBase: string; medium: string } }; viewers: { kind: string; deltaE00: number; passes: boolean }[] };
+
+  it("ranks acid → base in one solvent by the largest ΔE00, each shift exact for its pair", async () => {
+    const { status, body } = await shift("aAcidBase=acid&bAcidBase=base&sameSolvent=true&minShift=5&limit=50");
+    expect(status).toBe(200);
+    expect(body.results.length).toBeGreaterThan(0);
+    for (const r of body.results as ShiftHit[]) {
+      expect(r.a.condition.acidBase).toBe("acid");
+      expect(r.b.condition.acidBase).toBe("base");
+      expect(r.a.condition.solvent).toBe(r.b.condition.solvent);
+      expect(r.shift).toBeGreaterThanOrEqual(5);
+      expect(r.shift).toBeCloseTo(ciede2000(...r.a.lab, ...r.b.lab), 12);
+    }
+    const shifts = (body.results as ShiftHit[]).map((r) => r.shift);
+    expect([...shifts].sort((x, y) => y - x)).toEqual(shifts);
+    // Dyes never measured in acid and base are listed with the reason, not silently dropped.
+    expect(body.failures.some((f: { reason: string }) => /No accepted colour|same solvent|below the minimum/.test(f.reason))).toBe(true);
+  });
+
+  it("protic → aprotic from violet: the closest violet in A comes first", async () => {
+    const { body } = await shift("aMedium=protic&bMedium=aprotic&from=violet&limit=5");
+    const first = body.results[0] as ShiftHit & { fromDeltaE00: number };
+    expect(first.a.condition.medium).toBe("protic");
+    expect(first.b.condition.medium).not.toBe("protic");
+    const froms = body.results.map((r: { fromDeltaE00: number }) => r.fromDeltaE00);
+    expect([...froms].sort((x: number, y: number) => x - y)).toEqual(froms);
+  });
+
+  it("with a colour-vision requirement, every result passes it and failures say for which viewers", async () => {
+    const { body } = await shift("aAcidBase=acid&bAcidBase=base&sameSolvent=true&minShift=10&viewers=protan,deutan,tritan&viewerMinShift=8");
+    for (const r of body.results as ShiftHit[]) {
+      expect(r.viewers.map((v) => v.kind)).toEqual(["protan", "deutan", "tritan"]);
+      expect(r.viewers.every((v) => v.passes && v.deltaE00 >= 8)).toBe(true);
+    }
+    for (const f of body.failures as { reason: string; viewers: { passes: boolean }[] }[]) {
+      if (/visible/.test(f.reason)) expect(f.viewers.some((v) => !v.passes)).toBe(true);
+    }
+  });
+
+  it.each([
+    ["viewers=owl", /viewers must be/],
+    ["minShift=-1", /minShift must be/],
+    ["from=plaid", /from must be a colour word/],
+    ["aMedium=gas", /aMedium must be one of/],
+  ])("answers 422 for '%s'", async (qs, message) => {
+    const { status, body } = await shift(qs);
+    expect(status).toBe(422);
+    expect(body.error.message).toMatch(message);
+  });
+});
