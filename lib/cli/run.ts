@@ -1,13 +1,11 @@
 import { parseArgs } from "node:util";
-import { eq } from "drizzle-orm";
-import { databaseFile, migrateDatabase, openDatabase } from "../../db/connection";
-import { users } from "../../db/schema";
-import { createApiToken } from "../auth/service";
-import { dataDir } from "../config/env";
 
-export class CliError extends Error {}
+import { measureCommand, spectrumCommand } from "./color-commands";
+import { CliError } from "./errors";
 
-const USAGE = "Usage: cli token create --email <user> --name <label> (commands: token).";
+export { CliError };
+
+const USAGE = "Usage: cli <command> ... with a command of measure, spectrum or token (see the README).";
 
 type Command = (args: string[]) => Promise<unknown>;
 
@@ -22,6 +20,14 @@ const tokenCommand: Command = async (args) => {
   }
   if (!values.email) throw new CliError("Give the account's e-mail with --email.");
   if (!values.name || !values.name.trim()) throw new CliError("Name the token with --name, e.g. --name plate-reader-script.");
+  // Loaded here so the colour commands start without the database and auth modules.
+  const [{ eq }, { databaseFile, migrateDatabase, openDatabase }, { users }, { createApiToken }, { dataDir }] = await Promise.all([
+    import("drizzle-orm"),
+    import("../../db/connection"),
+    import("../../db/schema"),
+    import("../auth/service"),
+    import("../config/env"),
+  ]);
   const db = openDatabase(databaseFile(dataDir()));
   try {
     migrateDatabase(db);
@@ -35,7 +41,7 @@ const tokenCommand: Command = async (args) => {
   }
 };
 
-export const COMMANDS: Record<string, Command> = { token: tokenCommand };
+export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, token: tokenCommand };
 
 export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;

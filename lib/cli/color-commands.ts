@@ -1,0 +1,143 @@
+import { readFile } from "node:fs/promises";
+import { parseArgs } from "node:util";
+import { fitWhiteScaling, type Correction } from "../color/correction";
+import type { LabWhite } from "../color/convert";
+import { ColorInputError } from "../color/errors";
+import type { WhitePointName } from "../color/illuminants";
+import { colourOfRegion } from "../color/measure";
+import { decodePhoto, measureRegion, type RegionSpec } from "../color/regions";
+import { parseAbsorbanceCsv, spectrumColour } from "../color/spectrum";
+import type { Lab } from "../color/types";
+import { CliError } from "./errors";
+
+const MEASURE_USAGE = "Use 'measure <image> --roi x,y,w,h [--roi ...] [--white x,y,w,h --white-lab L,a,b] [--white-point D65|D50]'.";
+const SPECTRUM_USAGE = "Use 'spectrum <csv> [--illuminant D65|D50|A] [--scale k]'.";
+
+function parse<T extends Record<string, { type: "string"; multiple?: boolean }>>(args: string[], options: T, usage: string) {
+  try {
+    return parseArgs({ args, options, strict: true, allowPositionals: true });
+  } catch (error) {
+    throw new CliError(`${(error as Error).message.replace(/\.$/, "")}. ${usage}`);
+  }
+}
+
+/** A plain decimal number (no hex, no empty string, no "1e", no trailing junk). */
+function toNumber(s: string): number {
+  return /^\s*[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?\s*$/.test(s) ? Number(s) : NaN;
+}
+
+function numberList(value: string, count: number, option: string, example: string): number[] {
+  const parts = value.split(",");
+  const nums = parts.map(toNumber);
+  if (parts.length !== count || nums.some((n) => !Number.isFinite(n))) {
+    throw new CliError(`${option} needs ${count} comma-separated numbers, e.g. ${option} ${example}, and got '${value}'.`);
+  }
+  return nums;
+}
+
+function parseBox(value: string, option: string): [number, number, number, number] {
+  const nums = numberList(value, 4, option, "120,80,200,200");
+  if (!nums.every((n) => Number.isInteger(n) && n >= 0)) {
+    throw new CliError(`${option} takes whole non-negative pixel numbers x,y,w,h, and got '${value}'.`);
+  }
+  if (nums[2] === 0 || nums[3] === 0) throw new CliError(`The region ${option} ${value} is empty; give it a width and height of at least one pixel.`);
+  return nums as [number, number, number, number];
+}
+
+async function readInput(file: string | undefined, what: string, usage: string): Promise<Buffer> {
+  if (!file) throw new CliError(`Give the ${what} file to read. ${usage}`);
+  try {
+    return await readFile(file);
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    if (code === "ENOENT") throw new CliError(`The file ${file} does not exist; check the path.`);
+    if (code === "EISDIR") throw new CliError(`${file} is a folder, not a file; give the path of the ${what} file.`);
+    if (code === "EACCES" || code === "EPERM") throw new CliError(`The file ${file} cannot be read (permission denied); check its permissions.`);
+    throw new CliError(`The file ${file} cannot be read (${code ?? "unknown error"}); check the path.`);
+  }
+}
+
+function asCliError(error: unknown): never {
+  if (error instanceof ColorInputError) throw new CliError(error.message);
+  throw error;
+}
+
+export async function measureCommand(args: string[]): Promise<unknown> {
+  const { values, positionals } = parse(
+    args,
+    {
+      roi: { type: "string", multiple: true },
+      white: { type: "string" },
+      "white-lab": { type: "string" },
+      "white-point": { type: "string" },
+    },
+    MEASURE_USAGE,
+  );
+  if (positionals.length > 1) throw new CliError(`Give one image, not ${positionals.length} (${positionals.join(", ")}). ${MEASURE_USAGE}`);
+  const rois = (values.roi ?? []).map((r) => parseBox(r, "--roi"));
+  if (rois.length === 0) throw new CliError(`Mark at least one region with --roi x,y,w,h. ${MEASURE_USAGE}`);
+  const wp = (values["white-point"] ?? "D65").toUpperCase();
+  if (wp !== "D65" && wp !== "D50") throw new CliError(`--white-point must be D65 or D50, not '${values["white-point"]}'.`);
+  const white = wp as LabWhite;
+  if ((values.white === undefined) !== (values["white-lab"] === undefined)) {
+    throw new CliError("--white and --white-lab go together: mark the reference patch with --white x,y,w,h and give its known colour with --white-lab L,a,b.");
+  }
+  const whiteBox = values.white !== undefined ? parseBox(values.white, "--white") : undefined;
+  const whiteLab = values["white-lab"] !== undefined ? (numberList(values["white-lab"], 3, "--white-lab", "95,0,0") as Lab) : undefined;
+  const bytes = await readInput(positionals[0], "image", MEASURE_USAGE);
+
+  try {
+    const photo = await decodePhoto(bytes);
+    const rect = (b: number[]): RegionSpec => ({ shape: "rect", x: b[0], y: b[1], w: b[2], h: b[3] });
+    let correction: Correction = { kind: "none" };
+    let referenceFlags: string[] = [];
+    if (whiteBox && whiteLab) {
+      const ref = measureRegion(photo, rect(whiteBox));
+      correction = fitWhiteScaling({ measured: ref.linearRgb, referenceLab: whiteLab }, white).correction;
+      referenceFlags = ref.flags.map((f) => `reference-${f}`);
+    }
+    const measurements = rois.map((box) => {
+      const stats = measureRegion(photo, rect(box));
+      const colour = colourOfRegion(stats, correction, white);
+      return {
+        roi: box,
+        lab: colour.lab,
+        lch: colour.lch,
+        hex: colour.hex,
+        pixels: stats.pixels,
+        rejected: stats.rejected,
+        flags: [...colour.flags, ...referenceFlags],
+      };
+    });
+    return { measurements };
+  } catch (error) {
+    asCliError(error);
+  }
+}
+
+export async function spectrumCommand(args: string[]): Promise<unknown> {
+  const { values, positionals } = parse(args, { illuminant: { type: "string" }, scale: { type: "string" } }, SPECTRUM_USAGE);
+  if (positionals.length > 1) throw new CliError(`Give one spectrum file, not ${positionals.length}. ${SPECTRUM_USAGE}`);
+  const ill = (values.illuminant ?? "D65").toUpperCase();
+  if (ill !== "D65" && ill !== "D50" && ill !== "A") throw new CliError(`--illuminant must be D65, D50 or A, not '${values.illuminant}'.`);
+  let scale = 1;
+  if (values.scale !== undefined) {
+    scale = toNumber(values.scale);
+    if (!Number.isFinite(scale) || scale < 0) throw new CliError(`--scale needs a non-negative number, e.g. --scale 0.5, and got '${values.scale}'.`);
+  }
+  const bytes = await readInput(positionals[0], "spectrum CSV", SPECTRUM_USAGE);
+  try {
+    const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+    const colour = spectrumColour(parseAbsorbanceCsv(text), ill as WhitePointName, scale);
+    return {
+      xyz: colour.xyz,
+      lab: colour.lab,
+      hex: colour.hex,
+      lambdaMaxNm: colour.lambdaMaxNm,
+      transitionEnergyKcalMol: colour.transitionEnergyKcalMol,
+    };
+  } catch (error) {
+    if (error instanceof TypeError) throw new CliError("The spectrum file is not UTF-8 text; save it as a plain CSV file.");
+    asCliError(error);
+  }
+}

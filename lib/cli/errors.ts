@@ -1,0 +1,2 @@
+/** Bad command-line input: the message is the one sentence printed on stderr. */
+export class CliError extends Error {}
