@@ -14,9 +14,9 @@ afterAll(async () => {
 });
 
 const EXPECTED_NAV = {
-  "admin@demo.test": ["Overview", "Catalogue", "Bench", "Search", "Solvents", "Lighting", "Review", "Shortlists", "People"],
-  "chemist@demo.test": ["Overview", "Catalogue", "Bench", "Search", "Solvents", "Lighting", "Review", "Shortlists"],
-  "formulator@demo.test": ["Overview", "Catalogue", "Search", "Solvents", "Lighting", "Shortlists"],
+  "admin@demo.test": ["Overview", "Catalogue", "Bench", "Measurements", "Search", "Solvents", "Lighting", "Review", "Shortlists", "People"],
+  "chemist@demo.test": ["Overview", "Catalogue", "Bench", "Measurements", "Search", "Solvents", "Lighting", "Review", "Shortlists"],
+  "formulator@demo.test": ["Overview", "Catalogue", "Measurements", "Search", "Solvents", "Lighting", "Shortlists"],
 } as const;
 
 describe("each demo user", () => {
