@@ -6,12 +6,15 @@
  */
 import { randomUUID } from "node:crypto";
 import { eq } from "drizzle-orm";
+import { runPipeline, type PipelineResult, type ReferenceInput } from "../../lib/bench/pipeline";
+import { ColorInputError, decodePhoto, type DecodedPhoto, type RegionSpec } from "../../lib/color/regions";
 import { AppError } from "../../lib/errors";
 import { derivedKeyFor, keyFor, sha256OfBytes, STORE_PREFIXES, type ObjectStore } from "../../lib/storage/driver";
 import { inspectPhoto, makeDerivatives, type PhotoLimits } from "../../lib/storage/photo-intake";
 import type { Db } from "../connection";
 import { lightingProfiles, photos, type Photo } from "../schema";
 import { recordAudit } from "./audit";
+import { profileForPipeline } from "./bench";
 
 export type StorePhotoResult = { photo: Photo; duplicate: boolean };
 
@@ -138,4 +141,46 @@ export async function sweepOrphanFiles(db: Db, store: ObjectStore, { graceMs = 6
     }
   }
   return report;
+}
+
+// ---------------------------------------------------------------- decoded photos for measuring
+
+const decodedCache = new Map<string, Promise<DecodedPhoto>>();
+/** Decoded photos kept in memory while someone marks them (a 12 MP photo is ≈ 36 MB decoded). */
+const DECODED_CACHE_SIZE = 3;
+
+/** The photo decoded once by the colour engine (EXIF orientation applied), cached for live measuring. */
+export function decodedPhoto(store: ObjectStore, photo: Photo, maxPixels: number): Promise<DecodedPhoto> {
+  const hit = decodedCache.get(photo.sha256);
+  if (hit) {
+    decodedCache.delete(photo.sha256);
+    decodedCache.set(photo.sha256, hit);
+    return hit;
+  }
+  const loading = store.read(photo.storageKey).then((bytes) => decodePhoto(bytes, { maxPixels }));
+  loading.catch(() => decodedCache.delete(photo.sha256));
+  decodedCache.set(photo.sha256, loading);
+  while (decodedCache.size > DECODED_CACHE_SIZE) decodedCache.delete(decodedCache.keys().next().value!);
+  return loading;
+}
+
+/**
+ * Measures regions on a stored photo with the colour engine: the photo's bytes from the store, the
+ * lighting profile from the database, the references marked in it. Colour-engine refusals (a region
+ * off the photo, a reference too dark to scale by) become 422s with the engine's sentence.
+ */
+export async function measureOnPhoto(
+  db: Db,
+  store: ObjectStore,
+  photo: Photo,
+  input: { lightingProfileId: string | null; references: ReferenceInput[]; vials: RegionSpec[]; maxPixels: number },
+): Promise<PipelineResult> {
+  const profile = profileForPipeline(db, input.lightingProfileId);
+  const decoded = await decodedPhoto(store, photo, input.maxPixels);
+  try {
+    return runPipeline(decoded, { vials: input.vials, references: input.references, profile, takenAt: photo.takenAt ?? photo.createdAt });
+  } catch (error) {
+    if (error instanceof ColorInputError) throw new AppError("invalid_input", error.message);
+    throw error;
+  }
 }
