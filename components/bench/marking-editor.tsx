@@ -41,7 +41,6 @@ export type PatchOption = { label: string; lab: [number, number, number] };
 
 const MEDIUM_LABEL = { protic: "protic", "dipolar-aprotic": "dipolar aprotic", nonpolar: "non-polar" } as const;
 const ZOOMS = [0.5, 0.75, 1, 1.5, 2, 3, 4];
-const BASE_WIDTH = 880;
 const FLAG_TEXT: Record<string, string> = {
   "too-few-pixels": "too few pixels",
   "much-rejected": "many pixels rejected (glare, label or edge)",
@@ -83,13 +82,27 @@ export function MarkingEditor(props: {
   const [templateName, setTemplateName] = useState("");
   const [templateChoice, setTemplateChoice] = useState(props.templates[0]?.id ?? "");
   const svgRef = useRef<SVGSVGElement>(null);
+  const wrapRef = useRef<HTMLDivElement>(null);
+  // At 100 % the whole photo fits the space beside the region list (and 72 % of the window's height).
+  const [fit, setFit] = useState(800);
+  const [ready, setReady] = useState(false);
+  useEffect(() => {
+    const el = wrapRef.current;
+    if (!el) return;
+    const measureFit = () => setFit(Math.max(240, Math.min(el.clientWidth - 2, ((window.innerHeight * 0.72) * W) / H)));
+    measureFit();
+    setReady(true);
+    const observer = new ResizeObserver(measureFit);
+    observer.observe(el);
+    return () => observer.disconnect();
+  }, [W, H]);
   const drag = useRef<{ mode: "draw" | "move" | "resize"; key: string; start: { x: number; y: number }; orig: { x: number; y: number; w: number; h: number }; handle?: string } | null>(null);
 
   const [saveState, saveAction, saving] = useActionState(saveMeasurementsAction, null);
   const [tplState, tplAction, tplSaving] = useActionState(saveTemplateAction, null);
   const [delState, delAction] = useActionState(deleteTemplateAction, null);
 
-  const scale = (BASE_WIDTH * zoom) / W; // CSS px per photo px
+  const scale = (fit * zoom) / W; // CSS px per photo px
   const handle = 18 / scale;
   const vials = marks.filter((m) => m.role === "vial");
   const refs = marks.filter((m) => m.role === "reference");
@@ -459,13 +472,14 @@ export function MarkingEditor(props: {
 
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_26rem]">
         <div>
-          <div className="max-h-[72vh] overflow-auto rounded-xl border border-line bg-[#1b1f27]">
-            <div className="relative" style={{ width: BASE_WIDTH * zoom, height: BASE_WIDTH * zoom * (H / W) }}>
+          <div ref={wrapRef} className="max-h-[75vh] overflow-auto rounded-xl border border-line bg-[#1b1f27]">
+            <div className="relative" style={{ width: fit * zoom, height: fit * zoom * (H / W) }}>
               {/* eslint-disable-next-line @next/next/no-img-element */}
               <img src={props.displayUrl} alt={`Rack photo ${photo.name}`} draggable={false} className="absolute inset-0 h-full w-full select-none" />
               <svg
                 ref={svgRef}
                 data-testid="marking-canvas"
+                data-ready={ready ? "true" : undefined}
                 viewBox={`0 0 ${W} ${H}`}
                 preserveAspectRatio="none"
                 className="absolute inset-0 h-full w-full cursor-crosshair touch-none focus:outline-none focus-visible:ring-4 focus-visible:ring-accent/50"
@@ -486,7 +500,7 @@ export function MarkingEditor(props: {
                   return (
                     <g key={m.key} data-testid="region" data-label={m.label}>
                       {m.shape === "rect" ? <rect x={m.x} y={m.y} width={m.w} height={m.h} {...common} /> : <ellipse cx={m.x + m.w / 2} cy={m.y + m.h / 2} rx={m.w / 2} ry={m.h / 2} {...common} />}
-                      <text x={m.x + 2 / scale} y={m.y - 6 / scale} fontSize={13 / scale} fill={colour} style={{ pointerEvents: "none", fontWeight: 600 }}>
+                      <text x={m.x + 2 / scale} y={m.y - 6 / scale} fontSize={13 / scale} fill={colour} stroke="#111827" strokeWidth={3} paintOrder="stroke" vectorEffect="non-scaling-stroke" style={{ pointerEvents: "none", fontWeight: 600 }}>
                         {m.label}
                       </text>
                       {isSel &&
@@ -752,7 +766,7 @@ export function MarkingEditor(props: {
             </button>
             {saveState && (
               <p role={saveState.ok ? "status" : "alert"} className={`text-sm ${saveState.ok ? "text-ok" : "text-bad"}`}>
-                {saveState.message} {saveState.ok && <Link href="/review" className="font-semibold underline">Review queue</Link>}
+                {saveState.message} {saveState.ok && <Link href={`/review?photoId=${photo.id}`} className="font-semibold underline">Open them in the review queue</Link>}
               </p>
             )}
           </form>

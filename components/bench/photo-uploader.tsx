@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { useRouter } from "next/navigation";
-import { useCallback, useRef, useState } from "react";
+import { useCallback, useEffect, useRef, useState } from "react";
 import { useDropzone, type FileRejection } from "react-dropzone";
 
 type Item = {
@@ -48,6 +48,9 @@ export function PhotoUploader({ maxBytes, profiles }: { maxBytes: number; profil
   const [items, setItems] = useState<Item[]>([]);
   const [profile, setProfile] = useState("");
   const serial = useRef(0);
+  // Marks the drop zone as live once React has attached its handlers (tests wait for it).
+  const [ready, setReady] = useState(false);
+  useEffect(() => setReady(true), []);
 
   const update = (id: number, patch: Partial<Item>) => setItems((all) => all.map((it) => (it.id === id ? { ...it, ...patch } : it)));
 
@@ -122,6 +125,7 @@ export function PhotoUploader({ maxBytes, profiles }: { maxBytes: number; profil
           }`,
         })}
         data-testid="photo-dropzone"
+        data-ready={ready ? "true" : undefined}
       >
         <input {...getInputProps()} data-testid="photo-input" />
         <p className="text-base font-semibold">{isDragActive ? "Drop the photos to upload them" : "Drop rack photos here, or press Enter to choose files"}</p>

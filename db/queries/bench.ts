@@ -55,19 +55,23 @@ export function listRecentPhotos(db: Db, { limit = 30 }: { limit?: number } = {}
   return rows;
 }
 
-/** Measurements waiting for review, with who made them; oldest first. */
-export function reviewQueue(db: Db, { limit = 100 }: { limit?: number } = {}) {
-  return db
-    .select({ m: measurements, dye: dyes, solvent: solvents, condition: conditions, author: users.name })
+/** Measurements waiting for review, with who made them and their photo; oldest first, optionally of one photo. */
+export function reviewQueue(db: Db, { limit = 100, photoId }: { limit?: number; photoId?: string } = {}) {
+  const pending = photoId ? and(eq(measurements.reviewState, "pending"), eq(measurements.photoId, photoId)) : eq(measurements.reviewState, "pending");
+  const rows = db
+    .select({ m: measurements, dye: dyes, solvent: solvents, condition: conditions, author: users.name, photo: { id: photos.id, width: photos.width, height: photos.height, name: photos.originalName } })
     .from(measurements)
     .innerJoin(dyes, eq(measurements.dyeId, dyes.id))
     .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
     .innerJoin(solvents, eq(conditions.solventId, solvents.id))
     .innerJoin(users, eq(measurements.createdBy, users.id))
-    .where(eq(measurements.reviewState, "pending"))
-    .orderBy(measurements.createdAt)
+    .leftJoin(photos, eq(measurements.photoId, photos.id))
+    .where(pending)
+    .orderBy(measurements.createdAt, measurements.id)
     .limit(limit)
     .all();
+  const total = db.select({ n: sql<number>`count(*)` }).from(measurements).where(pending).get()?.n ?? 0;
+  return Object.assign(rows, { total });
 }
 
 export function countMeasurements(db: Db) {

@@ -13,28 +13,13 @@ import { auditLog, conditions, lightingProfiles, measurements, photos } from "@/
 import { applyCorrection, correctionFromArray } from "@/lib/color/correction";
 import { linearSrgbToLab } from "@/lib/color/convert";
 import { objectStore } from "@/lib/storage";
-import { readFixtureCsv } from "../support/fixtures";
+import { deltaE76, labOf8 as labOf8Ref, srgbDecode8, srgbEncode } from "../support/srgb-reference";
 import { actAs, buildWorld, form, PEOPLE, tokenFor } from "../support/world";
 import { RACK, rackPhoto, type Rgb8 } from "../support/photos";
 
-// sRGB per IEC 61966-2-1 (tests/fixtures/srgb_iec61966_2_1_parameters.csv) and CIELAB per CIE 015:2018
-// §8.2.1, written out here independently of lib/color.
-const P = Object.fromEntries(readFixtureCsv("srgb_iec61966_2_1_parameters.csv").map((r) => [r.parameter, Number(r.value)]));
-const M = [1, 2, 3].map((i) => [1, 2, 3].map((j) => P[`M_RGB_to_XYZ_${i}${j}`]));
-const decode = (v8: number) => {
-  const v = v8 / 255;
-  return v <= 0.04045 ? v / P.eotf_inverse_linear_slope : ((v + P.eotf_inverse_offset) / P.eotf_inverse_scale) ** P.eotf_exponent;
-};
-function labOfLinear(rgb: number[]): number[] {
-  const xyz = M.map((row) => row.reduce((s, m, j) => s + m * rgb[j], 0));
-  const white = M.map((row) => row[0] + row[1] + row[2]);
-  const f = (t: number) => (t > (6 / 29) ** 3 ? Math.cbrt(t) : t / (3 * (6 / 29) ** 2) + 4 / 29);
-  const [fx, fy, fz] = xyz.map((v, i) => f(v / white[i]));
-  return [116 * fy - 16, 500 * (fx - fy), 200 * (fy - fz)];
-}
-const labOf8 = (c: Rgb8) => labOfLinear(c.map(decode));
-/** Plain Euclidean ΔE*ab (CIE 1976), enough for a closeness check. */
-const dE76 = (p: number[], q: number[]) => Math.hypot(p[0] - q[0], p[1] - q[1], p[2] - q[2]);
+const decode = srgbDecode8;
+const labOf8 = (c: Rgb8) => labOf8Ref(c);
+const dE76 = deltaE76;
 
 const VIALS: Rgb8[] = [
   [190, 60, 120],
@@ -60,9 +45,7 @@ beforeAll(async () => {
   dimPhotoId = (await storePhoto(db(), objectStore(), { bytes: await rackPhoto(VIALS.map(dim), { white: dim(WHITE_8), format: "png" }), originalName: "dim.png", uploaderId: PEOPLE.chemist.id, limits })).photo.id;
 });
 
-function encode(v: number) {
-  return v <= 0.0031308 ? 12.92 * v : 1.055 * v ** (1 / 2.4) - 0.055;
-}
+const encode = srgbEncode;
 
 const vial = (i: number, extra: Record<string, unknown> = {}) => ({ region: vialRegion(i), dyeId: "dye_t1", solventId: ["solv-methanol", "solv-acetonitrile", "solv-toluene", "solv-water"][i], acidBase: "neutral", ph: null, concentrationUmolL: 20, flagReason: "", ...extra });
 const save = (payload: unknown) => saveMeasurementsAction(null, form({ payload: JSON.stringify(payload) }));
