@@ -239,7 +239,13 @@ export function MarkingEditor(props: {
     }
     setMarks((all) => [...all, ...made]);
     if (made.length) setSelected(made[made.length - 1].key);
-    setNote(stopped ? `Stopped at the edge of the photo after ${made.length}.` : null);
+    setNote(
+      stopped
+        ? `Stopped at the edge of the photo after ${made.length}.`
+        : vials.length < 2 && from.role === "vial"
+          ? "Move the copy onto the next vial; further copies keep the spacing between the last two vials."
+          : null,
+    );
   }
 
   function renumber() {
@@ -446,6 +452,18 @@ export function MarkingEditor(props: {
           </button>
         </div>
         <div className="flex items-center gap-1">
+          <button
+            type="button"
+            onClick={() => {
+              const m = addMark({ x: W * 0.45, y: H * 0.35, w: Math.max(8, W * 0.08), h: Math.max(8, H * 0.3) }, newRole, newShape);
+              setMarks((all) => [...all, m]);
+              setSelected(m.key);
+              svgRef.current?.focus();
+            }}
+            className="min-h-11 rounded-lg border border-line px-3 text-sm font-semibold"
+          >
+            Add a region
+          </button>
           <button type="button" onClick={() => duplicateAlongRack()} disabled={marks.length === 0} className="min-h-11 rounded-lg border border-line px-3 text-sm font-semibold disabled:opacity-40">
             Duplicate along the rack
           </button>
@@ -531,7 +549,7 @@ export function MarkingEditor(props: {
             the rack, E ellipse/rectangle, R vial/reference, N/P next/previous, Delete removes, +/− zoom. Colours on screen are approximations; the numbers are the measurement.
           </p>
 
-          <div className="mt-4 grid gap-3 rounded-xl border border-line bg-white p-4 md:grid-cols-2">
+          <div className="mt-4 grid gap-3 rounded-xl border border-line bg-white p-4 2xl:grid-cols-2">
             <div className="space-y-2">
               <label htmlFor="template-choice" className="block text-sm font-semibold">
                 Rack layouts
@@ -665,7 +683,7 @@ export function MarkingEditor(props: {
                       </div>
                       <div className="col-span-2 space-y-1">
                         <label htmlFor={`conc-${m.key}`} className="block text-xs font-semibold uppercase tracking-wide text-ink-soft">
-                          Dye concentration, µmol/L (optional)
+                          Dye concentration, <span className="normal-case">µmol/L</span> (optional)
                         </label>
                         <input id={`conc-${m.key}`} inputMode="decimal" value={m.conc} onChange={(e) => update(m.key, { conc: e.target.value })} className="min-h-11 w-full rounded-lg border border-line px-2 text-sm" />
                       </div>
