@@ -174,6 +174,20 @@ export function saveMeasurements(
         throw new AppError("invalid_input", `Vial ${i + 1}: that solvent is not in the solvent table.`, { [`vials.${i}.solventId`]: ["Unknown solvent."] });
       }
     }
+    // One photo, one light: never mix lighting profiles among a photo's standing measurements.
+    const mixed = tx
+      .select({ profile: lightingProfiles.name, id: measurements.lightingProfileId })
+      .from(measurements)
+      .leftJoin(lightingProfiles, eq(measurements.lightingProfileId, lightingProfiles.id))
+      .where(and(eq(measurements.photoId, photo.id), sql`${measurements.reviewState} != 'rejected'`, sql`${measurements.lightingProfileId} is not ${input.lightingProfileId}`))
+      .get();
+    if (mixed) {
+      throw new AppError(
+        "conflict",
+        `Earlier measurements from this photo were corrected with ${mixed.profile ? `the profile “${mixed.profile}”` : "no lighting profile"}; use the same here, or have those rejected first, so one photo never mixes two lights.`,
+        { lightingProfileId: ["Use the profile of this photo's other measurements."] },
+      );
+    }
     if ((photo.lightingProfileId ?? null) !== input.lightingProfileId) {
       tx.update(photos).set({ lightingProfileId: input.lightingProfileId }).where(eq(photos.id, photo.id)).run();
       recordAudit(tx, {

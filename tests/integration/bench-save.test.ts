@@ -33,6 +33,7 @@ const whiteRegion = { shape: "ellipse" as const, x: RACK.white.x + 20, y: RACK.w
 
 let photoId: string;
 let dimPhotoId: string;
+let profilePhotoId: string;
 const WHITE_8: Rgb8 = [235, 235, 235];
 
 beforeAll(async () => {
@@ -42,6 +43,7 @@ beforeAll(async () => {
   // The same rack under a dimmer, warmer light: every channel scaled in linear light.
   const gains = [0.8, 0.7, 0.55];
   const dim = (c: Rgb8) => c.map((v, k) => Math.round(255 * encode(decode(v) * gains[k]))) as Rgb8;
+  profilePhotoId = (await storePhoto(db(), objectStore(), { bytes: await rackPhoto(VIALS, { white: WHITE_8, format: "png", backdrop: [20, 20, 20] }), originalName: "profiled.png", uploaderId: PEOPLE.chemist.id, limits })).photo.id;
   dimPhotoId = (await storePhoto(db(), objectStore(), { bytes: await rackPhoto(VIALS.map(dim), { white: dim(WHITE_8), format: "png" }), originalName: "dim.png", uploaderId: PEOPLE.chemist.id, limits })).photo.id;
 });
 
@@ -154,9 +156,9 @@ describe("saving measurements", () => {
     const refs = [{ region: whiteRegion, lab: labOf8(WHITE_8) }];
     // This photo's light is not the profile's: the white seen through the profile is off by more than
     // the drift limit, so every vial is flagged and needs a reason.
-    const drift = await save({ photoId, lightingProfileId: "lp_t", references: refs, vials: [vial(0, { acidBase: "acid", ph: 2.5 })] });
+    const drift = await save({ photoId: profilePhotoId, lightingProfileId: "lp_t", references: refs, vials: [vial(0, { acidBase: "acid", ph: 2.5 })] });
     expect(drift).toMatchObject({ ok: false, message: expect.stringMatching(/reference-drift/) });
-    const state = await save({ photoId, lightingProfileId: "lp_t", references: refs, vials: [vial(0, { acidBase: "acid", ph: 2.5, flagReason: "Lamp replaced yesterday; the white tile corrects it." })] });
+    const state = await save({ photoId: profilePhotoId, lightingProfileId: "lp_t", references: refs, vials: [vial(0, { acidBase: "acid", ph: 2.5, flagReason: "Lamp replaced yesterday; the white tile corrects it." })] });
     expect(state, JSON.stringify(state)).toMatchObject({ ok: true });
     const row = db().select().from(measurements).where(eq(measurements.id, (state!.data!.ids as string[])[0])).get()!;
     expect(row.correctionKind).toBe("matrix-3x3");
@@ -164,10 +166,19 @@ describe("saving measurements", () => {
     // diag(g)·diag(1.1, 1, 0.9) with g undoing the profile on this white: back to about the identity.
     [1, 0, 0, 0, 1, 0, 0, 0, 1].forEach((v, k) => expect(row.correction![k]).toBeCloseTo(v, 2));
     expect(dE76([row.l, row.a, row.b], labOf8(VIALS[0]))).toBeLessThan(0.2);
-    expect(db().select().from(photos).where(eq(photos.id, photoId)).get()!.lightingProfileId).toBe("lp_t");
+    expect(db().select().from(photos).where(eq(photos.id, profilePhotoId)).get()!.lightingProfileId).toBe("lp_t");
     const cond = db().select().from(conditions).where(eq(conditions.id, row.conditionId)).get()!;
     expect(cond).toMatchObject({ acidBase: "acid", ph: 2.5, concentrationUmolL: 20, solventId: "solv-methanol" });
-    expect(db().select().from(auditLog).where(eq(auditLog.entityId, photoId)).all().map((a) => a.action)).toContain("photo.set-profile");
+    expect(db().select().from(auditLog).where(eq(auditLog.entityId, profilePhotoId)).all().map((a) => a.action)).toContain("photo.set-profile");
+  });
+
+  it("never mixes two lighting profiles among one photo's standing measurements", async () => {
+    await actAs("chemist");
+    const before = counts();
+    // photoId already has a pending measurement made without a profile (above).
+    const mixed = await save({ photoId, lightingProfileId: "lp_t", references: [{ region: whiteRegion, lab: labOf8(WHITE_8) }], vials: [vial(1, { flagReason: "drift is known" })] });
+    expect(mixed).toMatchObject({ ok: false, code: "conflict", message: expect.stringMatching(/no lighting profile; use the same here/) });
+    expect(counts()).toEqual(before);
   });
 
   it("refuses formulators", async () => {
