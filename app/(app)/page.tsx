@@ -46,11 +46,11 @@ export default async function OverviewPage() {
         <Card title="Latest rack photos">
           <ul className="divide-y divide-line text-sm">
             {photos.map(({ photo, uploader, profile, count }) => (
-              <li key={photo.id} className="flex justify-between gap-3 py-2">
-                <span className="truncate">{photo.originalName}</span>
-                <span className="shrink-0 text-ink-soft">
-                  {count} vials · {profile ?? "no profile"} · {uploader}
-                </span>
+              <li key={photo.id} className="py-2">
+                <p className="font-mono text-xs">{photo.originalName}</p>
+                <p className="text-ink-soft">
+                  {photo.takenAt?.toISOString().slice(0, 10) ?? "undated"} · {count} vials · {profile ?? "no lighting profile"} · {uploader}
+                </p>
               </li>
             ))}
           </ul>

@@ -4,8 +4,10 @@ import { redirect } from "next/navigation";
 import { z } from "zod";
 import { db } from "@/db/client";
 import { formAction } from "@/lib/auth/guard";
+import { ANY_ROLE } from "@/lib/auth/roles";
 import {
   acceptInvitation,
+  changePassword,
   completePasswordReset,
   createPasswordReset,
   signInWithPassword,
@@ -14,7 +16,7 @@ import {
 import { clearSessionCookie, clientIp, sessionIdFromCookie, writeSessionCookie } from "@/lib/auth/session";
 import { appUrl } from "@/lib/config/env";
 import { send } from "@/lib/mail";
-import { emailSchema, newPasswordSchema, signInSchema } from "@/lib/validation/schemas";
+import { emailSchema, newPasswordSchema, passwordSchema, signInSchema } from "@/lib/validation/schemas";
 
 export const signInAction = formAction({ access: "public", schema: signInSchema }, async (input) => {
   const { sessionId, expiresAt } = await signInWithPassword(db(), { email: input.email, password: input.password, ip: await clientIp() });
@@ -52,4 +54,13 @@ export const acceptInvitationAction = formAction({ access: "public", schema: new
   const { sessionId, expiresAt } = await signInWithPassword(db(), { email: user.email, password, ip: await clientIp() });
   await writeSessionCookie(sessionId, expiresAt);
   redirect("/");
+});
+
+const changePasswordSchema = z
+  .object({ currentPassword: z.string().min(1, { error: "Enter your current password." }).max(200), password: passwordSchema, confirm: z.string() })
+  .refine((v) => v.password === v.confirm, { error: "The two passwords differ; type the same one twice.", path: ["confirm"] });
+
+export const changePasswordAction = formAction({ access: ANY_ROLE, schema: changePasswordSchema }, async (input, { user }) => {
+  await changePassword(db(), { userId: user.id, currentPassword: input.currentPassword, newPassword: input.password, keepSessionId: await sessionIdFromCookie() });
+  return { ok: true, message: "Password changed. Other devices signed in with your account have been signed out." };
 });

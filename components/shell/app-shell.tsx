@@ -36,7 +36,7 @@ export function AppShell({ user, children }: { user: AuthUser; children: React.R
       </aside>
       <div className="flex min-w-0 flex-col">
         <header className="no-print sticky top-0 z-10 flex flex-wrap items-center gap-3 border-b border-line bg-paper/95 px-4 py-3 backdrop-blur lg:px-8">
-          <form action="/catalogue" role="search" className="flex min-w-0 flex-1 items-center gap-2">
+          <form action="/catalogue" role="search" className="order-last flex w-full min-w-0 items-center gap-2 sm:order-none sm:w-auto sm:flex-1">
             <label htmlFor="top-search" className="sr-only">
               Find a dye by name, code, CAS number or class
             </label>
@@ -48,7 +48,7 @@ export function AppShell({ user, children }: { user: AuthUser; children: React.R
               className="min-h-11 w-full max-w-md rounded-lg border border-line bg-white px-3 text-base"
             />
           </form>
-          <div className="flex items-center gap-3 text-sm">
+          <div className="ml-auto flex items-center gap-3 text-sm">
             <Link href="/account" className="flex min-h-11 items-center gap-2 rounded-lg px-2 hover:bg-paper-deep" data-testid="current-user">
               <span className="font-medium">{user.name}</span>
               <span className="rounded-full bg-accent-soft px-2 py-0.5 text-xs font-semibold text-accent" data-testid="current-role">

@@ -5,10 +5,10 @@
 import path from "node:path";
 import sharp from "sharp";
 import { sql } from "drizzle-orm";
-import { deltaE00 } from "../../lib/color/difference";
 import { WHITE_POINTS_2DEG } from "../../lib/color/illuminants";
 import { xyzToLab } from "../../lib/color/lab";
-import { mat3Inverse, type Mat3 } from "../../lib/color/matrix";
+import { applyCorrection, correctionToArray, fitMatrix3x3 } from "../../lib/color/correction";
+import type { Mat3 } from "../../lib/color/matrix";
 import { linearSrgbToXyzD65, mat3MulVec, srgbEncode, xyzD65ToLinearSrgb } from "../../lib/color/srgb";
 import type { Lab, LinearRgb, Vec3 } from "../../lib/color/types";
 import { hashPassword } from "../../lib/auth/password";
@@ -162,29 +162,34 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
   const planned = plan(dyeList, solventByName, random);
   const [admin, chemist, formulator] = DEMO_USERS;
 
-  // Profiles: the first light box until June 2026, the copy stand after.
+  // Profiles: the first light box until June 2026, the copy stand after. Each is fitted the way an
+  // admin would: a photo of the calibration card under that light (the camera's response with a
+  // slight non-linearity and noise), then the colour engine's 3×3 least-squares fit.
   const profileDefs = CAMERAS.map((camera, i) => {
-    const correction = mat3Inverse(camera.matrix);
-    const residuals = CARD_PATCHES.map((p) => {
-      const raw = mat3MulVec(camera.matrix, p.rgb);
-      const corrected = mat3MulVec(correction, raw);
-      return { patch: p.name, deltaE00: Math.round(deltaE00(labOfLinear(corrected), labOfLinear(p.rgb)) * 1e4) / 1e4 };
-    });
+    const patches = CARD_PATCHES.map((p) => ({
+      measured: mat3MulVec(camera.matrix, p.rgb).map((v) => Math.pow(Math.max(v, 1e-6), 1.03) * (1 + 0.004 * gaussian(random))) as LinearRgb,
+      referenceLab: labOfLinear(p.rgb),
+    }));
+    const fit = fitMatrix3x3(patches, "D65");
+    const stored = correctionToArray(fit.correction);
     return {
-      id: `lp_demo_${i + 1}`,
-      name: i === 0 ? "Light box North — D65 LED panel" : "Copy stand South — daylight LED strip",
-      illuminant: "D65" as const,
-      lightSource: i === 0 ? "Daylight LED panel, 6500 K, diffuser box" : "Daylight LED strips, 6500 K, two sides at 45°",
-      camera: camera.name,
-      targetId: "ct_demo_card",
-      correctionKind: "matrix-3x3" as const,
-      correction: correction.flat(),
-      residuals,
-      validFrom: new Date(i === 0 ? "2026-03-01T08:00:00Z" : "2026-06-01T08:00:00Z"),
-      validUntil: i === 0 ? new Date("2026-05-31T18:00:00Z") : null,
-      approvedBy: admin.id,
-      approvedAt: new Date(i === 0 ? "2026-03-01T09:00:00Z" : "2026-06-01T09:00:00Z"),
-      createdBy: admin.id,
+      fit,
+      row: {
+        id: `lp_demo_${i + 1}`,
+        name: i === 0 ? "Light box North — D65 LED panel" : "Copy stand South — daylight LED strip",
+        illuminant: "D65" as const,
+        lightSource: i === 0 ? "Daylight LED panel, 6500 K, diffuser box" : "Daylight LED strips, 6500 K, two sides at 45°",
+        camera: camera.name,
+        targetId: "ct_demo_card",
+        correctionKind: stored.kind,
+        correction: stored.values,
+        residuals: CARD_PATCHES.map((p, k) => ({ patch: p.name, deltaE00: Math.round(fit.residuals[k].deltaE00 * 1e4) / 1e4 })),
+        validFrom: new Date(i === 0 ? "2026-03-01T08:00:00Z" : "2026-06-01T08:00:00Z"),
+        validUntil: i === 0 ? new Date("2026-05-31T18:00:00Z") : null,
+        approvedBy: admin.id,
+        approvedAt: new Date(i === 0 ? "2026-03-01T09:00:00Z" : "2026-06-01T09:00:00Z"),
+        createdBy: admin.id,
+      },
     };
   });
 
@@ -207,9 +212,9 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
   for (let r = 0; r < racks.length; r++) {
     const rack = racks[r];
     const takenAt = new Date(start + ((end - start) * r) / racks.length);
-    const profileIndex = takenAt.getTime() < profileDefs[1].validFrom.getTime() ? 0 : 1;
+    const profileIndex = takenAt.getTime() < profileDefs[1].row.validFrom.getTime() ? 0 : 1;
     const camera = CAMERAS[profileIndex];
-    const correction = mat3Inverse(camera.matrix);
+    const correction = profileDefs[profileIndex].fit.correction;
     const vials: LinearRgb[] = [];
     const photoId = `ph_demo_${String(r + 1).padStart(4, "0")}`;
     rack.items.forEach((item, slot) => {
@@ -219,7 +224,7 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
       const clipped = rawExact.some((v) => v < 0.002 || v > 0.98);
       const raw = rawExact.map((v) => Math.min(0.98, Math.max(0.002, v * (1 + 0.006 * gaussian(random))))) as LinearRgb;
       vials.push(raw);
-      const corrected = mat3MulVec(correction, raw);
+      const corrected = applyCorrection(correction, raw);
       const cxyz = linearSrgbToXyzD65(corrected);
       const lab = xyzToLab(cxyz, WHITE_POINTS_2DEG.D65);
       const condKey = `${item.solvent.id}|${item.acidBase}|${item.pH}|${item.additive}`;
@@ -245,7 +250,7 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
         region: { shape: "rect", x: VIAL.x0 + slot * VIAL.step + 10, y: VIAL.y + 20, w: VIAL.w - 20, h: VIAL.h - 40 },
         dyeId: `dye_${item.dye.code.toLowerCase()}`,
         conditionId: conditionRows.get(condKey)!.id,
-        lightingProfileId: profileDefs[profileIndex].id,
+        lightingProfileId: profileDefs[profileIndex].row.id,
         rawR: raw[0],
         rawG: raw[1],
         rawB: raw[2],
@@ -283,7 +288,7 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
       height: IMAGE.h,
       exif: { make: "Demo", model: camera.name, takenAt: takenAt.toISOString(), orientation: 1 },
       originalName: `rack-${rack.dye.code}-${r + 1}.jpg`,
-      lightingProfileId: profileDefs[profileIndex].id,
+      lightingProfileId: profileDefs[profileIndex].row.id,
       uploadedBy: chemist.id,
       takenAt,
       createdAt: new Date(takenAt.getTime() + 10 * 60 * 1000),
@@ -301,7 +306,7 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
         patches: CARD_PATCHES.map((p) => ({ name: p.name, lab: labOfLinear(p.rgb) })),
       })
       .run();
-    for (const p of profileDefs) tx.insert(lightingProfiles).values(p).run();
+    for (const p of profileDefs) tx.insert(lightingProfiles).values(p.row).run();
     for (const d of dyeList) {
       tx.insert(dyes)
         .values({

@@ -220,3 +220,22 @@ export async function completePasswordReset(db: Db, { secret, password }: { secr
   await invalidateAllSessions(db, reset.userId);
   return toPublicUser(findUserById(db, { id: reset.userId })!);
 }
+
+/** Changes a signed-in person's password after checking the current one; ends their other sessions. */
+export async function changePassword(
+  db: Db,
+  { userId, currentPassword, newPassword, keepSessionId }: { userId: string; currentPassword: string; newPassword: string; keepSessionId: string | null },
+): Promise<void> {
+  const user = findUserById(db, { id: userId });
+  if (!user?.passwordHash || !(await verifyPassword(user.passwordHash, currentPassword))) {
+    throw new AppError("invalid_input", "Your current password is not right; nothing was changed.", { currentPassword: ["not right"] });
+  }
+  const passwordHash = await hashPassword(newPassword);
+  db.transaction((tx) => {
+    tx.update(users).set({ passwordHash }).where(eq(users.id, userId)).run();
+    recordAudit(tx, { actorId: userId, action: "user.password-change", entity: "user", entityId: userId });
+  });
+  for (const session of await luciaFor(db).getUserSessions(userId)) {
+    if (session.id !== keepSessionId) await luciaFor(db).invalidateSession(session.id);
+  }
+}

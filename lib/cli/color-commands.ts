@@ -6,18 +6,27 @@ import { ColorInputError } from "../color/errors";
 import type { WhitePointName } from "../color/illuminants";
 import { colourOfRegion } from "../color/measure";
 import { decodePhoto, measureRegion, type RegionSpec } from "../color/regions";
+import { fitPkaHendersonHasselbalch, parsePhSeriesCsv } from "../color/pka";
 import { parseAbsorbanceCsv, spectrumColour } from "../color/spectrum";
 import type { Lab } from "../color/types";
 import { CliError } from "./errors";
 
-const MEASURE_USAGE = "Use 'measure <image> --roi x,y,w,h [--roi ...] [--white x,y,w,h --white-lab L,a,b] [--white-point D65|D50]'.";
-const SPECTRUM_USAGE = "Use 'spectrum <csv> [--illuminant D65|D50|A] [--scale k]'.";
+const MEASURE_USAGE = "use 'measure <image> --roi x,y,w,h [--roi ...] [--white x,y,w,h --white-lab L,a,b] [--white-point D65|D50]'";
+const SPECTRUM_USAGE = "use 'spectrum <csv> [--illuminant D65|D50|A] [--scale k]'";
 
 function parse<T extends Record<string, { type: "string"; multiple?: boolean }>>(args: string[], options: T, usage: string) {
   try {
     return parseArgs({ args, options, strict: true, allowPositionals: true });
   } catch (error) {
-    throw new CliError(`${(error as Error).message.replace(/\.$/, "")}. ${usage}`);
+    const { code, message } = error as { code?: string; message: string };
+    const option = /'(-[^']*)'/.exec(message)?.[1] ?? "";
+    if (code === "ERR_PARSE_ARGS_UNKNOWN_OPTION") throw new CliError(`Unknown option ${option}; ${usage}.`);
+    if (code === "ERR_PARSE_ARGS_INVALID_OPTION_VALUE") {
+      const name = option.replace(/ .*/, "");
+      const hint = /ambiguous/.test(message) ? ` (write a value that starts with a dash as ${name}=-1)` : "";
+      throw new CliError(`Option ${name} needs a value${hint}; ${usage}.`);
+    }
+    throw new CliError(`${message.replace(/\.\s.*$|\.$/, "")}; ${usage}.`);
   }
 }
 
@@ -45,13 +54,13 @@ function parseBox(value: string, option: string): [number, number, number, numbe
 }
 
 async function readInput(file: string | undefined, what: string, usage: string): Promise<Buffer> {
-  if (!file) throw new CliError(`Give the ${what} file to read. ${usage}`);
+  if (!file) throw new CliError(`Give the ${what} file to read; ${usage}.`);
   try {
     return await readFile(file);
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code;
     if (code === "ENOENT") throw new CliError(`The file ${file} does not exist; check the path.`);
-    if (code === "EISDIR") throw new CliError(`${file} is a folder, not a file; give the path of the ${what} file.`);
+    if (code === "EISDIR") throw new CliError(`The path ${file} is a folder, not a file; give the path of the ${what} file.`);
     if (code === "EACCES" || code === "EPERM") throw new CliError(`The file ${file} cannot be read (permission denied); check its permissions.`);
     throw new CliError(`The file ${file} cannot be read (${code ?? "unknown error"}); check the path.`);
   }
@@ -73,9 +82,9 @@ export async function measureCommand(args: string[]): Promise<unknown> {
     },
     MEASURE_USAGE,
   );
-  if (positionals.length > 1) throw new CliError(`Give one image, not ${positionals.length} (${positionals.join(", ")}). ${MEASURE_USAGE}`);
+  if (positionals.length > 1) throw new CliError(`Give one image, not ${positionals.length} (${positionals.join(", ")}); ${MEASURE_USAGE}.`);
   const rois = (values.roi ?? []).map((r) => parseBox(r, "--roi"));
-  if (rois.length === 0) throw new CliError(`Mark at least one region with --roi x,y,w,h. ${MEASURE_USAGE}`);
+  if (rois.length === 0) throw new CliError(`Mark at least one region with --roi x,y,w,h; ${MEASURE_USAGE}.`);
   const wp = (values["white-point"] ?? "D65").toUpperCase();
   if (wp !== "D65" && wp !== "D50") throw new CliError(`--white-point must be D65 or D50, not '${values["white-point"]}'.`);
   const white = wp as LabWhite;
@@ -107,6 +116,8 @@ export async function measureCommand(args: string[]): Promise<unknown> {
         pixels: stats.pixels,
         rejected: stats.rejected,
         flags: [...colour.flags, ...referenceFlags],
+        // Added to the contract's fields: the region's pixel-to-pixel scatter in ΔE*ab.
+        spread: stats.spread,
       };
     });
     return { measurements };
@@ -117,7 +128,7 @@ export async function measureCommand(args: string[]): Promise<unknown> {
 
 export async function spectrumCommand(args: string[]): Promise<unknown> {
   const { values, positionals } = parse(args, { illuminant: { type: "string" }, scale: { type: "string" } }, SPECTRUM_USAGE);
-  if (positionals.length > 1) throw new CliError(`Give one spectrum file, not ${positionals.length}. ${SPECTRUM_USAGE}`);
+  if (positionals.length > 1) throw new CliError(`Give one spectrum file, not ${positionals.length}; ${SPECTRUM_USAGE}.`);
   const ill = (values.illuminant ?? "D65").toUpperCase();
   if (ill !== "D65" && ill !== "D50" && ill !== "A") throw new CliError(`--illuminant must be D65, D50 or A, not '${values.illuminant}'.`);
   let scale = 1;
@@ -138,6 +149,30 @@ export async function spectrumCommand(args: string[]): Promise<unknown> {
     };
   } catch (error) {
     if (error instanceof TypeError) throw new CliError("The spectrum file is not UTF-8 text; save it as a plain CSV file.");
+    asCliError(error);
+  }
+}
+
+const PKA_USAGE = "use 'pka <csv> [--blank L,a,b]'";
+
+export async function pkaCommand(args: string[]): Promise<unknown> {
+  const { values, positionals } = parse(args, { blank: { type: "string" } }, PKA_USAGE);
+  if (positionals.length > 1) throw new CliError(`Give one pH series file, not ${positionals.length}; ${PKA_USAGE}.`);
+  const blank = values.blank !== undefined ? (numberList(values.blank, 3, "--blank", "100,0,0") as Lab) : ([100, 0, 0] as Lab);
+  const bytes = await readInput(positionals[0], "pH series CSV", PKA_USAGE);
+  try {
+    const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+    const fit = fitPkaHendersonHasselbalch(parsePhSeriesCsv(text), blank);
+    return {
+      pKa: fit.pKa,
+      pKaStdErr: fit.pKaStdErr,
+      transition: fit.transition,
+      acidLab: fit.acidLab,
+      baseLab: fit.baseLab,
+      rmsDeltaE00: fit.rmsDeltaE00,
+    };
+  } catch (error) {
+    if (error instanceof TypeError) throw new CliError("The pH series file is not UTF-8 text; save it as a plain CSV file.");
     asCliError(error);
   }
 }

@@ -1,11 +1,10 @@
 import { parseArgs } from "node:util";
-
-import { measureCommand, spectrumCommand } from "./color-commands";
+import { measureCommand, pkaCommand, spectrumCommand } from "./color-commands";
 import { CliError } from "./errors";
 
 export { CliError };
 
-const USAGE = "Usage: cli <command> ... with a command of measure, spectrum or token (see the README).";
+const COMMAND_LIST = "measure <image> --roi x,y,w,h, spectrum <csv>, pka <csv> or token create --email <user> --name <label>";
 
 type Command = (args: string[]) => Promise<unknown>;
 
@@ -41,12 +40,12 @@ const tokenCommand: Command = async (args) => {
   }
 };
 
-export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, token: tokenCommand };
+export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, pka: pkaCommand, token: tokenCommand };
 
 export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;
-  if (!name) throw new CliError(USAGE);
+  if (!name) throw new CliError(`Give a command: ${COMMAND_LIST}.`);
   const command = COMMANDS[name];
-  if (!command) throw new CliError(`Unknown command '${name}'. ${USAGE}`);
+  if (!command) throw new CliError(`Unknown command '${name}'; the commands are ${COMMAND_LIST}.`);
   return command(rest);
 }

@@ -30,14 +30,16 @@ export type CorrectionFit = {
 };
 
 /**
- * Refusal limits for the fits. The 3×3 design matrix of a usable chart (patches of clearly different
- * hue) has a condition number of roughly 3–100; near-neutral or near-identical patches give 10³ and
- * more, and then noise decides the matrix. Root-polynomial terms are correlated by construction, so
- * they are allowed more. Common practice, no single published source.
+ * Refusal limits for the fits (common practice, no single published source; the figures are what
+ * this code measured). The 3×3 design matrix of a chart of 18 chromatic + 6 grey patches has a
+ * condition number of about 5, and about 40 when every chroma is cut to a tenth; six greys with
+ * camera noise of ±0.002 give about 800, and then the noise decides the matrix. Root-polynomial
+ * terms are correlated by construction (the same chart: about 45 at degree 2, 10⁴–10⁵ at degree 3),
+ * so they are allowed more.
  */
 export const CORRECTION_LIMITS = {
-  maxConditionMatrix: 1e3,
-  maxConditionRootPolynomial: 1e5,
+  maxConditionMatrix: 100,
+  maxConditionRootPolynomial: { 2: 1e4, 3: 1e6 },
   /** A reference channel darker than this (linear) cannot be scaled reliably: noise dominates. */
   minReferenceChannel: 0.01,
 } as const;
@@ -138,7 +140,7 @@ export function fitRootPolynomial(patches: readonly ReferencePatch[], degree: 2 
     patches,
     white,
     (rgb) => rootPolynomialTerms(rgb, degree),
-    CORRECTION_LIMITS.maxConditionRootPolynomial,
+    CORRECTION_LIMITS.maxConditionRootPolynomial[degree],
     `degree-${degree} root-polynomial correction`,
   );
   const correction: Correction = { kind: "root-polynomial", terms: rows };

@@ -79,17 +79,15 @@ export function sniffPhotoFormat(b: Uint8Array): PhotoFormat | null {
   return null;
 }
 
-function decodeFailure(error: unknown): ColorInputError {
-  const message = error instanceof Error ? error.message : String(error);
-  if (/pixel limit/i.test(message)) return tooLarge();
-  return new ColorInputError("The image could not be decoded because its data is truncated or damaged; export or copy the photo again.");
+function tooLarge(maxPixels: number): ColorInputError {
+  const limit = maxPixels >= 1e6 ? `${Number((maxPixels / 1e6).toFixed(1))} million` : String(maxPixels);
+  return new ColorInputError(`The image has more than ${limit} pixels; reduce it or crop it to the vials before measuring.`);
 }
 
-let maxPixelsInMessage = DEFAULT_MAX_PIXELS;
-function tooLarge(): ColorInputError {
-  return new ColorInputError(
-    `The image has more than ${(maxPixelsInMessage / 1e6).toFixed(0)} megapixels; reduce it or crop it to the vials before measuring.`,
-  );
+function decodeFailure(error: unknown, maxPixels: number): ColorInputError {
+  const message = error instanceof Error ? error.message : String(error);
+  if (/pixel limit/i.test(message)) return tooLarge(maxPixels);
+  return new ColorInputError("The image could not be decoded because its data is truncated or damaged; export or copy the photo again.");
 }
 
 /**
@@ -99,38 +97,50 @@ function tooLarge(): ColorInputError {
  */
 export async function decodePhoto(bytes: Uint8Array, opts: { maxPixels?: number } = {}): Promise<DecodedPhoto> {
   const maxPixels = opts.maxPixels ?? DEFAULT_MAX_PIXELS;
-  maxPixelsInMessage = maxPixels;
   if (bytes.length === 0) throw new ColorInputError(`The file is empty; choose a photo in ${ALLOWED} format.`);
   const format = sniffPhotoFormat(bytes);
   if (!format) throw new ColorInputError(`The file is not a ${ALLOWED} image; export the photo in one of those formats.`);
   const input = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const options = { limitInputPixels: maxPixels, failOn: "warning" as const };
 
-  let meta: Metadata;
-  try {
-    meta = await sharp(input, options).metadata();
-  } catch (error) {
-    throw decodeFailure(error);
-  }
-  if (meta.format !== format && !(format === "tiff" && meta.format === "tiff")) {
+  // rotate() without an angle applies the EXIF orientation. For 16-bit output libvips needs the
+  // rgb16 interpretation: raw({depth:"ushort"}) alone would hold 8-bit values in 16-bit words.
+  // For 8-bit output libvips converts an embedded ICC profile to sRGB itself; for rgb16 it does
+  // not, so the transform is asked for explicitly (only with a profile: without one it would
+  // distort the values).
+  const decode = (bitDepth: 8 | 16, hasIcc: boolean) => {
+    let pipeline = sharp(input, options).rotate().removeAlpha();
+    if (bitDepth === 16) {
+      pipeline = pipeline.toColourspace("rgb16");
+      if (hasIcc) pipeline = pipeline.withIccProfile("srgb");
+      pipeline = pipeline.raw({ depth: "ushort" });
+    } else {
+      pipeline = pipeline.toColourspace("srgb").raw();
+    }
+    return pipeline.toBuffer({ resolveWithObject: true });
+  };
+  // JPEG and WebP are always 8-bit and a PNG says its depth in its header: for those the header
+  // read and the decode run side by side instead of one after the other.
+  const surelyEightBit = format === "jpeg" || format === "webp" || (format === "png" && bytes.length > 24 && bytes[24] !== 16);
+  const [metaResult, earlyRaw] = await Promise.allSettled([sharp(input, options).metadata(), surelyEightBit ? decode(8, false) : Promise.resolve(null)]);
+  if (metaResult.status === "rejected") throw decodeFailure(metaResult.reason, maxPixels);
+  const meta: Metadata = metaResult.value;
+  if (meta.format !== format) {
     throw new ColorInputError(`The file starts like a ${format.toUpperCase()} image but is not one; export the photo again.`);
   }
-  if (!meta.width || !meta.height) throw decodeFailure(new Error("no size"));
-  if (meta.width * meta.height > maxPixels) throw tooLarge();
-  const bitDepth: 8 | 16 = meta.depth === "ushort" ? 16 : meta.depth === "uchar" ? 8 : 0 as 8;
+  if (!meta.width || !meta.height) throw decodeFailure(new Error("no size"), maxPixels);
+  if (meta.width * meta.height > maxPixels) throw tooLarge(maxPixels);
+  const bitDepth: 8 | 16 = meta.depth === "ushort" ? 16 : meta.depth === "uchar" ? 8 : (0 as 8);
   if (bitDepth !== 8 && bitDepth !== 16) {
     throw new ColorInputError(`The image stores ${meta.depth} samples; save it with 8- or 16-bit integer channels.`);
   }
 
   let raw: { data: Buffer; info: OutputInfo };
   try {
-    // rotate() without an angle applies the EXIF orientation. For 16-bit output libvips needs the
-    // rgb16 interpretation: raw({depth:"ushort"}) alone would hold 8-bit values in 16-bit words.
-    let pipeline = sharp(input, options).rotate().removeAlpha();
-    pipeline = bitDepth === 16 ? pipeline.toColourspace("rgb16").raw({ depth: "ushort" }) : pipeline.toColourspace("srgb").raw();
-    raw = await pipeline.toBuffer({ resolveWithObject: true });
+    if (earlyRaw.status === "rejected") throw earlyRaw.reason;
+    raw = earlyRaw.value && bitDepth === 8 ? earlyRaw.value : await decode(bitDepth, Boolean(meta.icc));
   } catch (error) {
-    throw decodeFailure(error);
+    throw decodeFailure(error, maxPixels);
   }
   const { info } = raw;
   if (info.channels !== 3) throw new ColorInputError("The image could not be turned into three colour channels; save it as an RGB photo.");
@@ -159,47 +169,105 @@ function decodeLut(bitDepth: 8 | 16): Float64Array {
   return lut;
 }
 
-/** k-th smallest (0-based) of `a`, reordering `a` in place (Hoare selection, expected O(n)). */
-function select(a: Float32Array | Float64Array, k: number): number {
-  let lo = 0;
-  let hi = a.length - 1;
-  while (hi > lo) {
-    const pivot = a[(lo + hi) >> 1];
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a[i] < pivot) i++;
-      while (a[j] > pivot) j--;
-      if (i <= j) {
-        const t = a[i];
-        a[i] = a[j];
-        a[j] = t;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else return a[k];
+const Y_BINS = 65536;
+/** Fixed-point fraction bits of the luminance tables (integer adds are faster than float adds). */
+const Y_FRACTION_BITS = 4;
+/** Sum of up to three of these stays a negative int32 (3 × −2²⁸ > −2³¹). */
+const CLIPPED_ENTRY = -(2 ** 28);
+/** Reused luminance histogram (measureRegion is synchronous): saves a 256 kB allocation per region. */
+const Y_HIST_SCRATCH = new Uint32Array(Y_BINS);
+const Y_LUTS: Partial<Record<8 | 16, [Int32Array, Int32Array, Int32Array]>> = {};
+/**
+ * Per-channel luminance contributions in bins of 1/65535 of white (fixed point, 4 fraction bits):
+ * Y = 0.2126 R + 0.7152 G + 0.0722 B in linear light (the luminance row of the IEC 61966-2-1
+ * matrix). Binning Y this finely keeps the outlier rule exact to 0.002 % of white while letting the
+ * median and MAD come from a histogram instead of a sort.
+ */
+function luminanceLuts(bitDepth: 8 | 16): [Int32Array, Int32Array, Int32Array] {
+  let luts = Y_LUTS[bitDepth];
+  if (!luts) {
+    const lin = decodeLut(bitDepth);
+    const scale = (Y_BINS - 1) * (1 << Y_FRACTION_BITS);
+    const table = (weight: number) => {
+      const t = Int32Array.from(lin, (v) => Math.round(weight * v * scale));
+      // Clipped codes (0 and the top code) get a large negative entry, so a clipped pixel's
+      // luminance bin is negative and the outlier test drops it with no separate clip test.
+      t[0] = CLIPPED_ENTRY;
+      t[t.length - 1] = CLIPPED_ENTRY;
+      return t;
+    };
+    luts = [table(0.2126), table(0.7152), table(0.0722)];
+    Y_LUTS[bitDepth] = luts;
   }
-  return a[k];
+  return luts;
 }
 
-function median(values: Float32Array, n: number): number {
-  const copy = values.slice(0, n);
-  const mid = n >> 1;
-  const upper = select(copy, mid);
-  if (n % 2 === 1) return upper;
-  let lower = -Infinity;
-  for (let i = 0; i < mid; i++) if (copy[i] > lower) lower = copy[i];
-  return (lower + upper) / 2;
+/** Index of the median of a histogram holding `total` counts (lower median for even totals). */
+function histogramMedian(hist: Uint32Array, total: number): number {
+  const half = (total - 1) / 2;
+  let cum = 0;
+  for (let v = 0; v < hist.length; v++) {
+    cum += hist[v];
+    if (cum > half) return v;
+  }
+  return hist.length - 1;
+}
+
+/** Median absolute deviation, in bins, of a histogram around its median bin `m`. */
+function histogramMad(hist: Uint32Array, total: number, m: number): number {
+  const half = (total - 1) / 2;
+  let cum = hist[m];
+  let d = 0;
+  const last = hist.length - 1;
+  while (cum <= half && d < last) {
+    d++;
+    if (m + d <= last) cum += hist[m + d];
+    if (m - d >= 0) cum += hist[m - d];
+  }
+  return d;
+}
+
+/**
+ * Pass 2 of `measureRegion`, kept as a small function of its own so V8 optimises its loop fully:
+ * histograms the codes of every pixel whose luminance bin lies in [lo, hi] (clipped pixels have
+ * negative bins) and returns how many there were.
+ */
+function histogramAccepted(
+  data: Uint8Array | Uint16Array,
+  spans: readonly number[],
+  yr: Int32Array,
+  yg: Int32Array,
+  yb: Int32Array,
+  lo: number,
+  hi: number,
+  hist: Uint32Array,
+): number {
+  // One histogram array for the three channels (red at 0, green at `size`, blue at 2·size):
+  // fewer typed arrays in the loop measured about 15 % faster than three.
+  const size = hist.length / 3;
+  const size2 = 2 * size;
+  let accepted = 0;
+  for (let s = 0; s < spans.length; s += 2) {
+    for (let o = spans[s], oEnd = spans[s + 1]; o <= oEnd; o += 3) {
+      const r = data[o];
+      const g = data[o + 1];
+      const b = data[o + 2];
+      const bin = (yr[r] + yg[g] + yb[b]) >> Y_FRACTION_BITS;
+      if (bin < lo || bin > hi) continue;
+      hist[r]++;
+      hist[size + g]++;
+      hist[size2 + b]++;
+      accepted++;
+    }
+  }
+  return accepted;
 }
 
 function describe(region: RegionSpec): string {
   return `${region.shape} ${region.x},${region.y},${region.w},${region.h}`;
 }
 
-/** Bounds of the region's pixel rows and, per row, of its columns (pixel centres inside the shape). */
+/** Refuses a region with a value that is not a number, an unknown shape, no area, or a part off the image. */
 function validateRegion(photo: DecodedPhoto, region: RegionSpec): void {
   const { x, y, w, h } = region;
   if (![x, y, w, h].every(Number.isFinite)) throw new ColorInputError(`The region ${describe(region)} has a value that is not a number; give x, y, width and height in pixels.`);
@@ -221,7 +289,8 @@ function validateRegion(photo: DecodedPhoto, region: RegionSpec): void {
  *    luminance row, IEC 61966-2-1), modified z-score |Y − median| / (1.4826 · MAD) > 3.5
  *    (Iglewicz & Hoaglin 1993). This catches specular highlights on glass (high side) and dark vial
  *    edges or shadows (low side). The MAD is floored at one code step at the median so quantised,
- *    noise-free regions are not cut down to their single most common value.
+ *    noise-free regions are not cut down to their single most common value. The median and MAD
+ *    come from every pixel of small regions and from a 1-in-8 sample of regions ≥ 20 000 pixels.
  * 4. The colour is the 10 % trimmed mean of each channel in linear light over the accepted pixels.
  *    Why trimmed mean and not median: the median of 8-bit data snaps to whole code values (a bias of
  *    up to half a code, ≈ 0.3 ΔE00 in dark colours), while a trimmed mean averages sensor noise across
@@ -244,13 +313,10 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
   const rowStart = Math.max(0, Math.ceil(y - 0.5));
   const rowEnd = Math.min(photo.height - 1, Math.ceil(y + h - 0.5) - 1);
 
-  // Upper bound on pixel count for the scratch arrays.
-  const capacity = (rowEnd - rowStart + 1) * (Math.ceil(w) + 1);
-  const lum = new Float32Array(Math.max(1, capacity));
-  const offsets = new Uint32Array(Math.max(1, capacity));
+  const [yr, yg, yb] = luminanceLuts(bitDepth);
+  // Row spans of the shape: [first sample offset, last sample offset] per row.
+  const spans: number[] = [];
   let pixels = 0;
-  let clipped = 0;
-  let n = 0;
   for (let j = rowStart; j <= rowEnd; j++) {
     let left = x;
     let right = x + w;
@@ -263,52 +329,64 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
     }
     const colStart = Math.max(0, Math.ceil(left - 0.5));
     const colEnd = Math.min(width - 1, Math.ceil(right - 0.5) - 1);
-    for (let i = colStart; i <= colEnd; i++) {
-      pixels++;
-      const o = (j * width + i) * 3;
-      const r = data[o];
-      const g = data[o + 1];
-      const b = data[o + 2];
-      if (r === 0 || g === 0 || b === 0 || r === max || g === max || b === max) {
-        clipped++;
-        continue;
-      }
-      lum[n] = 0.2126 * lut[r] + 0.7152 * lut[g] + 0.0722 * lut[b];
-      offsets[n] = o;
-      n++;
-    }
+    if (colEnd < colStart) continue;
+    pixels += colEnd - colStart + 1;
+    spans.push((j * width + colStart) * 3, (j * width + colEnd) * 3);
   }
   if (pixels === 0) throw new ColorInputError(`The region ${describe(region)} contains no whole pixel; make it larger.`);
-  if (n === 0) {
+
+  // Pass 1: luminance histogram of the unclipped pixels, from every pixel of small regions and every
+  // 4th pixel of every 2nd row of large ones: the median and MAD only set the outlier cut, and 1 in 8
+  // of ≥ 20 000 pixels estimates them to well under a code value while saving most of a pass. The
+  // sample's clipped fraction serves the near-clipping flag.
+  const yHist = Y_HIST_SCRATCH.fill(0);
+  let sampledClipped = 0;
+  const sampleLuminance = (stride: number, rowStep: number): number => {
+    let count = 0;
+    sampledClipped = 0;
+    for (let s = 0; s < spans.length; s += 2 * rowStep) {
+      for (let o = spans[s], oEnd = spans[s + 1]; o <= oEnd; o += stride) {
+        const bin = (yr[data[o]] + yg[data[o + 1]] + yb[data[o + 2]]) >> Y_FRACTION_BITS;
+        if (bin < 0) {
+          sampledClipped++;
+          continue;
+        }
+        yHist[bin]++;
+        count++;
+      }
+    }
+    return count;
+  };
+  const large = pixels >= 20_000;
+  let sampled = large ? sampleLuminance(12, 2) : sampleLuminance(3, 1);
+  if (sampled === 0 && large) sampled = sampleLuminance(3, 1);
+  if (sampled === 0) {
     throw new ColorInputError(
       `Every pixel of the region ${describe(region)} is clipped (black or white); reduce the exposure or move the region onto the sample.`,
     );
   }
+  const clippedFraction = sampledClipped / (sampled + sampledClipped);
+  const medBin = histogramMedian(yHist, sampled);
+  const madBins = histogramMad(yHist, sampled, medBin);
+  const med = medBin / (Y_BINS - 1);
+  const codeStepBins = (srgbDecode(Math.min(1, srgbEncode(med) + 1 / max)) - med) * (Y_BINS - 1);
+  const cut = REGION_LIMITS.outlierZ * Math.max(1.4826 * madBins, codeStepBins, 1);
+  const lo = Math.max(0, Math.ceil(medBin - cut)) | 0;
+  const hi = Math.min(Y_BINS - 1, Math.floor(medBin + cut)) | 0;
 
-  const med = median(lum, n);
-  const dev = new Float32Array(n);
-  for (let k = 0; k < n; k++) dev[k] = Math.abs(lum[k] - med);
-  const mad = median(dev, n);
-  const codeStep = srgbDecode(Math.min(1, srgbEncode(med) + 1 / max)) - med;
-  const sigma = Math.max(1.4826 * mad, codeStep);
-  const cut = REGION_LIMITS.outlierZ * sigma;
-
-  // Histograms of the accepted pixels' codes: exact trimmed means and MADs in O(pixels + codes).
-  const hist = [new Uint32Array(max + 1), new Uint32Array(max + 1), new Uint32Array(max + 1)];
-  let accepted = 0;
-  for (let k = 0; k < n; k++) {
-    if (Math.abs(lum[k] - med) > cut) continue;
-    const o = offsets[k];
-    hist[0][data[o]]++;
-    hist[1][data[o + 1]]++;
-    hist[2][data[o + 2]]++;
-    accepted++;
+  // Pass 2, every pixel: drop clipped ones (negative bin) and luminance outliers, histogram the rest.
+  const joint = new Uint32Array(3 * (max + 1));
+  const accepted = histogramAccepted(data, spans, yr, yg, yb, lo, hi, joint);
+  const hist = [0, 1, 2].map((c) => joint.subarray(c * (max + 1), (c + 1) * (max + 1)));
+  if (accepted === 0) {
+    throw new ColorInputError(
+      `No pixel of the region ${describe(region)} is usable (all clipped or outliers); reduce the exposure or move the region onto the sample.`,
+    );
   }
 
   const trimCount = Math.floor(accepted * REGION_LIMITS.trim);
   const linearRgb: LinearRgb = [0, 0, 0];
   const robustSdCodes: [number, number, number] = [0, 0, 0];
-  const medianCodes: [number, number, number] = [0, 0, 0];
   for (let c = 0; c < 3; c++) {
     const hc = hist[c];
     // Trimmed mean: drop trimCount values from each end, average the rest in linear light.
@@ -328,26 +406,8 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
       keep -= take;
     }
     linearRgb[c] = sum / (accepted - 2 * trimCount);
-    // Median code and MAD in codes from the histogram.
-    const half = (accepted - 1) / 2;
-    let cum = 0;
-    let m = 0;
-    for (let v = 0; v <= max; v++) {
-      cum += hc[v];
-      if (cum > half) {
-        m = v;
-        break;
-      }
-    }
-    medianCodes[c] = m;
-    cum = hc[m];
-    let d = 0;
-    while (cum <= half && d < max) {
-      d++;
-      if (m + d <= max) cum += hc[m + d];
-      if (m - d >= 0) cum += hc[m - d];
-    }
-    robustSdCodes[c] = 1.4826 * d;
+    const m = histogramMedian(hc, accepted);
+    robustSdCodes[c] = 1.4826 * histogramMad(hc, accepted, m);
   }
 
   const spread = regionSpreadDeltaE(linearRgb, robustSdCodes, max);
@@ -357,7 +417,7 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
   if (rejected > REGION_LIMITS.maxRejectedFraction * pixels) flags.push("much-rejected");
   if (spread > REGION_LIMITS.maxSpread) flags.push("non-uniform");
   const encoded = linearRgb.map(srgbEncode);
-  if (clipped > REGION_LIMITS.maxClippedFraction * pixels || encoded.some((e) => e < REGION_LIMITS.clipMargin || e > 1 - REGION_LIMITS.clipMargin)) {
+  if (clippedFraction > REGION_LIMITS.maxClippedFraction || encoded.some((e) => e < REGION_LIMITS.clipMargin || e > 1 - REGION_LIMITS.clipMargin)) {
     flags.push("near-clipping");
   }
   return { linearRgb, pixels, rejected, spread, flags };

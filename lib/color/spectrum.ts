@@ -1,6 +1,7 @@
 import { CIE1931_2DEG_CMF, CIE_ILLUMINANT_A, CIE_ILLUMINANT_D50, CIE_ILLUMINANT_D65 } from "./data/cie-tables";
 import type { WhitePointName } from "./illuminants";
 import { xyzToXyzD65 } from "./convert";
+import { parseNumericCsv } from "./csv";
 import { ColorInputError } from "./errors";
 import { xyzToLab } from "./lab";
 import { linearSrgbToHex, xyzD65ToLinearSrgb } from "./srgb";
@@ -72,29 +73,7 @@ export function illuminantWhiteXyz(illuminant: WhitePointName): Xyz {
  * by wavelength. Throws `ColorInputError` with the offending line for anything malformed.
  */
 export function parseAbsorbanceCsv(text: string): SampledSpectrum {
-  const lines = text.replace(/^\uFEFF/, "").split(/\r\n|\n|\r/);
-  const first = lines.findIndex((l) => l.trim() !== "");
-  if (first < 0) throw new ColorInputError("The spectrum file is empty; give a CSV with the header wavelength_nm,absorbance and one row per wavelength.");
-  const cells = (line: string) => line.split(",").map((c) => c.trim().replace(/^"(.*)"$/, "$1").trim());
-  const header = cells(lines[first]).map((h) => h.toLowerCase());
-  const wi = header.indexOf("wavelength_nm");
-  const ai = header.indexOf("absorbance");
-  if (wi < 0 || ai < 0) {
-    throw new ColorInputError(`The spectrum's header row is "${lines[first].trim().slice(0, 60)}"; it must name the columns wavelength_nm and absorbance.`);
-  }
-  const rows: [number, number][] = [];
-  for (let i = first + 1; i < lines.length; i++) {
-    if (lines[i].trim() === "") continue;
-    const c = cells(lines[i]);
-    const parse = (s: string | undefined, what: string) => {
-      const v = s !== undefined && /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s) ? Number(s) : NaN;
-      if (!Number.isFinite(v)) {
-        throw new ColorInputError(`Line ${i + 1} of the spectrum has ${s === undefined || s === "" ? "no" : `"${s.slice(0, 20)}" as its`} ${what}; give plain numbers with a dot as the decimal separator.`);
-      }
-      return v;
-    };
-    rows.push([parse(c[wi], "wavelength"), parse(c[ai], "absorbance")]);
-  }
+  const rows = parseNumericCsv(text, ["wavelength_nm", "absorbance"], "spectrum");
   if (rows.length < 2) throw new ColorInputError("The spectrum has fewer than two rows of data; give the absorbance at two or more wavelengths.");
   rows.sort((p, q) => p[0] - q[0]);
   for (let i = 1; i < rows.length; i++) {

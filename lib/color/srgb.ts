@@ -1,3 +1,4 @@
+import { mat3Inverse } from "./matrix";
 import type { LinearRgb, Vec3, Xyz } from "./types";
 
 /**
@@ -11,11 +12,8 @@ export const SRGB_TO_XYZ_D65: readonly Vec3[] = [
   [0.0193339, 0.119192, 0.9503041],
 ];
 
-export const XYZ_D65_TO_SRGB: readonly Vec3[] = [
-  [3.2404542, -1.5371385, -0.4985314],
-  [-0.969266, 1.8760108, 0.041556],
-  [0.0556434, -0.2040259, 1.0572252],
-];
+/** The exact inverse of SRGB_TO_XYZ_D65 (≈ 3.2404542, −1.5371385, −0.4985314 / …), so round trips are lossless. */
+export const XYZ_D65_TO_SRGB: readonly Vec3[] = mat3Inverse(SRGB_TO_XYZ_D65);
 
 /** Encoded sRGB value (0–1) → linear light (0–1). */
 export function srgbDecode(v: number): number {

@@ -12,6 +12,13 @@ export type OutgoingMail = { to: string; subject: string; text: string };
 export type MailConfig = { smtpUrl?: string; from: string; mailboxDir: string };
 export type StoredMail = { id: string; at: string; from: string; to: string; subject: string; text: string };
 
+/** Microseconds since the epoch, strictly increasing within this process, so names sort in sending order. */
+let lastStamp = 0;
+function nextStamp(): number {
+  lastStamp = Math.max(Date.now() * 1000, lastStamp + 1);
+  return lastStamp;
+}
+
 export async function sendMail(config: MailConfig, mail: OutgoingMail): Promise<{ id: string; via: "smtp" | "mailbox" }> {
   if (config.smtpUrl) {
     const transport = nodemailer.createTransport(config.smtpUrl);
@@ -20,7 +27,7 @@ export async function sendMail(config: MailConfig, mail: OutgoingMail): Promise<
   }
   fs.mkdirSync(config.mailboxDir, { recursive: true });
   const at = new Date();
-  const id = `${at.toISOString().replace(/[:.]/g, "-")}-${randomBytes(4).toString("hex")}`;
+  const id = `${String(nextStamp()).padStart(17, "0")}-${randomBytes(4).toString("hex")}`;
   const stored: StoredMail = { id, at: at.toISOString(), from: config.from, to: mail.to, subject: mail.subject, text: mail.text };
   const file = path.join(config.mailboxDir, `${id}.json`);
   const temp = `${file}.${process.pid}.tmp`;

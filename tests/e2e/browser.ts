@@ -2,6 +2,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { afterAll, beforeAll } from "vitest";
 
 /** Debian's Chromium, headless, with a fresh profile and no background traffic. */
 export async function launchBrowser(): Promise<BrowserContext> {
@@ -22,4 +23,19 @@ export function watchConsole(page: Page): string[] {
   });
   page.on("pageerror", (e) => errors.push(e.message));
   return errors;
+}
+
+/** One browser per test file: opened before the first test, closed after the last. */
+export function useBrowser(): () => BrowserContext {
+  let context: BrowserContext | undefined;
+  beforeAll(async () => {
+    context = await launchBrowser();
+  });
+  afterAll(async () => {
+    await context?.close();
+  });
+  return () => {
+    if (!context) throw new Error("The browser is not open yet");
+    return context;
+  };
 }

@@ -1,20 +1,12 @@
-import { afterAll, beforeAll, expect, inject, it } from "vitest";
-import type { BrowserContext } from "playwright-core";
-import { launchBrowser } from "./browser";
+import { expect, inject, it } from "vitest";
+import { useBrowser } from "./browser";
 import { SignInPage } from "./pages/sign-in-page";
 
 const base = inject("baseUrl");
-let browser: BrowserContext;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 it("an admin invites a chemist; the mail appears in the local mailbox; its link sets a password; the chemist signs in", async () => {
-  const admin = await browser.newPage();
+  const admin = await browser().newPage();
   const adminSession = new SignInPage(admin, base);
   await adminSession.signIn("admin@demo.test");
   await admin.goto(`${base}/people`);
@@ -32,7 +24,7 @@ it("an admin invites a chemist; the mail appears in the local mailbox; its link 
   expect(link).toBeTruthy();
   await adminSession.signOut();
 
-  const newcomer = await browser.newPage();
+  const newcomer = await browser().newPage();
   await newcomer.goto(link!);
   await expect(newcomer.getByText("Welcome, Noor Haddad").waitFor()).resolves.toBeUndefined();
   await newcomer.getByLabel("New password").fill("pipette and cuvette");

@@ -1,17 +1,9 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import type { BrowserContext } from "playwright-core";
-import { launchBrowser, watchConsole } from "./browser";
+import { describe, expect, inject, it } from "vitest";
+import { useBrowser, watchConsole } from "./browser";
 import { SignInPage } from "./pages/sign-in-page";
 
 const base = inject("baseUrl");
-let browser: BrowserContext;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 const EXPECTED_NAV = {
   "admin@demo.test": ["Overview", "Catalogue", "Bench", "Measurements", "Search", "Solvents", "Lighting", "Review", "Shortlists", "People"],
@@ -21,7 +13,7 @@ const EXPECTED_NAV = {
 
 describe("each demo user", () => {
   it.each(Object.entries(EXPECTED_NAV))("%s signs in and sees the navigation of the role", async (email, nav) => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     const errors = watchConsole(page);
     const signIn = new SignInPage(page, base);
     await signIn.signIn(email);
@@ -38,7 +30,7 @@ describe("each demo user", () => {
   });
 
   it.each(["chemist@demo.test", "formulator@demo.test"])("%s is refused the admin page with a clear message", async (email) => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     const signIn = new SignInPage(page, base);
     await signIn.signIn(email);
     await page.goto(`${base}/people`);
@@ -50,7 +42,7 @@ describe("each demo user", () => {
   });
 
   it("the formulator is refused the bench", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     const signIn = new SignInPage(page, base);
     await signIn.signIn("formulator@demo.test");
     await page.goto(`${base}/bench`);
@@ -60,7 +52,7 @@ describe("each demo user", () => {
   });
 
   it("a wrong password is refused with a message that says what to do", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     await page.goto(`${base}/sign-in`);
     await page.getByLabel("E-mail").fill("chemist@demo.test");
     await page.getByLabel("Password").fill("not the password");

@@ -138,3 +138,24 @@ describe("sign-in", () => {
     }
   });
 });
+
+describe("changing one's password", () => {
+  it("needs the current password, then ends the person's other sessions but keeps this one", async () => {
+    const { changePasswordAction } = await import("@/app/actions/auth");
+    const { validateSessionId } = await import("@/lib/auth/service");
+    const other = await signInWithPassword(db(), { email: PEOPLE.formulator.email, password: PASSWORD, ip: "t" });
+    for (const who of ["anonymous", "retired"] as const) {
+      await actAs(who);
+      expect(await changePasswordAction(null, form({ currentPassword: PASSWORD, password: "brand new phrase", confirm: "brand new phrase" }))).toMatchObject({ ok: false, code: "unauthenticated" });
+    }
+    await actAs("formulator");
+    const current = requestContext.cookie(SESSION_COOKIE)!;
+    const wrong = await changePasswordAction(null, form({ currentPassword: "not it", password: "brand new phrase", confirm: "brand new phrase" }));
+    expect(wrong).toMatchObject({ ok: false, code: "invalid_input" });
+    const ok = await changePasswordAction(null, form({ currentPassword: PASSWORD, password: "brand new phrase", confirm: "brand new phrase" }));
+    expect(ok).toMatchObject({ ok: true });
+    expect(await validateSessionId(db(), other.sessionId)).toBeNull();
+    expect(await validateSessionId(db(), current)).not.toBeNull();
+    await expect(signInWithPassword(db(), { email: PEOPLE.formulator.email, password: "brand new phrase", ip: "t" })).resolves.toBeTruthy();
+  });
+});

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { db } from "@/db/client";
 import { listApiTokens } from "@/db/queries/users";
+import { ChangePasswordForm } from "@/components/account/password-form";
 import { CreateTokenForm, RevokeTokenButton } from "@/components/account/token-panel";
 import { Badge, Card, PageHeader } from "@/components/ui/card";
 import { pageAccess } from "@/lib/auth/page";
@@ -37,6 +38,9 @@ export default async function AccountPage() {
           ))}
           {tokens.length === 0 && <li className="py-3 text-sm text-ink-soft">No tokens yet.</li>}
         </ul>
+      </Card>
+      <Card title="Password" className="mt-4">
+        <ChangePasswordForm />
       </Card>
     </>
   );

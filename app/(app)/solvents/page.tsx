@@ -19,7 +19,8 @@ function Value({ v, source, digits = 2 }: { v: number | null; source: string | n
 }
 
 export default async function SolventsPage({ searchParams }: { searchParams: Promise<{ sort?: string }> }) {
-  await pageAccess(ANY_ROLE);
+  const { user } = await pageAccess(ANY_ROLE);
+  const canEdit = user.role === "admin";
   const { sort = "et30" } = await searchParams;
   const keys = { et30: "et30", alpha: "ktAlpha", beta: "ktBeta", pistar: "ktPiStar", eps: "permittivity", name: "name" } as const;
   const key = keys[sort as keyof typeof keys] ?? "et30";
@@ -64,7 +65,13 @@ export default async function SolventsPage({ searchParams }: { searchParams: Pro
             {rows.map((s) => (
               <tr key={s.id} data-testid="solvent-row">
                 <td className="px-3 py-2">
-                  <span className="font-medium">{s.name}</span>
+                  {canEdit ? (
+                    <a href={`/solvents/${s.id}`} className="font-medium text-accent hover:underline" title="Edit values and sources">
+                      {s.name}
+                    </a>
+                  ) : (
+                    <span className="font-medium">{s.name}</span>
+                  )}
                   {s.synonyms.length > 0 && <span className="block text-xs text-ink-soft">{s.synonyms.join(", ")}</span>}
                 </td>
                 <td className="px-3 py-2">

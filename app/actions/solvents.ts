@@ -1,0 +1,36 @@
+"use server";
+
+import { revalidatePath } from "next/cache";
+import { db } from "@/db/client";
+import { updateSolvent } from "@/db/queries/solvents";
+import { formAction } from "@/lib/auth/guard";
+import { ADMIN_ONLY } from "@/lib/auth/roles";
+import { AppError } from "@/lib/errors";
+import { etnFromEt30 } from "@/lib/solvents/parameters";
+import { solventEditSchema } from "@/lib/validation/solvent";
+
+export const updateSolventAction = formAction({ access: ADMIN_ONLY, schema: solventEditSchema }, async (input, { user }) => {
+  const after = updateSolvent(db(), {
+    actorId: user.id,
+    id: input.id,
+    changes: {
+      medium: input.medium,
+      mediumSource: input.mediumSource,
+      cautions: input.cautions,
+      et30: input.et30.value,
+      et30Source: input.et30.source,
+      etn: input.et30.value === null ? null : etnFromEt30(input.et30.value),
+      ktAlpha: input.alpha.value,
+      ktAlphaSource: input.alpha.source,
+      ktBeta: input.beta.value,
+      ktBetaSource: input.beta.source,
+      ktPiStar: input.piStar.value,
+      ktPiStarSource: input.piStar.source,
+      permittivity: input.permittivity.value,
+      permittivitySource: input.permittivity.source,
+    },
+  });
+  if (!after) throw new AppError("not_found", "This solvent no longer exists.");
+  revalidatePath("/solvents");
+  return { ok: true, message: `${after.name} saved; the change is in the audit log.` };
+});
