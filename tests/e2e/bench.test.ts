@@ -6,23 +6,15 @@
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { afterAll, beforeAll, expect, inject, it } from "vitest";
-import type { BrowserContext } from "playwright-core";
-import { launchBrowser, watchConsole } from "./browser";
+import { expect, inject, it } from "vitest";
+import { useBrowser, watchConsole } from "./browser";
 import { MarkingPage } from "./pages/marking-page";
 import { SignInPage } from "./pages/sign-in-page";
 import { RACK, rackPhoto, type Rgb8 } from "../support/photos";
 import { deltaE76, labOf8 } from "../support/srgb-reference";
 
 const base = inject("baseUrl");
-let browser: BrowserContext;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 const VIALS: Rgb8[] = [
   [200, 50, 110],
@@ -37,8 +29,8 @@ it("a chemist uploads a rack photo, marks four vials and the reference, sees liv
   const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "solvatlas-rack-")), "rack-e2e.png");
   fs.writeFileSync(file, await rackPhoto(VIALS, { white: WHITE, format: "png" }));
 
-  await browser.clearCookies();
-  const page = await browser.newPage();
+  await browser().clearCookies();
+  const page = await browser().newPage();
   const errors = watchConsole(page);
   const chemist = new SignInPage(page, base);
   await chemist.signIn("chemist@demo.test");
@@ -115,8 +107,8 @@ it("a chemist uploads a rack photo, marks four vials and the reference, sees liv
 });
 
 it("the formulator cannot reach the bench, its upload or its live measurement", async () => {
-  await browser.clearCookies();
-  const page = await browser.newPage();
+  await browser().clearCookies();
+  const page = await browser().newPage();
   const signIn = new SignInPage(page, base);
   await signIn.signIn("formulator@demo.test");
   await page.goto(`${base}/bench`);
