@@ -37,6 +37,13 @@ export async function storePhoto(
   }
   const facts = await inspectPhoto(input.bytes, input.limits);
   const derived = await makeDerivatives(input.bytes, input.limits);
+  // The colour engine must be able to measure what is accepted: decode once as it will.
+  try {
+    await decodePhoto(input.bytes, { maxPixels: input.limits.maxPixels });
+  } catch (error) {
+    if (error instanceof ColorInputError) throw new AppError("invalid_input", error.message);
+    throw error;
+  }
 
   // Written even if present (content-addressed: the same bytes), which refreshes its time for the sweep.
   const original = { key: keyFor(sha256, facts.extension) };

@@ -98,7 +98,9 @@ export function imageEnd(bytes: Uint8Array, format: PhotoFormat): number | null 
     // with their segment.
     let i = 2;
     while (i + 1 < bytes.length) {
-      if (bytes[i] !== 0xff) return truncated();
+      if (bytes[i] !== 0xff) {
+        throw new AppError("invalid_input", `The JPEG has stray bytes between its parts (at byte ${i}): it is damaged or was written by a faulty tool. Export it again from the camera software.`);
+      }
       const marker = bytes[i + 1];
       if (marker === 0xff) {
         i += 1;

@@ -34,6 +34,12 @@ describe("imageEnd", () => {
     expect(imageEnd(Buffer.concat([withComment, Buffer.from("PK\x05\x06")]), "jpeg")).toBe(withComment.length);
   });
 
+  it("refuses stray bytes between JPEG segments as damage, not as truncation", async () => {
+    const plain = await jpeg();
+    const damaged = Buffer.concat([plain.subarray(0, 2), Buffer.from([0, 0]), plain.subarray(2)]);
+    expect(() => imageEnd(damaged, "jpeg")).toThrow(/stray bytes between its parts \(at byte 2\)/);
+  });
+
   it("throws for a JPEG without its end marker and a PNG cut inside a chunk", async () => {
     const plain = await jpeg();
     expect(() => imageEnd(plain.subarray(0, plain.length - 2), "jpeg")).toThrow(/truncated/);
