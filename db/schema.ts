@@ -249,8 +249,16 @@ export const photos = sqliteTable(
   "photos",
   {
     id: text("id").primaryKey(),
+    /** Key of the original file in the photo store (lib/storage), content-addressed by sha256. */
     storageKey: text("storage_key").notNull(),
     sha256: text("sha256").notNull().unique(),
+    /** Derived copies (EXIF orientation applied, 8-bit sRGB JPEG); null until made (demo seed photos). */
+    thumbKey: text("thumb_key"),
+    displayKey: text("display_key"),
+    /** Bits per channel of the original (8 or 16). */
+    bitDepth: integer("bit_depth").notNull().default(8),
+    /** libvips interpretation of the original (srgb, rgb16, …). */
+    colourSpace: text("colour_space").notNull().default("srgb"),
     byteSize: integer("byte_size").notNull(),
     mimeType: text("mime_type").notNull(),
     width: integer("width").notNull(),
@@ -270,6 +278,8 @@ export type Photo = typeof photos.$inferSelect;
 
 export type RegionShape = "rect" | "ellipse";
 export type Region = { shape: RegionShape; x: number; y: number; w: number; h: number };
+/** A reference patch of known colour marked in the same photo, as it was used for a measurement. */
+export type ReferenceUsed = { region: Region; lab: [number, number, number]; rawLinearRgb: [number, number, number]; label?: string };
 
 export const measurements = sqliteTable(
   "measurements",
@@ -284,6 +294,13 @@ export const measurements = sqliteTable(
       .notNull()
       .references(() => conditions.id),
     lightingProfileId: text("lighting_profile_id").references(() => lightingProfiles.id),
+    /**
+     * The correction actually applied to the raw linear RGB (the profile's, combined with the in-photo
+     * reference scaling when one was marked), so every colour can be re-derived from raw_r/g/b.
+     */
+    correctionKind: text("correction_kind", { enum: CORRECTION_KINDS }),
+    correction: text("correction", { mode: "json" }).$type<number[]>(),
+    referencePatches: text("reference_patches", { mode: "json" }).$type<ReferenceUsed[]>(),
     /** Robust mean of linear RGB (sRGB transfer undone, before any correction), 0–1. */
     rawR: real("raw_r").notNull(),
     rawG: real("raw_g").notNull(),
@@ -321,6 +338,21 @@ export const measurements = sqliteTable(
 );
 export type Measurement = typeof measurements.$inferSelect;
 export type NewMeasurement = typeof measurements.$inferInsert;
+
+/** A saved rack layout: region positions as fractions of the photo's width and height, reapplied to new photos. */
+export type TemplateRegion = { shape: RegionShape; x: number; y: number; w: number; h: number; role: "vial" | "reference"; label: string };
+
+export const rackTemplates = sqliteTable("rack_templates", {
+  id: text("id").primaryKey(),
+  name: text("name").notNull().unique(),
+  regions: text("regions", { mode: "json" }).$type<TemplateRegion[]>().notNull(),
+  createdBy: text("created_by")
+    .notNull()
+    .references(() => users.id),
+  createdAt: createdAt(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+});
+export type RackTemplate = typeof rackTemplates.$inferSelect;
 
 export const spectra = sqliteTable(
   "spectra",

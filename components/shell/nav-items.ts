@@ -10,6 +10,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/", label: "Overview", roles: ALL, hint: "What is new in the lab" },
   { href: "/catalogue", label: "Catalogue", roles: ALL, hint: "Dyes and their colour response" },
   { href: "/bench", label: "Bench", roles: BENCH, hint: "Rack photos and measurements" },
+  { href: "/measurements", label: "Measurements", roles: ALL, hint: "Every measured colour: filter, sort, export" },
   { href: "/search", label: "Search", roles: ALL, hint: "Find a dye by colour and condition" },
   { href: "/compare", label: "Compare", roles: ALL, hint: "Dyes side by side across conditions" },
   { href: "/solvents", label: "Solvents", roles: ALL, hint: "Solvent parameters with sources" },

@@ -1,6 +1,29 @@
-import { and, desc, eq, sql } from "drizzle-orm";
+import { randomUUID } from "node:crypto";
+import { and, desc, eq, isNull, sql } from "drizzle-orm";
+import { correctionFromArray } from "../../lib/color/correction";
+import type { ProfileForPipeline } from "../../lib/bench/pipeline";
+import { AppError } from "../../lib/errors";
 import type { Db } from "../connection";
-import { calibrationTargets, conditions, dyes, lightingProfiles, measurements, photos, solvents, users } from "../schema";
+import {
+  calibrationTargets,
+  conditions,
+  dyes,
+  lightingProfiles,
+  measurements,
+  photos,
+  rackTemplates,
+  solvents,
+  users,
+  type AcidBase,
+  type CorrectionKind,
+  type NewMeasurement,
+  type Region,
+  type ReferenceUsed,
+  type TemplateRegion,
+} from "../schema";
+import { recordAudit } from "./audit";
+
+type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
 export function listLightingProfiles(db: Db) {
   return db
@@ -32,19 +55,23 @@ export function listRecentPhotos(db: Db, { limit = 30 }: { limit?: number } = {}
   return rows;
 }
 
-/** Measurements waiting for review, with who made them; oldest first. */
-export function reviewQueue(db: Db, { limit = 100 }: { limit?: number } = {}) {
-  return db
-    .select({ m: measurements, dye: dyes, solvent: solvents, condition: conditions, author: users.name })
+/** Measurements waiting for review, with who made them and their photo; oldest first, optionally of one photo. */
+export function reviewQueue(db: Db, { limit = 100, photoId }: { limit?: number; photoId?: string } = {}) {
+  const pending = photoId ? and(eq(measurements.reviewState, "pending"), eq(measurements.photoId, photoId)) : eq(measurements.reviewState, "pending");
+  const rows = db
+    .select({ m: measurements, dye: dyes, solvent: solvents, condition: conditions, author: users.name, photo: { id: photos.id, width: photos.width, height: photos.height, name: photos.originalName } })
     .from(measurements)
     .innerJoin(dyes, eq(measurements.dyeId, dyes.id))
     .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
     .innerJoin(solvents, eq(conditions.solventId, solvents.id))
     .innerJoin(users, eq(measurements.createdBy, users.id))
-    .where(eq(measurements.reviewState, "pending"))
-    .orderBy(measurements.createdAt)
+    .leftJoin(photos, eq(measurements.photoId, photos.id))
+    .where(pending)
+    .orderBy(measurements.createdAt, measurements.id)
     .limit(limit)
     .all();
+  const total = db.select({ n: sql<number>`count(*)` }).from(measurements).where(pending).get()?.n ?? 0;
+  return Object.assign(rows, { total });
 }
 
 export function countMeasurements(db: Db) {
@@ -66,4 +93,199 @@ export function acceptedMeasurements(db: Db, { dyeId }: { dyeId?: string } = {})
     .where(dyeId ? and(eq(measurements.reviewState, "accepted"), eq(measurements.dyeId, dyeId)) : eq(measurements.reviewState, "accepted"))
     .orderBy(dyes.code, solvents.name)
     .all();
+}
+
+/** A lighting profile in the form the colour pipeline takes; throws 422 for an unknown id. */
+export function profileForPipeline(db: Db, id: string | null): ProfileForPipeline | null {
+  if (!id) return null;
+  const p = db.select().from(lightingProfiles).where(eq(lightingProfiles.id, id)).get();
+  if (!p) throw new AppError("invalid_input", "lightingProfileId: no lighting profile has that id; pick one from the list.", { lightingProfileId: ["Unknown lighting profile."] });
+  return { id: p.id, name: p.name, correction: correctionFromArray(p.correctionKind, p.correction), validFrom: p.validFrom, validUntil: p.validUntil };
+}
+
+/** The condition row for these values, made if no identical one exists yet. */
+function conditionFor(tx: Tx, actorId: string, c: { solventId: string; acidBase: AcidBase; ph: number | null; concentrationUmolL: number | null }): string {
+  const existing = tx
+    .select({ id: conditions.id })
+    .from(conditions)
+    .where(
+      and(
+        eq(conditions.solventId, c.solventId),
+        eq(conditions.acidBase, c.acidBase),
+        c.ph === null ? isNull(conditions.ph) : eq(conditions.ph, c.ph),
+        c.concentrationUmolL === null ? isNull(conditions.concentrationUmolL) : eq(conditions.concentrationUmolL, c.concentrationUmolL),
+        eq(conditions.additive, ""),
+        isNull(conditions.pathLengthMm),
+        isNull(conditions.temperatureC),
+      ),
+    )
+    .get();
+  if (existing) return existing.id;
+  const id = `cond_${randomUUID()}`;
+  tx.insert(conditions).values({ id, ...c }).run();
+  recordAudit(tx, { actorId, action: "condition.create", entity: "condition", entityId: id, after: c });
+  return id;
+}
+
+export type MeasurementToSave = {
+  region: Region;
+  dyeId: string;
+  solventId: string;
+  acidBase: AcidBase;
+  ph: number | null;
+  concentrationUmolL: number | null;
+  rawLinearRgb: [number, number, number];
+  xyz: [number, number, number];
+  lab: [number, number, number];
+  pixels: number;
+  rejected: number;
+  spread: number;
+  flags: string[];
+  flagReason: string | null;
+};
+
+/**
+ * Saves the vials of one photo in one transaction: the photo's lighting profile, a condition per vial
+ * (reused when identical), one measurement per vial (pending review) and an audit entry for each
+ * change. Any failure saves nothing.
+ */
+export function saveMeasurements(
+  db: Db,
+  input: {
+    actorId: string;
+    photoId: string;
+    lightingProfileId: string | null;
+    correction: { kind: CorrectionKind; values: number[] };
+    references: ReferenceUsed[];
+    vials: MeasurementToSave[];
+  },
+): string[] {
+  return db.transaction((tx) => {
+    const photo = tx.select().from(photos).where(eq(photos.id, input.photoId)).get();
+    if (!photo) throw new AppError("not_found", "That photo no longer exists.");
+    for (const [i, v] of input.vials.entries()) {
+      if (v.flags.length > 0 && !v.flagReason) {
+        throw new AppError("invalid_input", `Vial ${i + 1} is flagged (${v.flags.join(", ")}); say why it should be kept, or re-mark it.`, { [`vials.${i}.flagReason`]: ["Give a reason to keep a flagged measurement."] });
+      }
+      if (!tx.select({ id: dyes.id }).from(dyes).where(eq(dyes.id, v.dyeId)).get()) {
+        throw new AppError("invalid_input", `Vial ${i + 1}: that dye is not in the catalogue.`, { [`vials.${i}.dyeId`]: ["Unknown dye."] });
+      }
+      if (!tx.select({ id: solvents.id }).from(solvents).where(eq(solvents.id, v.solventId)).get()) {
+        throw new AppError("invalid_input", `Vial ${i + 1}: that solvent is not in the solvent table.`, { [`vials.${i}.solventId`]: ["Unknown solvent."] });
+      }
+    }
+    // One photo, one light: never mix lighting profiles among a photo's standing measurements.
+    const mixed = tx
+      .select({ profile: lightingProfiles.name, id: measurements.lightingProfileId })
+      .from(measurements)
+      .leftJoin(lightingProfiles, eq(measurements.lightingProfileId, lightingProfiles.id))
+      .where(and(eq(measurements.photoId, photo.id), sql`${measurements.reviewState} != 'rejected'`, sql`${measurements.lightingProfileId} is not ${input.lightingProfileId}`))
+      .get();
+    if (mixed) {
+      throw new AppError(
+        "conflict",
+        `Earlier measurements from this photo were corrected with ${mixed.profile ? `the profile “${mixed.profile}”` : "no lighting profile"}; use the same here, or have those rejected first, so one photo never mixes two lights.`,
+        { lightingProfileId: ["Use the profile of this photo's other measurements."] },
+      );
+    }
+    if ((photo.lightingProfileId ?? null) !== input.lightingProfileId) {
+      tx.update(photos).set({ lightingProfileId: input.lightingProfileId }).where(eq(photos.id, photo.id)).run();
+      recordAudit(tx, {
+        actorId: input.actorId,
+        action: "photo.set-profile",
+        entity: "photo",
+        entityId: photo.id,
+        before: { lightingProfileId: photo.lightingProfileId },
+        after: { lightingProfileId: input.lightingProfileId },
+      });
+    }
+    const ids: string[] = [];
+    for (const v of input.vials) {
+      const id = `ms_${randomUUID()}`;
+      const row: NewMeasurement = {
+        id,
+        photoId: photo.id,
+        region: v.region,
+        dyeId: v.dyeId,
+        conditionId: conditionFor(tx, input.actorId, { solventId: v.solventId, acidBase: v.acidBase, ph: v.ph, concentrationUmolL: v.concentrationUmolL }),
+        lightingProfileId: input.lightingProfileId,
+        correctionKind: input.correction.kind,
+        correction: input.correction.values,
+        referencePatches: input.references,
+        rawR: v.rawLinearRgb[0],
+        rawG: v.rawLinearRgb[1],
+        rawB: v.rawLinearRgb[2],
+        x: v.xyz[0],
+        y: v.xyz[1],
+        z: v.xyz[2],
+        l: v.lab[0],
+        a: v.lab[1],
+        b: v.lab[2],
+        illuminant: "D65",
+        observer: "CIE 1931 2°",
+        pixelCount: v.pixels,
+        rejectedCount: v.rejected,
+        spread: v.spread,
+        flags: v.flags,
+        flagReason: v.flags.length ? v.flagReason : null,
+        reviewState: "pending",
+        createdBy: input.actorId,
+      };
+      tx.insert(measurements).values(row).run();
+      recordAudit(tx, {
+        actorId: input.actorId,
+        action: "measurement.create",
+        entity: "measurement",
+        entityId: id,
+        after: { photoId: photo.id, region: v.region, dyeId: v.dyeId, lab: v.lab, flags: v.flags, flagReason: row.flagReason, lightingProfileId: input.lightingProfileId, correction: input.correction.kind },
+      });
+      ids.push(id);
+    }
+    return ids;
+  });
+}
+
+/** Measurements already made in one photo, with dye and solvent, in the order they were saved. */
+export function photoMeasurements(db: Db, { photoId }: { photoId: string }) {
+  return db
+    .select({ m: measurements, dye: { code: dyes.code, name: dyes.name }, solvent: solvents.name, condition: conditions, author: users.name })
+    .from(measurements)
+    .innerJoin(dyes, eq(measurements.dyeId, dyes.id))
+    .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
+    .innerJoin(solvents, eq(conditions.solventId, solvents.id))
+    .innerJoin(users, eq(measurements.createdBy, users.id))
+    .where(eq(measurements.photoId, photoId))
+    .orderBy(measurements.createdAt, measurements.id)
+    .all();
+}
+
+// ---------------------------------------------------------------- rack layout templates
+
+export function listRackTemplates(db: Db) {
+  return db.select().from(rackTemplates).orderBy(rackTemplates.name).all();
+}
+
+/** Saves a layout under a name; a layout saved again under the same name replaces the old one. */
+export function saveRackTemplate(db: Db, { actorId, name, regions }: { actorId: string; name: string; regions: TemplateRegion[] }) {
+  return db.transaction((tx) => {
+    const existing = tx.select().from(rackTemplates).where(eq(rackTemplates.name, name)).get();
+    if (existing) {
+      tx.update(rackTemplates).set({ regions, updatedAt: new Date() }).where(eq(rackTemplates.id, existing.id)).run();
+      recordAudit(tx, { actorId, action: "rack-template.update", entity: "rack_template", entityId: existing.id, before: { regions: existing.regions }, after: { regions } });
+      return existing.id;
+    }
+    const id = `rt_${randomUUID()}`;
+    tx.insert(rackTemplates).values({ id, name, regions, createdBy: actorId }).run();
+    recordAudit(tx, { actorId, action: "rack-template.create", entity: "rack_template", entityId: id, after: { name, regions } });
+    return id;
+  });
+}
+
+export function deleteRackTemplate(db: Db, { actorId, id }: { actorId: string; id: string }) {
+  db.transaction((tx) => {
+    const existing = tx.select().from(rackTemplates).where(eq(rackTemplates.id, id)).get();
+    if (!existing) throw new AppError("not_found", "That template no longer exists.");
+    tx.delete(rackTemplates).where(eq(rackTemplates.id, id)).run();
+    recordAudit(tx, { actorId, action: "rack-template.delete", entity: "rack_template", entityId: id, before: { name: existing.name, regions: existing.regions } });
+  });
 }

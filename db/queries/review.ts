@@ -1,7 +1,7 @@
 import { and, eq } from "drizzle-orm";
 import { AppError } from "../../lib/errors";
 import type { Db } from "../connection";
-import { measurements, type Role } from "../schema";
+import { conditions, dyes, measurements, solvents, users, type Role } from "../schema";
 import { recordAudit } from "./audit";
 
 /**
@@ -35,4 +35,20 @@ export function decideMeasurement(
     });
     return { authorId: m.createdBy };
   });
+}
+
+/** What the author is told about a decision: who they are, what was measured and by whom it was reviewed. */
+export function reviewNotice(db: Db, { measurementId, reviewerId }: { measurementId: string; reviewerId: string }) {
+  const row = db
+    .select({ m: measurements, dye: dyes, solvent: solvents, condition: conditions, author: users })
+    .from(measurements)
+    .innerJoin(dyes, eq(measurements.dyeId, dyes.id))
+    .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
+    .innerJoin(solvents, eq(conditions.solventId, solvents.id))
+    .innerJoin(users, eq(measurements.createdBy, users.id))
+    .where(eq(measurements.id, measurementId))
+    .get();
+  const reviewer = db.select({ name: users.name }).from(users).where(eq(users.id, reviewerId)).get();
+  if (!row || !reviewer) return null;
+  return { ...row, reviewerName: reviewer.name };
 }

@@ -18,7 +18,25 @@ const schema = z.object({
   /** Set to "false" only behind plain HTTP on a trusted bench network. */
   SECURE_COOKIES: z.enum(["auto", "true", "false"]).default("auto"),
   MAX_UPLOAD_MB: z.coerce.number().positive().max(500).default(40),
-});
+  /** Largest photo accepted in megapixels (after decoding); refuses decompression bombs. */
+  MAX_PHOTO_MEGAPIXELS: z.coerce.number().positive().max(1000).default(100),
+  /** Where photos are stored: "local" (DATA_DIR/objects) or "s3" (an S3-compatible bucket, S3_* below). */
+  STORAGE_DRIVER: z.enum(["local", "s3"]).default("local"),
+  S3_BUCKET: z.string().min(3).optional(),
+  S3_REGION: z.string().min(1).default("us-east-1"),
+  /** e.g. http://127.0.0.1:9000 for MinIO; unset for AWS S3 itself. */
+  S3_ENDPOINT: z.url().optional(),
+  /** Path-style addressing (bucket in the path), which most self-hosted S3 servers need. */
+  S3_FORCE_PATH_STYLE: z.enum(["true", "false"]).default("false"),
+  /** Unset means the SDK's usual credential chain (instance role, ~/.aws, AWS_* variables). */
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  /** Folder inside the bucket, e.g. "solvatlas/". */
+  S3_KEY_PREFIX: z
+    .string()
+    .regex(/^([A-Za-z0-9._-]+\/)*$/, "S3_KEY_PREFIX must be empty or end with a slash, e.g. solvatlas/")
+    .default(""),
+}).refine((e) => e.STORAGE_DRIVER !== "s3" || !!e.S3_BUCKET, { error: "S3_BUCKET is needed when STORAGE_DRIVER=s3", path: ["S3_BUCKET"] });
 
 export type Env = z.infer<typeof schema>;
 

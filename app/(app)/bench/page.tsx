@@ -1,11 +1,14 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import { db } from "@/db/client";
-import { listRecentPhotos } from "@/db/queries/bench";
+import { listLightingProfiles, listRecentPhotos } from "@/db/queries/bench";
+import { PhotoUploader } from "@/components/bench/photo-uploader";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNotice } from "@/components/ui/safety";
 import { Refused } from "@/components/shell/refused";
 import { pageAccess } from "@/lib/auth/page";
 import { BENCH_ROLES } from "@/lib/auth/roles";
+import { photoLimits } from "@/lib/storage/limits";
 
 export const metadata: Metadata = { title: "Bench" };
 
@@ -14,35 +17,53 @@ export default async function BenchPage() {
   if (!allowed) return <Refused user={user} allowed={BENCH_ROLES} area="The bench" />;
   const handle = db();
   const photos = listRecentPhotos(handle, { limit: 40 });
+  const profiles = listLightingProfiles(handle).map(({ profile }) => ({ id: profile.id, name: profile.name }));
   return (
     <>
-      <PageHeader title="Bench" lead="Rack photos of the lab, newest first, with the lighting profile each was corrected with and how many vials were measured in it." />
+      <PageHeader
+        title="Bench"
+        lead="Upload rack photos, then mark each vial and the white or grey reference on them. Colours are measured on the stored photo, corrected for the light, and wait for a second person's review."
+      />
       <div className="mb-4">
         <SafetyNotice />
       </div>
+      <Card title="Upload rack photos" className="mb-4">
+        <PhotoUploader maxBytes={photoLimits().maxBytes} profiles={profiles} />
+      </Card>
       <Card title={`Rack photos (${photos.length} most recent)`}>
         <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
             <thead className="text-xs uppercase text-ink-soft">
               <tr>
+                <th className="py-2 pr-3">Photo</th>
                 <th className="py-2 pr-3">File</th>
                 <th className="py-2 pr-3">Taken</th>
                 <th className="py-2 pr-3">Lighting profile</th>
                 <th className="py-2 pr-3">By</th>
                 <th className="py-2 pr-3 text-right">Vials</th>
                 <th className="py-2 pr-3 text-right">Size</th>
+                <th className="py-2 pr-3" />
               </tr>
             </thead>
             <tbody className="divide-y divide-line">
               {photos.map(({ photo, uploader, profile, count }) => (
-                <tr key={photo.id}>
+                <tr key={photo.id} data-testid="photo-row">
+                  <td className="py-2 pr-3">
+                    {/* eslint-disable-next-line @next/next/no-img-element */}
+                    <img src={`/api/photos/${photo.id}/image?size=thumb`} alt="" width={96} height={Math.round((96 * photo.height) / photo.width)} loading="lazy" className="rounded border border-line" />
+                  </td>
                   <td className="py-2 pr-3 font-mono text-xs">{photo.originalName}</td>
-                  <td className="py-2 pr-3">{photo.takenAt?.toISOString().slice(0, 16).replace("T", " ") ?? "—"}</td>
-                  <td className="py-2 pr-3">{profile ?? "none"}</td>
+                  <td className="py-2 pr-3">{(photo.takenAt ?? photo.createdAt).toISOString().slice(0, 16).replace("T", " ")}</td>
+                  <td className="py-2 pr-3">{profile ?? "none yet"}</td>
                   <td className="py-2 pr-3">{uploader}</td>
                   <td className="py-2 pr-3 text-right tabular-nums">{count}</td>
                   <td className="py-2 pr-3 text-right tabular-nums">
                     {photo.width}×{photo.height}
+                  </td>
+                  <td className="py-2 pr-3">
+                    <Link href={`/bench/photos/${photo.id}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-3 font-semibold hover:bg-paper-deep">
+                      {count > 0 ? "Open" : "Mark vials"}
+                    </Link>
                   </td>
                 </tr>
               ))}

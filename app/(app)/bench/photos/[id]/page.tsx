@@ -1,0 +1,93 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { db } from "@/db/client";
+import { listCalibrationTargets, listLightingProfiles, listRackTemplates, photoMeasurements } from "@/db/queries/bench";
+import { listDyes } from "@/db/queries/dyes";
+import { getPhoto } from "@/db/queries/photos";
+import { listSolvents } from "@/db/queries/solvents";
+import { MarkingEditor } from "@/components/bench/marking-editor";
+import { Badge, Card, PageHeader } from "@/components/ui/card";
+import { Swatch } from "@/components/ui/swatch";
+import { Refused } from "@/components/shell/refused";
+import { pageAccess } from "@/lib/auth/page";
+import { BENCH_ROLES } from "@/lib/auth/roles";
+import { labToLch } from "@/lib/color/lab";
+
+export const metadata: Metadata = { title: "Mark vials" };
+
+export default async function MarkPhotoPage({ params }: { params: Promise<{ id: string }> }) {
+  const { user, allowed } = await pageAccess(BENCH_ROLES);
+  if (!allowed) return <Refused user={user} allowed={BENCH_ROLES} area="The bench" />;
+  const { id } = await params;
+  const handle = db();
+  const photo = getPhoto(handle, id);
+  if (!photo) notFound();
+  const now = Date.now();
+  const profiles = listLightingProfiles(handle).map(({ profile }) => ({
+    id: profile.id,
+    name: profile.name,
+    approved: !!profile.approvedAt,
+    validNow: profile.validFrom.getTime() <= now && (!profile.validUntil || profile.validUntil.getTime() >= now),
+  }));
+  const patches = listCalibrationTargets(handle).flatMap((t) => t.patches.map((p) => ({ label: `${t.name}: ${p.name} (L* ${p.lab[0].toFixed(2)}, a* ${p.lab[1].toFixed(2)}, b* ${p.lab[2].toFixed(2)})`, lab: p.lab })));
+  const dyes = listDyes(handle).map((d) => ({ id: d.id, code: d.code, name: d.name, synonyms: d.synonyms, dyeClass: d.dyeClass }));
+  const solvents = listSolvents(handle).map((s) => ({ id: s.id, name: s.name, medium: s.medium, cautions: s.cautions }));
+  const templates = listRackTemplates(handle).map((t) => ({ id: t.id, name: t.name, regions: t.regions }));
+  const existing = photoMeasurements(handle, { photoId: photo.id });
+  return (
+    <>
+      <PageHeader
+        title={`Mark vials: ${photo.originalName || photo.id}`}
+        lead="Draw one region inside each vial (clear of the meniscus, labels and glare) and one on the white or grey reference. Give every vial its dye, solvent and condition. The colour of each region is measured live on the stored photo; saving measures it again and sends it for review."
+        actions={
+          <Link href="/bench" className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold">
+            Back to the bench
+          </Link>
+        }
+      />
+      <MarkingEditor
+        photo={{ id: photo.id, width: photo.width, height: photo.height, name: photo.originalName, lightingProfileId: photo.lightingProfileId }}
+        displayUrl={`/api/photos/${photo.id}/image?size=display`}
+        dyes={dyes}
+        solvents={solvents}
+        profiles={profiles}
+        templates={templates}
+        patches={patches}
+      />
+      <Card title={`Measured in this photo (${existing.length})`} className="mt-6">
+        {existing.length === 0 ? (
+          <p className="text-sm text-ink-soft">Nothing saved from this photo yet.</p>
+        ) : (
+          <ul className="divide-y divide-line" data-testid="saved-measurements">
+            {existing.map(({ m, dye, solvent, condition, author }) => {
+              const lch = labToLch([m.l, m.a, m.b]);
+              return (
+                <li key={m.id} className="flex flex-wrap items-center gap-3 py-2 text-sm">
+                  <Swatch lab={[m.l, m.a, m.b]} />
+                  <span className="font-semibold">
+                    {dye.code} · {dye.name}
+                  </span>
+                  <span>
+                    {solvent}, {condition.acidBase}
+                    {condition.ph !== null ? `, pH ${condition.ph}` : ""}
+                  </span>
+                  <span className="tabular-nums text-ink-soft">
+                    L* {m.l.toFixed(1)} a* {m.a.toFixed(1)} b* {m.b.toFixed(1)} · C* {lch[1].toFixed(1)} h° {lch[2].toFixed(0)}
+                  </span>
+                  <Badge tone={m.reviewState === "accepted" ? "ok" : m.reviewState === "rejected" ? "bad" : "neutral"}>{m.reviewState}</Badge>
+                  <span className="text-ink-soft">by {author}</span>
+                  {m.flags.map((f) => (
+                    <Badge key={f} tone="warn">
+                      {f}
+                    </Badge>
+                  ))}
+                </li>
+              );
+            })}
+          </ul>
+        )}
+      </Card>
+    </>
+  );
+}

@@ -1,0 +1,91 @@
+"use server";
+
+import { revalidatePath } from "next/cache";
+import { z } from "zod";
+import { db } from "@/db/client";
+import { deleteRackTemplate, saveMeasurements, saveRackTemplate } from "@/db/queries/bench";
+import { getPhoto, measureOnPhoto } from "@/db/queries/photos";
+import { formAction, parseInput } from "@/lib/auth/guard";
+import { BENCH_ROLES } from "@/lib/auth/roles";
+import { saveRequestSchema, templateSchema } from "@/lib/bench/schemas";
+import { AppError } from "@/lib/errors";
+import { objectStore } from "@/lib/storage";
+import { photoLimits } from "@/lib/storage/limits";
+
+const jsonPayload = z.object({ payload: z.string().min(2, { error: "Nothing to save." }).max(2_000_000) });
+
+function parseJson(text: string): unknown {
+  try {
+    return JSON.parse(text);
+  } catch {
+    throw new AppError("invalid_input", "The marking could not be read; reload the page and try again.");
+  }
+}
+
+/**
+ * Saves the marked vials of a photo. The colours are measured again here, on the stored photo: what
+ * the browser showed is never trusted as the record. Flagged vials need a reason, or nothing is saved.
+ */
+export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
+  const input = parseInput(saveRequestSchema, parseJson(payload));
+  const handle = db();
+  const photo = getPhoto(handle, input.photoId);
+  if (!photo) throw new AppError("not_found", "That photo no longer exists.");
+  const result = await measureOnPhoto(handle, objectStore(), photo, {
+    lightingProfileId: input.lightingProfileId,
+    references: input.references,
+    vials: input.vials.map((v) => v.region),
+    maxPixels: photoLimits().maxPixels,
+  });
+  const failed = result.vials.map((v, i) => (v.ok ? null : { i, error: v.error })).filter((v) => v !== null);
+  if (failed.length > 0) {
+    throw new AppError(
+      "invalid_input",
+      `Vial ${failed[0].i + 1} cannot be measured: ${failed[0].error}`,
+      Object.fromEntries(failed.map((f) => [`vials.${f.i}.region`, [f.error]])),
+    );
+  }
+  const ids = saveMeasurements(handle, {
+    actorId: user.id,
+    photoId: photo.id,
+    lightingProfileId: input.lightingProfileId,
+    correction: result.stored,
+    references: result.references.map((r) => ({ region: r.region, lab: r.lab, rawLinearRgb: r.rawLinearRgb, label: r.label })),
+    vials: input.vials.map((v, i) => {
+      const c = (result.vials[i] as Extract<(typeof result.vials)[number], { ok: true }>).colour;
+      return {
+        region: v.region,
+        dyeId: v.dyeId,
+        solventId: v.solventId,
+        acidBase: v.acidBase,
+        ph: v.ph,
+        concentrationUmolL: v.concentrationUmolL,
+        rawLinearRgb: c.rawLinearRgb,
+        xyz: c.xyz,
+        lab: c.lab,
+        pixels: c.pixels,
+        rejected: c.rejected,
+        spread: c.spread,
+        flags: c.flags,
+        flagReason: v.flagReason || null,
+      };
+    }),
+  });
+  revalidatePath("/bench");
+  revalidatePath(`/bench/photos/${photo.id}`);
+  revalidatePath("/review");
+  return { ok: true, message: `Saved ${ids.length} measurement${ids.length === 1 ? "" : "s"}; they wait for review by another chemist or an admin.`, data: { ids } };
+});
+
+export const saveTemplateAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
+  const input = parseInput(templateSchema, parseJson(payload));
+  const id = saveRackTemplate(db(), { actorId: user.id, name: input.name, regions: input.regions });
+  revalidatePath("/bench", "layout");
+  return { ok: true, message: `Layout “${input.name}” saved with ${input.regions.length} regions.`, data: { id } };
+});
+
+export const deleteTemplateAction = formAction({ access: BENCH_ROLES, schema: z.object({ id: z.string().min(1).max(100) }) }, async ({ id }, { user }) => {
+  deleteRackTemplate(db(), { actorId: user.id, id });
+  revalidatePath("/bench", "layout");
+  return { ok: true, message: "Layout deleted." };
+});

@@ -1,0 +1,72 @@
+/** Input shapes of the bench: regions, references, vials, templates (zod, shared by route and actions). */
+import { z } from "zod";
+
+const px = z.number({ error: "Give pixel positions as numbers." }).finite();
+
+export const regionSchema = z.object({
+  shape: z.enum(["rect", "ellipse"], { error: "A region is a rect or an ellipse." }),
+  x: px.min(0, { error: "A region must start inside the photo (x ≥ 0)." }),
+  y: px.min(0, { error: "A region must start inside the photo (y ≥ 0)." }),
+  w: px.positive({ error: "A region needs a width of at least one pixel." }),
+  h: px.positive({ error: "A region needs a height of at least one pixel." }),
+});
+
+const labSchema = z.tuple([z.number().min(0).max(100), z.number().min(-200).max(200), z.number().min(-200).max(200)], {
+  error: "Give the reference's known L*, a*, b* (L* 0–100).",
+});
+
+export const referenceSchema = z.object({ region: regionSchema, lab: labSchema, label: z.string().trim().max(80).optional() });
+
+const profileId = z
+  .string()
+  .trim()
+  .max(100)
+  .nullable()
+  .optional()
+  .transform((v) => v || null);
+
+export const measureRequestSchema = z.object({
+  lightingProfileId: profileId,
+  references: z.array(referenceSchema).max(10, { error: "Mark at most 10 references." }).default([]),
+  vials: z.array(z.object({ key: z.string().max(64), region: regionSchema })).max(200, { error: "Measure at most 200 vials at once." }),
+});
+
+const optionalNumber = (min: number, max: number, what: string) =>
+  z
+    .union([z.number(), z.null()])
+    .optional()
+    .transform((v) => (v === undefined ? null : v))
+    .refine((v) => v === null || (Number.isFinite(v) && v >= min && v <= max), { error: `${what} must be between ${min} and ${max}.` });
+
+export const vialSchema = z.object({
+  region: regionSchema,
+  dyeId: z.string({ error: "Choose the dye in this vial." }).min(1, { error: "Choose the dye in this vial." }).max(100),
+  solventId: z.string({ error: "Choose the solvent in this vial." }).min(1, { error: "Choose the solvent in this vial." }).max(100),
+  acidBase: z.enum(["acid", "neutral", "base"], { error: "Choose acid, neutral or base." }),
+  ph: optionalNumber(-2, 16, "pH"),
+  concentrationUmolL: optionalNumber(0.000001, 1e6, "The concentration (µmol/L)"),
+  flagReason: z.string().trim().max(1000).default(""),
+});
+
+export const saveRequestSchema = z.object({
+  photoId: z.string().min(1).max(100),
+  lightingProfileId: profileId,
+  references: z.array(referenceSchema).max(10).default([]),
+  vials: z.array(vialSchema).min(1, { error: "Mark at least one vial before saving." }).max(200),
+});
+export type SaveRequest = z.infer<typeof saveRequestSchema>;
+
+export const templateRegionSchema = z.object({
+  shape: z.enum(["rect", "ellipse"]),
+  x: z.number().min(0).max(1),
+  y: z.number().min(0).max(1),
+  w: z.number().positive().max(1),
+  h: z.number().positive().max(1),
+  role: z.enum(["vial", "reference"]),
+  label: z.string().trim().max(80),
+});
+
+export const templateSchema = z.object({
+  name: z.string().trim().min(1, { error: "Name the layout, e.g. “8-vial rack, light box North”." }).max(120),
+  regions: z.array(templateRegionSchema).min(1, { error: "Mark at least one region before saving a layout." }).max(200),
+});
