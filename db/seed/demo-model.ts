@@ -1,4 +1,6 @@
 /**
+ * Names carry no colour words: the colour a dye shows is what the model and the measurements say.
+ *
  * The invented demo scenario: the colour lab of "Kestrel Bay Coatings", a fictional company.
  * Every dye, code and response below is made up. Colours are generated from a physical-looking model so
  * that fits and searches find real structure:
@@ -80,28 +82,28 @@ function families(random: () => number): Template[] {
     {
       dyeClass: "azo",
       prefix: "AZ",
-      names: ["Kestrel Orange 11", "Kestrel Scarlet 12", "Kestrel Red 14", "Kestrel Yellow 15", "Kestrel Amber 18"],
+      names: ["Kestrel Azo 11", "Kestrel Azo 12", "Kestrel Azo 14", "Kestrel Azo 15", "Kestrel Azo 18"],
       band: () => ({ nu0: pick(19.5, 24.0), s: pick(-1.6, -0.6), a: pick(-0.6, 0.5), b: pick(-0.5, 0.2), sigma: pick(1.8, 2.5), peak: pick(1.0, 1.5) }),
       acidBase: true,
     },
     {
       dyeClass: "sulfonephthalein",
       prefix: "SP",
-      names: ["Shoal Indicator Blue", "Shoal Indicator Purple", "Shoal Indicator Green", "Shoal Indicator Red"],
+      names: ["Shoal Indicator 2", "Shoal Indicator 3", "Shoal Indicator 5", "Shoal Indicator 8"],
       band: () => ({ nu0: pick(22.5, 24.5), s: pick(-0.6, 0), a: pick(-0.3, 0.3), b: pick(-0.2, 0.2), sigma: pick(1.6, 2.0), peak: pick(0.9, 1.3) }),
       acidBase: true,
     },
     {
       dyeClass: "xanthene",
       prefix: "XN",
-      names: ["Harbour Rose 21", "Harbour Pink 22", "Harbour Gold 23", "Harbour Coral 25"],
+      names: ["Harbour Xanthene 21", "Harbour Xanthene 22", "Harbour Xanthene 23", "Harbour Xanthene 25"],
       band: () => ({ nu0: pick(18.0, 20.0), s: pick(-0.9, -0.3), a: pick(0.2, 0.9), b: pick(-0.3, 0.3), sigma: pick(0.9, 1.3), peak: pick(1.2, 1.8) }),
       acidBase: true,
     },
     {
       dyeClass: "triarylmethane",
       prefix: "TM",
-      names: ["Gannet Violet 31", "Gannet Blue 32", "Gannet Green 33", "Gannet Teal 34"],
+      names: ["Gannet Triarylmethane 31", "Gannet Triarylmethane 32", "Gannet Triarylmethane 33", "Gannet Triarylmethane 34"],
       band: () => ({ nu0: pick(16.0, 17.6), s: pick(-0.8, -0.2), a: pick(-0.4, 0.3), b: pick(-0.3, 0.3), sigma: pick(1.1, 1.5), peak: pick(1.3, 1.9) }),
       acidBase: true,
     },
@@ -114,13 +116,13 @@ function families(random: () => number): Template[] {
     {
       dyeClass: "anthraquinone",
       prefix: "AQ",
-      names: ["Skerry Blue 51", "Skerry Violet 52", "Skerry Red 55"],
+      names: ["Skerry Quinone 51", "Skerry Quinone 52", "Skerry Quinone 55"],
       band: () => ({ nu0: pick(16.5, 19.0), s: pick(-0.7, -0.2), a: pick(-0.5, 0.1), b: pick(-0.2, 0.2), sigma: pick(1.8, 2.4), peak: pick(0.9, 1.3) }),
     },
     {
       dyeClass: "nitrophenolate",
       prefix: "NP",
-      names: ["Pier Yellow 61", "Pier Yellow 62"],
+      names: ["Pier Nitrophenolate 61", "Pier Nitrophenolate 62"],
       band: () => ({ nu0: pick(27.5, 29.0), s: pick(-1.5, -0.8), a: pick(0.8, 1.6), b: pick(-0.4, 0.0), sigma: pick(2.2, 2.8), peak: pick(0.9, 1.3) }),
       acidBase: true,
     },
