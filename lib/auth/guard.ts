@@ -22,7 +22,9 @@ function flattenIssues(error: z.ZodError): { message: string; fieldErrors: Recor
     (fieldErrors[key] ??= []).push(issue.message);
   }
   const first = error.issues[0];
-  const where = first.path.length ? `${first.path.join(".")}: ` : "";
+  const field = first.path.join(".");
+  // Name the field unless the message already starts with it ("lab must be …").
+  const where = field && !first.message.startsWith(field) ? `${field}: ` : "";
   return { message: `${where}${first.message}`, fieldErrors };
 }
 
