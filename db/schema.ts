@@ -7,6 +7,7 @@
  */
 import { sql } from "drizzle-orm";
 import { index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import type { PhotoExif } from "../lib/color/exif";
 
 export const ROLES = ["admin", "chemist", "formulator"] as const;
 export type Role = (typeof ROLES)[number];
@@ -235,15 +236,8 @@ export type LightingProfile = typeof lightingProfiles.$inferSelect;
 
 // ---------------------------------------------------------------- bench records
 
-export type ExifSummary = {
-  make?: string;
-  model?: string;
-  takenAt?: string;
-  orientation?: number;
-  exposureTime?: number;
-  fNumber?: number;
-  iso?: number;
-};
+/** EXIF facts kept with a photo (see lib/color/exif.ts). */
+export type ExifSummary = PhotoExif;
 
 export const photos = sqliteTable(
   "photos",

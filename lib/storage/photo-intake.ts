@@ -10,7 +10,7 @@
  * 16-bit PNG/TIFF are accepted as they are (the colour engine reads the full depth); EXIF orientation
  * is applied to the stored width/height and to the derived copies.
  */
-import exifReader from "exif-reader";
+import { parseExif } from "@/lib/color/exif";
 import sharp, { type Metadata } from "sharp";
 import { AppError } from "@/lib/errors";
 import type { ExifSummaryFacts } from "./photo-types";
@@ -128,24 +128,8 @@ function truncated(): never {
 }
 
 function summariseExif(raw: Buffer | undefined, orientation: number | undefined): ExifSummaryFacts {
-  const out: ExifSummaryFacts = {};
+  const out = parseExif(raw);
   if (orientation) out.orientation = orientation;
-  if (!raw) return out;
-  try {
-    const e = exifReader(raw);
-    const str = (v: unknown) => (typeof v === "string" && v.trim() ? v.trim().slice(0, 100) : undefined);
-    const num = (v: unknown) => (typeof v === "number" && Number.isFinite(v) ? v : Array.isArray(v) && typeof v[0] === "number" ? v[0] : undefined);
-    out.make = str(e.Image?.Make);
-    out.model = str(e.Image?.Model);
-    const taken = e.Photo?.DateTimeOriginal ?? e.Image?.DateTime;
-    if (taken instanceof Date && !Number.isNaN(taken.getTime())) out.takenAt = taken.toISOString();
-    out.exposureTime = num(e.Photo?.ExposureTime);
-    out.fNumber = num(e.Photo?.FNumber);
-    out.iso = num(e.Photo?.ISOSpeedRatings ?? e.Photo?.PhotographicSensitivity);
-  } catch {
-    // Damaged EXIF is not a reason to refuse the pixels; the summary just stays short.
-  }
-  for (const k of Object.keys(out) as (keyof ExifSummaryFacts)[]) if (out[k] === undefined) delete out[k];
   return out;
 }
 

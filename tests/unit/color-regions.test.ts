@@ -142,7 +142,8 @@ describe("photo regions (synthetic images made in the test)", () => {
     expect(photo.exif.make).toBe("Acme");
     expect(photo.exif.model).toBe("Bench 1");
     // DateTimeOriginal (Exif sub-IFD) wins over IFD0 DateTime (CIPA DC-008).
-    expect(photo.exif.takenAt).toBe("2026:11:30 09:15:02");
+    // Camera clock time, no zone in EXIF: written as UTC.
+    expect(photo.exif.takenAt).toBe("2026-11-30T09:15:02.000Z");
     expect(photo.exif.exposureTime).toBeCloseTo(1 / 60, 12);
     expect(photo.exif.fNumber).toBeCloseTo(2.8, 12);
     expect(photo.exif.iso).toBe(200);
