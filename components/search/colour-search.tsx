@@ -5,11 +5,12 @@ import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useState } from "react";
 import { Button, ButtonLink } from "@/components/ui/button";
-import { Badge, Card, Notice } from "@/components/ui/card";
+import { Badge, Card } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import type { Lab } from "@/lib/color/types";
 import { COLOUR_WORDS } from "@/lib/search/colour-words";
 import { describeCondition, fetchJson, type Condition } from "./api";
+import { SearchFailed, Searching } from "./query-feedback";
 
 type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
@@ -138,22 +139,12 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
           </div>
           <div className="flex items-center gap-3">
             <Button type="submit">Search</Button>
-            {search.isFetching && (
-              <span className="text-sm text-ink-soft" role="status">
-                Searching…
-              </span>
-            )}
+            <Searching active={search.isFetching} />
           </div>
         </form>
       </Card>
 
-      {search.isError && (
-        <div className="mt-4">
-          <Notice tone="error" title="The search could not run">
-            {search.error.message}
-          </Notice>
-        </div>
-      )}
+      <SearchFailed error={search.isError ? search.error : null} />
 
       {hasTarget && answer && (
         <Card

@@ -4,10 +4,11 @@ import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { Button } from "@/components/ui/button";
-import { Badge, Card, Notice } from "@/components/ui/card";
+import { Badge, Card } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import type { Lab } from "@/lib/color/types";
 import { describeCondition, fetchJson, type Condition } from "./api";
+import { SearchFailed, Searching } from "./query-feedback";
 
 type Side = { lab: Lab; measurementId: string; condition: Condition };
 type Check = { kind: "protan" | "deutan" | "tritan"; deltaE00: number; passes: boolean };
@@ -133,21 +134,11 @@ export function ShiftSearch() {
               </label>
             </fieldset>
             <Button type="submit">Search</Button>
-            {search.isFetching && (
-              <span className="text-sm text-ink-soft" role="status">
-                Searching…
-              </span>
-            )}
+            <Searching active={search.isFetching} />
           </div>
         </form>
       </Card>
-      {search.isError && (
-        <div className="mt-4">
-          <Notice tone="error" title="The search could not run">
-            {search.error.message}
-          </Notice>
-        </div>
-      )}
+      <SearchFailed error={search.isError ? search.error : null} />
       {asked && answer && (
         <>
           <Card className="mt-4" title={`${answer.results.length} dyes with a fitting shift`}>
