@@ -15,7 +15,8 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" },
+        // Generous timeout: the brute-force cross-checks run long on a shared 2-core machine.
+        test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node", testTimeout: 60_000 },
       },
       {
         extends: true,
