@@ -40,9 +40,11 @@ export type ColourColumns = {
 
 /**
  * The candidates whose colour lies in a box, already restricted to the condition filters.
- * Must return every stored colour inside the box (extra colours outside it are harmless).
+ * Must return every stored colour inside `box` except, when `previous` is given, those inside
+ * `previous` (returned by the call before, so already compared). Returning extra colours (outside the
+ * box, or inside `previous` again) is harmless.
  */
-export type BoxFetch = (box: LabBox) => ColourColumns;
+export type BoxFetch = (box: LabBox, previous?: LabBox) => ColourColumns;
 
 /** Number of values ≤ x in an ascending array. */
 function upperBound(sorted: Float64Array, x: number): number {
@@ -70,8 +72,10 @@ export type IndexedRanking = {
  * Exact top-`limit` dyes by CIEDE2000, one hit per dye, using a box prefilter (an R*Tree in practice).
  *
  * Round by round: fetch the box {@link labBoxForDeltaE00}(target, r), which holds every colour within
- * ΔE00 ≤ r; compute ΔE00 exactly for each colour fetched and keep each dye's best. A dye whose best
- * is ≤ r is exact: any closer colour of that dye would also be within r, hence in the box. If at least
+ * ΔE00 ≤ r (from the second round on, only what lies outside the previous box: the union of the boxes
+ * fetched holds the current one); compute ΔE00 exactly for each colour fetched and keep each dye's
+ * best over all rounds. A dye whose best is ≤ r is exact: any closer colour of that dye would also
+ * be within r, hence in the box, hence seen. If at least
  * `limit` dyes are exact, they are the answer: every other dye's true best is > r. Otherwise grow r:
  * to the `limit`-th best ΔE00 seen so far when `limit` dyes were seen at all (their bests are upper
  * bounds of the true ones, so the true `limit`-th distance is no larger and the next round finishes),
@@ -88,23 +92,35 @@ export function rankByColourIndexed(
   let r = startRadius > 0 && Number.isFinite(startRadius) ? startRadius : 0.5;
   let rounds = 0;
   let scanned = 0;
+  // Each dye's best colour over every round so far (the union of the boxes fetched, which holds the
+  // current box), indexed by the dye number (dense in practice).
   let bestD = new Float64Array(0);
-  let bestI = new Int32Array(0);
+  let bestRef = new Int32Array(0);
+  let bestLab = new Float64Array(0);
+  const touched: number[] = [];
+  let previous: LabBox | undefined;
   for (;;) {
     rounds++;
     const box = labBoxForDeltaE00(target, r);
     const all = boxIsUnbounded(box);
-    const cols = fetch(box);
+    // Only the shell outside the last box is new: colours inside it were compared already.
+    const cols = fetch(box, previous);
+    previous = box;
     scanned += cols.count;
-    // Best colour per dye, in typed arrays indexed by the dye number (dense in practice).
     let maxDye = -1;
     for (let i = 0; i < cols.count; i++) if (cols.dye[i] > maxDye) maxDye = cols.dye[i];
     if (bestD.length <= maxDye) {
-      bestD = new Float64Array(maxDye + 1);
-      bestI = new Int32Array(maxDye + 1);
+      const n = Math.max(maxDye + 1, 2 * bestD.length);
+      const d = new Float64Array(n).fill(Infinity);
+      d.set(bestD);
+      const ref = new Int32Array(n);
+      ref.set(bestRef);
+      const lab = new Float64Array(3 * n);
+      lab.set(bestLab);
+      bestD = d;
+      bestRef = ref;
+      bestLab = lab;
     }
-    bestD.fill(Infinity, 0, maxDye + 1);
-    const touched: number[] = [];
     for (let i = 0; i < cols.count; i++) {
       const d = ciede2000(L, A, B, cols.l[i], cols.a[i], cols.b[i]);
       const dye = cols.dye[i];
@@ -112,7 +128,10 @@ export function rankByColourIndexed(
       if (prev === Infinity) touched.push(dye);
       if (d < prev) {
         bestD[dye] = d;
-        bestI[dye] = i;
+        bestRef[dye] = cols.ref[i];
+        bestLab[3 * dye] = cols.l[i];
+        bestLab[3 * dye + 1] = cols.a[i];
+        bestLab[3 * dye + 2] = cols.b[i];
       }
     }
     const dists = Float64Array.from(touched, (dye) => bestD[dye]).sort();
@@ -126,10 +145,9 @@ export function rankByColourIndexed(
         .map((dye) => ({ dye, deltaE00: bestD[dye], dyeId: dyeKey(dye) }))
         .sort(compareRanked)
         .slice(0, cut);
-      const hits = chosen.map(({ dye, deltaE00 }): IndexedHit => {
-        const i = bestI[dye];
-        return { dye, ref: cols.ref[i], lab: [cols.l[i], cols.a[i], cols.b[i]], deltaE00 };
-      });
+      const hits = chosen.map(
+        ({ dye, deltaE00 }): IndexedHit => ({ dye, ref: bestRef[dye], lab: [bestLab[3 * dye], bestLab[3 * dye + 1], bestLab[3 * dye + 2]], deltaE00 }),
+      );
       return { hits, radius: r, rounds, scanned };
     }
     // The limit-th best seen bounds the true limit-th distance from above, so that radius finishes.
