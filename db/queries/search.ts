@@ -1,5 +1,5 @@
 import type Database from "better-sqlite3";
-import { eq, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
 import { boxContains, type LabBox } from "../../lib/search/bound";
 import { classRuns, conditionClass, conditionMatches, type ConditionFilter } from "../../lib/search/filters";
@@ -7,7 +7,7 @@ import { buildLabGrid, queryLabGrid, type LabGrid } from "../../lib/search/grid"
 import { rankByColourIndexed, type ColourColumns } from "../../lib/search/rank";
 import type { ShiftDye } from "../../lib/search/shift";
 import type { Db } from "../connection";
-import { conditions, solvents, type AcidBase, type Medium } from "../schema";
+import { solvents, type AcidBase, type Medium } from "../schema";
 
 export type ConditionInfo = { id: string; solventId: string; solvent: string; medium: Medium; acidBase: AcidBase; ph: number | null };
 
@@ -24,13 +24,23 @@ export type ColourHit = {
 
 export type ColourSearch = { results: ColourHit[]; stats: { radius: number; rounds: number; scanned: number } };
 
-/** Every condition with its solvent's class: a small table, read whole per search. */
+const catalogueStatements = new WeakMap<Database.Database, Database.Statement>();
+
+/**
+ * Every condition with its solvent's class: a small table, read whole per search (one statement
+ * prepared once per connection; the query builder's per-call overhead was a fifth of a search).
+ */
 export function conditionCatalogue(db: Db): ConditionInfo[] {
-  return db
-    .select({ id: conditions.id, solventId: conditions.solventId, solvent: solvents.name, medium: solvents.medium, acidBase: conditions.acidBase, ph: conditions.ph })
-    .from(conditions)
-    .innerJoin(solvents, eq(conditions.solventId, solvents.id))
-    .all();
+  const client = db.$client;
+  let st = catalogueStatements.get(client);
+  if (!st) {
+    st = client.prepare(
+      `SELECT c.id AS id, c.solvent_id AS solventId, s.name AS solvent, s.medium AS medium, c.acid_base AS acidBase, c.ph AS ph
+       FROM conditions c JOIN solvents s ON s.id = c.solvent_id`,
+    );
+    catalogueStatements.set(client, st);
+  }
+  return st.all() as ConditionInfo[];
 }
 
 const BIG = 1e30; // SQLite has no ±Infinity literal in bound parameters that the R*Tree compares cleanly
@@ -213,18 +223,23 @@ function warmUp(client: Database.Database, c: KeyCache) {
 
 /** Rebuilds the grid from every key still marked live (drops the known-dead, folds `extra` in). */
 function rebuildGrid(c: KeyCache) {
-  const keys: number[] = [];
-  for (let k = 0; k < c.live.length; k++) if (c.live[k]) keys.push(k);
-  const key = Int32Array.from(keys);
-  c.grid = buildLabGrid({
-    key,
-    cond: key.map((k) => c.cond[k]),
-    l: Float64Array.from(keys, (k) => c.l[k]),
-    a: Float64Array.from(keys, (k) => c.a[k]),
-    b: Float64Array.from(keys, (k) => c.b[k]),
-    count: keys.length,
-    conditions: c.condIds.length,
-  });
+  let n = 0;
+  for (let k = 0; k < c.live.length; k++) n += c.live[k];
+  const key = new Int32Array(n);
+  const cond = new Int32Array(n);
+  const l = new Float64Array(n);
+  const a = new Float64Array(n);
+  const b = new Float64Array(n);
+  for (let k = 0, i = 0; k < c.live.length; k++) {
+    if (!c.live[k]) continue;
+    key[i] = k;
+    cond[i] = c.cond[k];
+    l[i] = c.l[k];
+    a[i] = c.a[k];
+    b[i] = c.b[k];
+    i++;
+  }
+  c.grid = buildLabGrid({ key, cond, l, a, b, count: n, conditions: c.condIds.length });
   c.extra = [];
 }
 
@@ -265,7 +280,9 @@ function detailStatement(client: Database.Database): Database.Statement {
 
 /**
  * Exact top-`limit` dyes by CIEDE2000 to `target` among accepted measurements that match `filter`,
- * one per dye: R*Tree box prefilter grown until provably complete (lib/search/rank), then exact ΔE00.
+ * one per dye: box prefilter grown until provably complete (lib/search/rank), then exact ΔE00. The
+ * boxes are read from the in-memory grid (lib/search/grid: only the allowed conditions, only the new
+ * shell each round); inside a transaction, from the R*Tree.
  * `accept` narrows the colours that count (e.g. those a colour word names); ranking stays exact
  * among the accepted ones.
  */

@@ -46,16 +46,22 @@ export type ColourColumns = {
  */
 export type BoxFetch = (box: LabBox, previous?: LabBox) => ColourColumns;
 
-/** Number of values ≤ x in an ascending array. */
-function upperBound(sorted: Float64Array, x: number): number {
-  let lo = 0;
-  let hi = sorted.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (sorted[mid] <= x) lo = mid + 1;
-    else hi = mid;
+/** The `k` smallest of `values[i]` over the indices `of`, ascending (fewer when `of` is shorter). */
+export function smallest(of: readonly number[], values: Float64Array, k: number): Float64Array {
+  const top = new Float64Array(Math.max(0, k));
+  let n = 0;
+  for (const i of of) {
+    const v = values[i];
+    if (n === k && !(v < top[n - 1])) continue;
+    // Insertion into the sorted buffer, dropping its largest when full.
+    let j = n < k ? n++ : n - 1;
+    while (j > 0 && top[j - 1] > v) {
+      top[j] = top[j - 1];
+      j--;
+    }
+    top[j] = v;
   }
-  return lo;
+  return top.subarray(0, n);
 }
 
 export type IndexedHit = { dye: number; ref: number; lab: Lab; deltaE00: number };
@@ -134,8 +140,11 @@ export function rankByColourIndexed(
         bestLab[3 * dye + 2] = cols.b[i];
       }
     }
-    const dists = Float64Array.from(touched, (dye) => bestD[dye]).sort();
-    const exactCount = all ? dists.length : upperBound(dists, r);
+    // The `limit` smallest bests (ascending) and how many bests are ≤ r; no full sort per round.
+    const dists = smallest(touched, bestD, limit);
+    let exactCount = 0;
+    if (all) exactCount = touched.length;
+    else for (const dye of touched) if (bestD[dye] <= r) exactCount++;
     if (all || exactCount >= limit) {
       // Everything up to the limit-th distance, ties included, then the exact order (ΔE00, dye id).
       const cut = Math.min(limit, exactCount);

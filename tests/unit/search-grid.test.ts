@@ -7,7 +7,7 @@ import { describe, expect, it } from "vitest";
 import type { Lab } from "@/lib/color/types";
 import { boxContains, type LabBox } from "@/lib/search/bound";
 import { buildLabGrid, queryLabGrid } from "@/lib/search/grid";
-import { rankByColourExhaustive, rankByColourIndexed, type ColourColumns } from "@/lib/search/rank";
+import { rankByColourExhaustive, rankByColourIndexed, smallest, type ColourColumns } from "@/lib/search/rank";
 
 /** Deterministic PRNG (mulberry32) so a failure can be replayed. */
 function rng(seed: number) {
@@ -102,6 +102,19 @@ describe("rankByColourIndexed over the grid, new shells only", () => {
       // The hit's colour is the one its distance was computed for.
       for (const h of got.hits) expect(h.lab).toEqual([data.l[h.ref], data.a[h.ref], data.b[h.ref]]);
       expect(repeats).toBe(0);
+    }
+  });
+});
+
+describe("smallest (the per-round selection of rankByColourIndexed)", () => {
+  it("equals sorting and slicing, ties, infinities and short inputs included", () => {
+    const random = rng(3);
+    for (let t = 0; t < 200; t++) {
+      const values = Float64Array.from({ length: 50 }, () => (random() < 0.1 ? Infinity : Math.round(random() * 20) / 4));
+      const of = Array.from({ length: Math.floor(random() * 50) }, () => Math.floor(random() * 50));
+      const k = Math.floor(random() * 25);
+      const want = of.map((i) => values[i]).sort((x, y) => x - y).slice(0, k);
+      expect([...smallest(of, values, k)]).toEqual(want);
     }
   });
 });
