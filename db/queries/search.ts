@@ -281,8 +281,7 @@ function detailStatement(client: Database.Database): Database.Statement {
 /**
  * Exact top-`limit` dyes by CIEDE2000 to `target` among accepted measurements that match `filter`,
  * one per dye: box prefilter grown until provably complete (lib/search/rank), then exact ΔE00. The
- * boxes are read from the in-memory grid (lib/search/grid: only the allowed conditions, only the new
- * shell each round); inside a transaction, from the R*Tree.
+ * boxes are read from the in-memory grid (lib/search/grid: only the allowed conditions' colours); inside a transaction, from the R*Tree.
  * `accept` narrows the colours that count (e.g. those a colour word names); ranking stays exact
  * among the accepted ones.
  */
@@ -305,14 +304,14 @@ export function searchByColour(
   }
 
   // Grid path: only the allowed conditions' colours in the box, live, read from memory.
-  const fetchGrid = (box: LabBox, previous?: LabBox): ColourColumns => {
+  const fetchGrid = (box: LabBox): ColourColumns => {
     const allowed = cache.condIds.map((id) => allowedIds.has(id));
     const grid = cache.grid!;
     const { live, dye } = cache;
     let k = 0;
     let out = cache.out;
     const push = (key: number, l: number, a: number, b: number) => {
-      if (!live[key] || (previous && boxContains(previous, l, a, b)) || (accept && !accept(l, a, b))) return;
+      if (!live[key] || (accept && !accept(l, a, b))) return;
       if (k >= out.dye.length) {
         const kept = out;
         ensureOut(cache, k + 1);

@@ -1,5 +1,5 @@
 import type { Lab } from "@/lib/color/types";
-import { boxIsUnbounded, labBoxForDeltaE00, type LabBox } from "./bound";
+import { boxIsUnbounded, ellipsoidMetric, labBoxForDeltaE00, type LabBox } from "./bound";
 import { ciede2000 } from "./ciede2000";
 
 export type Candidate<T> = { dyeId: string; lab: Lab; payload: T };
@@ -40,11 +40,9 @@ export type ColourColumns = {
 
 /**
  * The candidates whose colour lies in a box, already restricted to the condition filters.
- * Must return every stored colour inside `box` except, when `previous` is given, those inside
- * `previous` (returned by the call before, so already compared). Returning extra colours (outside the
- * box, or inside `previous` again) is harmless.
+ * Must return every stored colour inside the box (extra colours outside it are harmless).
  */
-export type BoxFetch = (box: LabBox, previous?: LabBox) => ColourColumns;
+export type BoxFetch = (box: LabBox) => ColourColumns;
 
 /** The `k` smallest of `values[i]` over the indices `of`, ascending (fewer when `of` is shorter). */
 export function smallest(of: readonly number[], values: Float64Array, k: number): Float64Array {
@@ -70,7 +68,7 @@ export type IndexedRanking = {
   /** ΔE00 radius whose box was searched last. */
   radius: number;
   rounds: number;
-  /** Colours fetched and compared, all rounds together. */
+  /** Colours compared by exact CIEDE2000, all rounds together (each at most once). */
   scanned: number;
 };
 
@@ -78,14 +76,15 @@ export type IndexedRanking = {
  * Exact top-`limit` dyes by CIEDE2000, one hit per dye, using a box prefilter (an R*Tree in practice).
  *
  * Round by round: fetch the box {@link labBoxForDeltaE00}(target, r), which holds every colour within
- * ΔE00 ≤ r (from the second round on, only what lies outside the previous box: the union of the boxes
- * fetched holds the current one); compute ΔE00 exactly for each colour fetched and keep each dye's
- * best over all rounds. A dye whose best is ≤ r is exact: any closer colour of that dye would also
- * be within r, hence in the box, hence seen. If at least
- * `limit` dyes are exact, they are the answer: every other dye's true best is > r. Otherwise grow r:
- * to the `limit`-th best ΔE00 seen so far when `limit` dyes were seen at all (their bests are upper
- * bounds of the true ones, so the true `limit`-th distance is no larger and the next round finishes),
- * else multiplied by `growth`. A box with no finite side sees everything, so the last round is always exact.
+ * ΔE00 ≤ r, and so does the ellipsoid inscribed in it. Compute ΔE00 exactly for each fetched colour
+ * inside this round's ellipsoid and not inside the last round's (those were computed then: by
+ * induction every colour in the current ellipsoid has been computed), and keep each dye's best over
+ * all rounds. A dye whose best is ≤ r is exact: any closer colour of that dye would also be within r,
+ * hence in the ellipsoid, hence computed. If at least `limit` dyes are exact, they are the answer:
+ * every other dye's true best is > r. Otherwise grow r: to the `limit`-th best ΔE00 seen so far when
+ * `limit` dyes were seen at all (their bests are upper bounds of the true ones, so the true `limit`-th
+ * distance is no larger and the next round finishes), else multiplied by `growth`. A box with no
+ * finite side sees everything, so the last round is always exact.
  * Ties are broken by the dye's `dyeKey` (its id), as in {@link rankByColourExhaustive}.
  */
 export function rankByColourIndexed(
@@ -104,15 +103,18 @@ export function rankByColourIndexed(
   let bestRef = new Int32Array(0);
   let bestLab = new Float64Array(0);
   const touched: number[] = [];
-  let previous: LabBox | undefined;
+  // Half-widths of the last round's ellipsoid (unused in the first round).
+  let pl = 0;
+  let pa = 0;
+  let pb = 0;
   for (;;) {
     rounds++;
     const box = labBoxForDeltaE00(target, r);
     const all = boxIsUnbounded(box);
-    // Only the shell outside the last box is new: colours inside it were compared already.
-    const cols = fetch(box, previous);
-    previous = box;
-    scanned += cols.count;
+    const cols = fetch(box);
+    const wl = (box.lMax - box.lMin) / 2;
+    const wa = (box.aMax - box.aMin) / 2;
+    const wb = (box.bMax - box.bMin) / 2;
     let maxDye = -1;
     for (let i = 0; i < cols.count; i++) if (cols.dye[i] > maxDye) maxDye = cols.dye[i];
     if (bestD.length <= maxDye) {
@@ -127,7 +129,14 @@ export function rankByColourIndexed(
       bestRef = ref;
       bestLab = lab;
     }
+    const first = rounds === 1;
     for (let i = 0; i < cols.count; i++) {
+      const dl = cols.l[i] - L;
+      const da = cols.a[i] - A;
+      const db = cols.b[i] - B;
+      if (ellipsoidMetric(dl, da, db, wl, wa, wb) > 1) continue; // farther than r: not needed yet
+      if (!first && ellipsoidMetric(dl, da, db, pl, pa, pb) <= 1) continue; // computed last round
+      scanned++;
       const d = ciede2000(L, A, B, cols.l[i], cols.a[i], cols.b[i]);
       const dye = cols.dye[i];
       const prev = bestD[dye];
@@ -159,6 +168,9 @@ export function rankByColourIndexed(
       );
       return { hits, radius: r, rounds, scanned };
     }
+    pl = wl;
+    pa = wa;
+    pb = wb;
     // The limit-th best seen bounds the true limit-th distance from above, so that radius finishes.
     r = dists.length >= limit ? Math.max(dists[limit - 1], r * 1.01) : r * growth;
   }
