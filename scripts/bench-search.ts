@@ -2,10 +2,11 @@
  * `npm run bench:search`: the colour search on 1,000,000 accepted measurements in a temporary SQLite
  * database built with the real migrations (schema, R*Tree and its triggers). Prints p50/p95 of top-20
  * queries through `searchByColour` (R*Tree prefilter + exact CIEDE2000), the same queries by brute
- * force (every accepted row read from SQLite, exact CIEDE2000, best per dye), the ratio between them,
- * and recall of the indexed results against brute force (the ranking is meant to be identical). A
- * second baseline scans every colour held in memory (typed arrays) with the same CIEDE2000, for the
- * ratio of the ranking work alone; recall is also checked on every query against it.
+ * force, the ratios, and recall (the ranking is meant to be identical). Two brute-force baselines:
+ * the honest one scans every colour already held in memory (typed arrays) with the same CIEDE2000,
+ * for the ratio of the ranking work alone, checked on every query; the other also reads every
+ * accepted row from SQLite per query (the first `--brute` queries). Each ratio is labelled with its
+ * baseline and percentiles.
  *
  * Options: --measurements N (default 1e6), --queries N (default 200), --brute N (default 40),
  * --keep (leave the database file).
@@ -152,7 +153,8 @@ const quantile = (xs: number[], q: number) => {
 };
 
 // Warm-up, reported but not in the percentiles: the first search reads every R*Tree key's facts into
-// memory once per process (db/queries/search.ts); a few more warm the JIT and the page cache.
+// memory once per process and builds the in-memory grid index (db/queries/search.ts); a few more
+// warm the JIT and the page cache.
 const tw = performance.now();
 searchByColour(db, { target: [50, 0, 0], filter: FILTERS[0], limit: LIMIT });
 const firstSearchMs = performance.now() - tw;
@@ -215,10 +217,16 @@ const report = {
   limit: LIMIT,
   firstSearchMs: Math.round(firstSearchMs),
   indexedMs: { p50: Number(fast50.toFixed(2)), p95: Number(fast95.toFixed(2)), max: Number(Math.max(...fastTimes).toFixed(2)) },
-  bruteForceMs: { queries: bruteTimes.length, p50: Number(brute50.toFixed(1)), p95: Number(quantile(bruteTimes, 0.95).toFixed(1)) },
-  speedup: { medianOverMedian: Number((brute50 / fast50).toFixed(1)), bruteMedianOverIndexedP95: Number((brute50 / fast95).toFixed(1)) },
+  // Baseline 1 (the honest one): every colour already in memory, exhaustive CIEDE2000 over those the
+  // filter allows, best per dye. Baseline 2: the same, but reading every accepted row from SQLite.
   bruteForceInMemoryMs: { queries: memTimes.length, p50: Number(quantile(memTimes, 0.5).toFixed(1)), p95: Number(quantile(memTimes, 0.95).toFixed(1)) },
-  speedupOverInMemory: { medianOverMedian: Number((quantile(memTimes, 0.5) / fast50).toFixed(1)), inMemoryMedianOverIndexedP95: Number((quantile(memTimes, 0.5) / fast95).toFixed(1)) },
+  bruteForceFromSqliteMs: { queries: bruteTimes.length, p50: Number(brute50.toFixed(1)), p95: Number(quantile(bruteTimes, 0.95).toFixed(1)) },
+  ratios: {
+    "inMemoryBrute.p50 / indexed.p50": Number((quantile(memTimes, 0.5) / fast50).toFixed(1)),
+    "inMemoryBrute.p50 / indexed.p95": Number((quantile(memTimes, 0.5) / fast95).toFixed(1)),
+    "sqliteBrute.p50 / indexed.p50": Number((brute50 / fast50).toFixed(1)),
+    "sqliteBrute.p50 / indexed.p95": Number((brute50 / fast95).toFixed(1)),
+  },
   recall: expected ? found / expected : 1,
   identicalRankings: `${identical}/${bruteTimes.length}`,
   recallAllQueriesInMemory: memExpected ? memFound / memExpected : 1,
@@ -231,9 +239,20 @@ const report = {
     }),
   ),
   meanRounds: Number((rounds / queries.length).toFixed(2)),
+  /** Colours compared by exact CIEDE2000 per query (each once: later rounds read only the new shell). */
   meanColoursScanned: Math.round(scanned / queries.length),
 };
+const memRatio = quantile(memTimes, 0.5) / fast50;
 console.log(JSON.stringify(report, null, 2));
+// Goals of the exact colour search (issue 5): p95 ≤ 15 ms, ≥ 25× the in-memory exhaustive scan
+// (median over median), recall 100 % with identical rankings.
+console.log(
+  [
+    `goal p95 <= 15 ms: ${fast95 <= 15 ? "met" : "NOT met"} (${fast95.toFixed(2)} ms)`,
+    `goal >= 25x in-memory brute force (p50/p50): ${memRatio >= 25 ? "met" : "NOT met"} (${memRatio.toFixed(1)}x)`,
+    `goal recall 100 %: ${memFound === memExpected && memIdentical === queries.length ? "met" : "NOT met"} (${memIdentical}/${queries.length} identical)`,
+  ].join("\n"),
+);
 db.$client.close();
 if (!process.argv.includes("--keep")) fs.rmSync(dir, { recursive: true, force: true });
 else console.error(`Database kept at ${file}`);

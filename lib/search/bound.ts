@@ -67,6 +67,11 @@ const slOf = (u: number) => 1 + (0.015 * u * u) / Math.sqrt(20 + u * u);
  *    u = |L̄′ − 50| ≤ |L₁ − 50| + |ΔL|/2: |ΔL| ≤ W₀ = r(1 + 0.015|L₁ − 50|)/(1 − 0.0075·r) for r < 133
  *    (else unbounded), refined by W ← r·SL(|L₁ − 50| + W/2).
  *
+ * 7. Ellipsoid. Each refinement step's D satisfies D ≥ r·SC/√κ with the κ of that step, and W ≥ r·SL,
+ *    so ΔE00 ≤ r gives r² ≥ ΔE00² ≥ (ΔL/SL)² + κ·d′²/SC² ≥ r²·((ΔL/W)² + (d′/D)²); with
+ *    d′² ≥ (1 + Gmin)²Δa² + Δb², every colour within r also lies in the ellipsoid inscribed in the box:
+ *    (ΔL/W)² + (Δa/(D/(1 + Gmin)))² + (Δb/D)² ≤ 1, about half the box's volume.
+ *
  * The box is then widened by a relative and an absolute 1e-9 so floating-point rounding in the ΔE00
  * evaluation cannot push a colour at exactly distance r outside it. Away from blue hues the box is
  * about r·SC wide in a and b, close to the true extent; near h̄′ = 275° it is up to 1/√κ ≈ 2.7 times
@@ -124,4 +129,16 @@ export function boxContains(box: LabBox, l: number, a: number, b: number): boole
 /** True when the box has no finite side: a fetch with it sees every colour. */
 export function boxIsUnbounded(box: LabBox): boolean {
   return [box.lMin, box.aMin, box.bMin].every((v) => v === -Infinity) && [box.lMax, box.aMax, box.bMax].every((v) => v === Infinity);
+}
+
+/**
+ * (ΔL/wL)² + (Δa/wA)² + (Δb/wB)² for the half-widths of a box centred on the target: ≤ 1 inside
+ * the box's inscribed ellipsoid, which also holds every colour within the box's ΔE00 radius
+ * (step 7 of {@link labBoxForDeltaE00}). Infinite half-widths contribute 0.
+ */
+export function ellipsoidMetric(dl: number, da: number, db: number, wl: number, wa: number, wb: number): number {
+  const x = dl / wl;
+  const y = da / wa;
+  const z = db / wb;
+  return x * x + y * y + z * z;
 }

@@ -1,5 +1,5 @@
 import type { Lab } from "@/lib/color/types";
-import { boxIsUnbounded, labBoxForDeltaE00, type LabBox } from "./bound";
+import { boxIsUnbounded, ellipsoidMetric, labBoxForDeltaE00, type LabBox } from "./bound";
 import { ciede2000 } from "./ciede2000";
 
 export type Candidate<T> = { dyeId: string; lab: Lab; payload: T };
@@ -44,16 +44,22 @@ export type ColourColumns = {
  */
 export type BoxFetch = (box: LabBox) => ColourColumns;
 
-/** Number of values ≤ x in an ascending array. */
-function upperBound(sorted: Float64Array, x: number): number {
-  let lo = 0;
-  let hi = sorted.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (sorted[mid] <= x) lo = mid + 1;
-    else hi = mid;
+/** The `k` smallest of `values[i]` over the indices `of`, ascending (fewer when `of` is shorter). */
+export function smallest(of: readonly number[], values: Float64Array, k: number): Float64Array {
+  const top = new Float64Array(Math.max(0, k));
+  let n = 0;
+  for (const i of of) {
+    const v = values[i];
+    if (n === k && !(v < top[n - 1])) continue;
+    // Insertion into the sorted buffer, dropping its largest when full.
+    let j = n < k ? n++ : n - 1;
+    while (j > 0 && top[j - 1] > v) {
+      top[j] = top[j - 1];
+      j--;
+    }
+    top[j] = v;
   }
-  return lo;
+  return top.subarray(0, n);
 }
 
 export type IndexedHit = { dye: number; ref: number; lab: Lab; deltaE00: number };
@@ -62,7 +68,7 @@ export type IndexedRanking = {
   /** ΔE00 radius whose box was searched last. */
   radius: number;
   rounds: number;
-  /** Colours fetched and compared, all rounds together. */
+  /** Colours compared by exact CIEDE2000, all rounds together (each at most once). */
   scanned: number;
 };
 
@@ -70,12 +76,15 @@ export type IndexedRanking = {
  * Exact top-`limit` dyes by CIEDE2000, one hit per dye, using a box prefilter (an R*Tree in practice).
  *
  * Round by round: fetch the box {@link labBoxForDeltaE00}(target, r), which holds every colour within
- * ΔE00 ≤ r; compute ΔE00 exactly for each colour fetched and keep each dye's best. A dye whose best
- * is ≤ r is exact: any closer colour of that dye would also be within r, hence in the box. If at least
- * `limit` dyes are exact, they are the answer: every other dye's true best is > r. Otherwise grow r:
- * to the `limit`-th best ΔE00 seen so far when `limit` dyes were seen at all (their bests are upper
- * bounds of the true ones, so the true `limit`-th distance is no larger and the next round finishes),
- * else multiplied by `growth`. A box with no finite side sees everything, so the last round is always exact.
+ * ΔE00 ≤ r, and so does the ellipsoid inscribed in it. Compute ΔE00 exactly for each fetched colour
+ * inside this round's ellipsoid and not inside the last round's (those were computed then: by
+ * induction every colour in the current ellipsoid has been computed), and keep each dye's best over
+ * all rounds. A dye whose best is ≤ r is exact: any closer colour of that dye would also be within r,
+ * hence in the ellipsoid, hence computed. If at least `limit` dyes are exact, they are the answer:
+ * every other dye's true best is > r. Otherwise grow r: to the `limit`-th best ΔE00 seen so far when
+ * `limit` dyes were seen at all (their bests are upper bounds of the true ones, so the true `limit`-th
+ * distance is no larger and the next round finishes), else multiplied by `growth`. A box with no
+ * finite side sees everything, so the last round is always exact.
  * Ties are broken by the dye's `dyeKey` (its id), as in {@link rankByColourExhaustive}.
  */
 export function rankByColourIndexed(
@@ -88,35 +97,63 @@ export function rankByColourIndexed(
   let r = startRadius > 0 && Number.isFinite(startRadius) ? startRadius : 0.5;
   let rounds = 0;
   let scanned = 0;
+  // Each dye's best colour over every round so far (the union of the boxes fetched, which holds the
+  // current box), indexed by the dye number (dense in practice).
   let bestD = new Float64Array(0);
-  let bestI = new Int32Array(0);
+  let bestRef = new Int32Array(0);
+  let bestLab = new Float64Array(0);
+  const touched: number[] = [];
+  // Half-widths of the last round's ellipsoid (unused in the first round).
+  let pl = 0;
+  let pa = 0;
+  let pb = 0;
   for (;;) {
     rounds++;
     const box = labBoxForDeltaE00(target, r);
     const all = boxIsUnbounded(box);
     const cols = fetch(box);
-    scanned += cols.count;
-    // Best colour per dye, in typed arrays indexed by the dye number (dense in practice).
+    const wl = (box.lMax - box.lMin) / 2;
+    const wa = (box.aMax - box.aMin) / 2;
+    const wb = (box.bMax - box.bMin) / 2;
     let maxDye = -1;
     for (let i = 0; i < cols.count; i++) if (cols.dye[i] > maxDye) maxDye = cols.dye[i];
     if (bestD.length <= maxDye) {
-      bestD = new Float64Array(maxDye + 1);
-      bestI = new Int32Array(maxDye + 1);
+      const n = Math.max(maxDye + 1, 2 * bestD.length);
+      const d = new Float64Array(n).fill(Infinity);
+      d.set(bestD);
+      const ref = new Int32Array(n);
+      ref.set(bestRef);
+      const lab = new Float64Array(3 * n);
+      lab.set(bestLab);
+      bestD = d;
+      bestRef = ref;
+      bestLab = lab;
     }
-    bestD.fill(Infinity, 0, maxDye + 1);
-    const touched: number[] = [];
+    const first = rounds === 1;
     for (let i = 0; i < cols.count; i++) {
+      const dl = cols.l[i] - L;
+      const da = cols.a[i] - A;
+      const db = cols.b[i] - B;
+      if (ellipsoidMetric(dl, da, db, wl, wa, wb) > 1) continue; // farther than r: not needed yet
+      if (!first && ellipsoidMetric(dl, da, db, pl, pa, pb) <= 1) continue; // computed last round
+      scanned++;
       const d = ciede2000(L, A, B, cols.l[i], cols.a[i], cols.b[i]);
       const dye = cols.dye[i];
       const prev = bestD[dye];
       if (prev === Infinity) touched.push(dye);
       if (d < prev) {
         bestD[dye] = d;
-        bestI[dye] = i;
+        bestRef[dye] = cols.ref[i];
+        bestLab[3 * dye] = cols.l[i];
+        bestLab[3 * dye + 1] = cols.a[i];
+        bestLab[3 * dye + 2] = cols.b[i];
       }
     }
-    const dists = Float64Array.from(touched, (dye) => bestD[dye]).sort();
-    const exactCount = all ? dists.length : upperBound(dists, r);
+    // The `limit` smallest bests (ascending) and how many bests are ≤ r; no full sort per round.
+    const dists = smallest(touched, bestD, limit);
+    let exactCount = 0;
+    if (all) exactCount = touched.length;
+    else for (const dye of touched) if (bestD[dye] <= r) exactCount++;
     if (all || exactCount >= limit) {
       // Everything up to the limit-th distance, ties included, then the exact order (ΔE00, dye id).
       const cut = Math.min(limit, exactCount);
@@ -126,12 +163,14 @@ export function rankByColourIndexed(
         .map((dye) => ({ dye, deltaE00: bestD[dye], dyeId: dyeKey(dye) }))
         .sort(compareRanked)
         .slice(0, cut);
-      const hits = chosen.map(({ dye, deltaE00 }): IndexedHit => {
-        const i = bestI[dye];
-        return { dye, ref: cols.ref[i], lab: [cols.l[i], cols.a[i], cols.b[i]], deltaE00 };
-      });
+      const hits = chosen.map(
+        ({ dye, deltaE00 }): IndexedHit => ({ dye, ref: bestRef[dye], lab: [bestLab[3 * dye], bestLab[3 * dye + 1], bestLab[3 * dye + 2]], deltaE00 }),
+      );
       return { hits, radius: r, rounds, scanned };
     }
+    pl = wl;
+    pa = wa;
+    pb = wb;
     // The limit-th best seen bounds the true limit-th distance from above, so that radius finishes.
     r = dists.length >= limit ? Math.max(dists[limit - 1], r * 1.01) : r * growth;
   }

@@ -7,6 +7,8 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { GET as search } from "@/app/api/search/route";
 import { db } from "@/db/client";
+import { databaseFile, openDatabase } from "@/db/connection";
+import { searchByColour } from "@/db/queries/search";
 import { acceptedMeasurements } from "@/db/queries/bench";
 import { measurements, solvents } from "@/db/schema";
 import { seedDemo } from "@/db/seed/demo";
@@ -120,6 +122,38 @@ describe("GET /api/search", () => {
     db().update(measurements).set({ reviewState: "rejected" }).where(eq(measurements.id, "ms_it_new")).run();
     const { body: gone } = await call("lab=12,70,-90&limit=1");
     expect(gone.results[0].deltaE00).toBeCloseTo(before.results[0].deltaE00, 9);
+  });
+
+  it("inside a transaction sees its own uncommitted colour, and forgets it after a rollback", async () => {
+    const target: Lab = [88, -75, 70];
+    const before = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 1 });
+    const template = acceptedMeasurements(db())[0];
+    expect(() =>
+      db().transaction((tx) => {
+        tx.insert(measurements).values({ ...template.m, id: "ms_it_tx", l: target[0], a: target[1], b: target[2], reviewState: "accepted" }).run();
+        // Same connection, so the search runs inside the open transaction.
+        const inside = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 1 });
+        expect(inside.results[0].measurementId).toBe("ms_it_tx");
+        throw new Error("roll back");
+      }),
+    ).toThrow("roll back");
+    const after = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 1 });
+    expect(after.results).toEqual(before.results);
+  });
+
+  it("drops a measurement deleted through another connection after the in-memory index was built", async () => {
+    const target: Lab = [5, 40, 60];
+    const template = acceptedMeasurements(db())[0];
+    db().insert(measurements).values({ ...template.m, id: "ms_it_other", l: target[0], a: target[1], b: target[2], reviewState: "accepted" }).run();
+    const seen = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 2 });
+    expect(seen.results[0].measurementId).toBe("ms_it_other");
+    const other = openDatabase(databaseFile(dataDir()));
+    other.$client.prepare("DELETE FROM measurements WHERE id = 'ms_it_other'").run();
+    other.$client.close();
+    const after = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 2 });
+    expect(after.results).toHaveLength(2);
+    expect(after.results.map((r) => r.measurementId)).not.toContain("ms_it_other");
+    expect(after.results[0]).toEqual(seen.results[1]);
   });
 
   it("follows a solvent moved to another medium class (the R*Tree's class dimension is re-keyed)", async () => {

@@ -5,7 +5,7 @@
 import { describe, expect, it } from "vitest";
 import { deltaE00 as culoriDeltaE00 } from "@/lib/color/difference";
 import type { Lab } from "@/lib/color/types";
-import { boxContains, labBoxForDeltaE00, type LabBox } from "@/lib/search/bound";
+import { boxContains, ellipsoidMetric, labBoxForDeltaE00, type LabBox } from "@/lib/search/bound";
 import { ciede2000 } from "@/lib/search/ciede2000";
 import { rankByColourExhaustive, rankByColourIndexed, type ColourColumns } from "@/lib/search/rank";
 import { readFixtureCsv } from "../support/fixtures";
@@ -110,6 +110,35 @@ describe("labBoxForDeltaE00: every colour within ΔE00 ≤ r lies in the box", (
       if (!boxContains(labBoxForDeltaE00(t, r), ...p)) failures++;
     }
     expect(failures).toBe(0);
+  });
+
+  it("so does the ellipsoid inscribed in the box (step 7), for 200 000 random pairs at r = their own ΔE00 and on the published pairs", () => {
+    const random = rng(23);
+    const inside = (t: Lab, r: number, x: Lab) => {
+      const box = labBoxForDeltaE00(t, r);
+      const half = (lo: number, hi: number) => (hi - lo) / 2;
+      return ellipsoidMetric(x[0] - t[0], x[1] - t[1], x[2] - t[2], half(box.lMin, box.lMax), half(box.aMin, box.aMax), half(box.bMin, box.bMax)) <= 1;
+    };
+    let failures = 0;
+    let cornersCut = 0;
+    for (let i = 0; i < 200_000; i++) {
+      const t = stressColour(random, i);
+      const near: Lab = random() < 0.5 ? [t[0] + (random() - 0.5) * 20, t[1] + (random() - 0.5) * 40, t[2] + (random() - 0.5) * 40] : stressColour(random, i + 1);
+      const d = ciede2000(...t, ...near);
+      if (!inside(t, d, near)) failures++;
+      // Not vacuous: a box corner at a finite radius lies outside.
+      const box = labBoxForDeltaE00(t, 2);
+      if (!inside(t, 2, [box.lMax, box.aMax, box.bMax])) cornersCut++;
+    }
+    expect(failures).toBe(0);
+    expect(cornersCut).toBe(200_000);
+    // Sharma, Wu & Dalal 2005, Table 1 (tests/fixtures/ciede2000_sharma2005_table1.csv).
+    for (const r of readFixtureCsv("ciede2000_sharma2005_table1.csv")) {
+      const x: Lab = [Number(r.L1), Number(r.a1), Number(r.b1)];
+      const y: Lab = [Number(r.L2), Number(r.a2), Number(r.b2)];
+      const d = ciede2000(...x, ...y);
+      expect(inside(x, d, y) && inside(y, d, x)).toBe(true);
+    }
   });
 
   it("holds on the published pairs (Sharma 2005 Table 1) with r = their ΔE00", () => {
