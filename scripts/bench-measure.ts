@@ -7,23 +7,15 @@ import sharp from "sharp";
 import { fitWhiteScaling } from "../lib/color/correction";
 import { colourOfRegion } from "../lib/color/measure";
 import { decodePhoto, measureRegion, measureRegions, type RegionSpec } from "../lib/color/regions";
+import { mulberry32 } from "../lib/random";
 
 const WIDTH = 4000;
 const HEIGHT = 3000;
 const runsArg = process.argv.indexOf("--runs");
 const RUNS = runsArg > 0 ? Math.max(3, Number(process.argv[runsArg + 1]) || 15) : 15;
 
-/** Deterministic pseudo-random numbers (mulberry32) so every run measures the same picture. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// Deterministic pseudo-random numbers, so every run measures the same picture.
+const random = mulberry32;
 
 const VIAL_COLOURS = [
   [210, 40, 60],

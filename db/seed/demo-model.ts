@@ -15,6 +15,7 @@ import { absorbanceToXyz, type SampledSpectrum } from "../../lib/color/spectrum"
 import { WHITE_POINTS_2DEG } from "../../lib/color/illuminants";
 import { xyzToLab } from "../../lib/color/lab";
 import type { Lab, Xyz } from "../../lib/color/types";
+import { mulberry32 as rng } from "../../lib/random";
 
 export type Band = { nu0: number; s: number; a: number; b: number; sigma: number; peak: number };
 
@@ -35,22 +36,7 @@ export type DemoDye = {
 
 export type SolventParams = { alpha: number; beta: number; piStar: number };
 
-/** Deterministic pseudo-random numbers (mulberry32) so the demo is the same on every machine. */
-export function rng(seed: number): () => number {
-  let t = seed >>> 0;
-  return () => {
-    t = (t + 0x6d2b79f5) >>> 0;
-    let r = Math.imul(t ^ (t >>> 15), 1 | t);
-    r = (r + Math.imul(r ^ (r >>> 7), 61 | r)) ^ r;
-    return ((r ^ (r >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-export function gaussian(random: () => number): number {
-  const u = Math.max(random(), 1e-12);
-  const v = random();
-  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
-}
+export { gaussian, mulberry32 as rng } from "../../lib/random";
 
 const HAZ_GENERIC = "Handle as a possible skin sensitizer: gloves, avoid dust; see the supplier's SDS.";
 

@@ -9,21 +9,15 @@ import { parseExif } from "@/lib/color/exif";
 import { mat3Inverse, mat3Mul, type Mat3 } from "@/lib/color/matrix";
 import { mat3MulVec, srgbEncode } from "@/lib/color/srgb";
 import type { Lab, LinearRgb } from "@/lib/color/types";
+import { gaussian, mulberry32 } from "@/lib/random";
 
 /** The acceptance bound for synthetic photos (a design target, no published source). */
 const MAX_DE00 = 0.5;
 
 /** Deterministic Gaussian noise (mulberry32 + Box–Muller) so a failing test fails every time. */
-function gaussian(seed: number): () => number {
-  let a = seed >>> 0;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return (((t ^ (t >>> 14)) >>> 0) + 0.5) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(uniform())) * Math.cos(2 * Math.PI * uniform());
+function gaussianNoise(seed: number): () => number {
+  const uniform = mulberry32(seed);
+  return () => gaussian(uniform);
 }
 
 type Scene = { width: number; height: number; depth: 8 | 16; paint: (x: number, y: number) => LinearRgb; noise: number };
@@ -32,7 +26,7 @@ type Scene = { width: number; height: number; depth: 8 | 16; paint: (x: number, 
 function render({ width, height, depth, paint, noise }: Scene): Uint8Array | Uint16Array {
   const max = depth === 16 ? 65535 : 255;
   const out = depth === 16 ? new Uint16Array(width * height * 3) : new Uint8Array(width * height * 3);
-  const rnd = gaussian(width * 7 + height);
+  const rnd = gaussianNoise(width * 7 + height);
   for (let y = 0; y < height; y++) {
     for (let x = 0; x < width; x++) {
       const rgb = paint(x, y);

@@ -8,17 +8,7 @@ import type { Lab } from "@/lib/color/types";
 import { boxContains, type LabBox } from "@/lib/search/bound";
 import { buildLabGrid, queryLabGrid } from "@/lib/search/grid";
 import { rankByColourExhaustive, rankByColourIndexed, smallest, type ColourColumns } from "@/lib/search/rank";
-
-/** Deterministic PRNG (mulberry32) so a failure can be replayed. */
-function rng(seed: number) {
-  let t = seed >>> 0;
-  return () => {
-    t = (t + 0x6d2b79f5) >>> 0;
-    let r = Math.imul(t ^ (t >>> 15), 1 | t);
-    r = (r + Math.imul(r ^ (r >>> 7), 61 | r)) ^ r;
-    return ((r ^ (r >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 as rng } from "@/lib/random";
 
 /** Colours in and beyond the gridded range (L outside 0–100, |a|, |b| up to 200), some on cell edges. */
 function colours(random: () => number, n: number, conditions: number) {

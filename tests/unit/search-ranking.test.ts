@@ -9,24 +9,10 @@ import { boxContains, ellipsoidMetric, labBoxForDeltaE00, type LabBox } from "@/
 import { ciede2000 } from "@/lib/search/ciede2000";
 import { rankByColourExhaustive, rankByColourIndexed, type ColourColumns } from "@/lib/search/rank";
 import { readFixtureCsv } from "../support/fixtures";
+import { gaussian, mulberry32 as rng } from "@/lib/random";
 
 /** Sharma et al. print ΔE00 to 4 decimals. */
 const TABLE_TOLERANCE = 5e-5;
-
-/** Deterministic PRNG (mulberry32) so a failure can be replayed. */
-function rng(seed: number) {
-  let t = seed >>> 0;
-  return () => {
-    t = (t + 0x6d2b79f5) >>> 0;
-    let r = Math.imul(t ^ (t >>> 15), 1 | t);
-    r = (r + Math.imul(r ^ (r >>> 7), 61 | r)) ^ r;
-    return ((r ^ (r >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function gaussian(random: () => number): number {
-  return Math.sqrt(-2 * Math.log(Math.max(random(), 1e-12))) * Math.cos(2 * Math.PI * random());
-}
 
 describe("ciede2000 (inlined)", () => {
   // Sharma, Wu & Dalal, Color Res. Appl. 30 (2005) 21–30, Table 1 (tests/fixtures/ciede2000_sharma2005_table1.csv).
