@@ -188,6 +188,13 @@ export const conditions = sqliteTable(
     concentrationUmolL: real("concentration_umol_l"),
     pathLengthMm: real("path_length_mm"),
     temperatureC: real("temperature_c"),
+    /** Binary blends: the second solvent and its mole fraction x₂ (0 < x₂ < 1); null for a neat solvent. */
+    secondSolventId: text("second_solvent_id").references(() => solvents.id),
+    secondSolventMoleFraction: real("second_solvent_mole_fraction"),
+    /** Amount of the acid or base named in `additive`, mol/L in the vial. */
+    additiveConcentrationMolL: real("additive_concentration_mol_l"),
+    /** Ionic strength of the medium, mol/L (pKa values are apparent: medium and ionic strength go with them). */
+    ionicStrengthMolL: real("ionic_strength_mol_l"),
     createdAt: createdAt(),
   },
   (t) => [index("conditions_solvent_idx").on(t.solventId)],
@@ -312,6 +319,15 @@ export const measurements = sqliteTable(
     rejectedCount: integer("rejected_count").notNull(),
     /** Spread of the region (ΔE00-like uniformity figure); lower is more uniform. */
     spread: real("spread").notNull(),
+    /**
+     * Standard uncertainties of L*, a*, b* (JCGM 100 practice: pixel noise with an effective pixel count,
+     * reference patch noise, the profile's leave-one-out residual), and the combined figure shown as
+     * "± ΔE00". Null for rows made before uncertainties existed.
+     */
+    uL: real("u_l"),
+    uA: real("u_a"),
+    uB: real("u_b"),
+    uDeltaE00: real("u_delta_e00"),
     flags: text("flags", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),
     flagReason: text("flag_reason"),
     reviewState: text("review_state", { enum: REVIEW_STATES }).notNull().default("pending"),
