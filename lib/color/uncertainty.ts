@@ -41,11 +41,19 @@ export function effectivePixelCount(pixels: number, encoding: PhotoEncoding = "j
 }
 
 /** A measured region as the uncertainty needs it: mean, per-channel pixel SD (same scale), pixel count. */
-export type RegionSample = { camera: LinearRgb; sd: LinearRgb; pixels: number; encoding?: PhotoEncoding };
+export type RegionSample = {
+  camera: LinearRgb;
+  sd: LinearRgb;
+  /** Pixels the mean was taken over (accepted pixels). */
+  pixels: number;
+  encoding?: PhotoEncoding;
+  /** Overrides the encoding's pixels per independent sample (e.g. 1 for independent pixel noise). */
+  pixelsPerSample?: number;
+};
 
 /** Standard uncertainty of the region mean per channel (GUM §4.2.3): sd / √N_eff. */
 export function meanStandardUncertainty(region: RegionSample): Vec3 {
-  const n = effectivePixelCount(region.pixels, region.encoding ?? "jpeg");
+  const n = region.pixelsPerSample ? Math.max(1, region.pixels / region.pixelsPerSample) : effectivePixelCount(region.pixels, region.encoding ?? "jpeg");
   return region.sd.map((s) => Math.max(0, s) / Math.sqrt(n)) as Vec3;
 }
 
