@@ -2,7 +2,7 @@
  * One region's colour through a calibration (or none) and the day's white reference (or none), with
  * its uncertainty: the step the CLI's `measure` and the bench share. Pure.
  */
-import { applyCalibration, whiteAdaptation, type Calibration } from "./calibration";
+import { applyCalibration, checkWhiteReference, whiteAdaptation, type Calibration } from "./calibration";
 import { applyCorrection, fitWhiteScaling } from "./correction";
 import { linearSrgbInGamut, linearSrgbToHex, linearSrgbToLab, xyzToLinearSrgb, type LabWhite } from "./convert";
 import { labToLch } from "./lab";
@@ -51,6 +51,7 @@ export function measureCalibratedColour(
     toXyzD65 = (camera) => applyCalibration(calibration, camera, fixed).xyzD65;
   } else if (reference) {
     const correctionFor = (refCam: LinearRgb) => fitWhiteScaling({ measured: refCam, referenceLab: reference.lab }, white).correction;
+    checkWhiteReference(reference.lab, reference.stats.linearRgb);
     const fixed = correctionFor(reference.stats.linearRgb);
     toLab = (camera, refCam) => linearSrgbToLab(applyCorrection(refCam ? correctionFor(refCam) : fixed, camera), white);
     toXyzD65 = (camera) => linearSrgbToXyzD65(applyCorrection(fixed, camera));

@@ -19,6 +19,7 @@ import {
   type CalibrationMethodChoice,
   type CalibrationPatch,
 } from "@/lib/color/calibration";
+import { measureCalibratedColour } from "@/lib/color/calibrated-measure";
 import { deltaE00 } from "@/lib/color/difference";
 import { measureRegion, type DecodedPhoto, type RegionStats } from "@/lib/color/regions";
 import { renderSwatches, SYNTHETIC_CAMERAS, type SyntheticCamera } from "@/lib/color/synthetic-camera";
@@ -225,4 +226,28 @@ describe("serialisation", () => {
     expect(() => parseCalibration("matrix")).toThrow(CalibrationError);
   });
 
+});
+
+describe("one region through calibration and white reference (measureCalibratedColour)", () => {
+  const shot = shots.get("warmPhone") as Shot;
+  const cal = fitCalibration(patchesOf(shot, "D65"));
+  const white = CARD.findIndex((p) => p.name === "grey 1");
+  const reference = { stats: shot.card[white], lab: spectrumLab(CARD[white].reflectance, "D65") as Lab };
+
+  it("flags a colour with no calibration as uncorrected, one scaled by a white card only as such, and neither when calibrated", () => {
+    const vial = shot.vials[2];
+    expect(measureCalibratedColour(vial, { calibration: null, white: "D65", encoding: "png" }).flags).toContain("uncorrected");
+    expect(measureCalibratedColour(vial, { calibration: null, white: "D65", reference, encoding: "png" }).flags).toContain("white-reference-only");
+    const calibrated = measureCalibratedColour(vial, { calibration: cal, white: "D65", reference, encoding: "png" });
+    expect(calibrated.flags).not.toContain("uncorrected");
+    expect(calibrated.flags).not.toContain("white-reference-only");
+    expect(deltaE00(calibrated.lab, spectrumLab(VIALS[2].transmittance, "D65") as Lab)).toBeLessThan(1);
+    expect(calibrated.uncertainty.calibrationIncluded).toBe(true);
+  });
+
+  it("refuses a coloured patch given as the white reference, with or without a calibration", () => {
+    const red = { stats: shot.card[0], lab: spectrumLab(CARD[0].reflectance, "D65") as Lab };
+    expect(() => measureCalibratedColour(shot.vials[0], { calibration: cal, white: "D65", reference: red, encoding: "png" })).toThrow(/not neutral/);
+    expect(() => measureCalibratedColour(shot.vials[0], { calibration: null, white: "D65", reference: red, encoding: "png" })).toThrow(/not neutral/);
+  });
 });
