@@ -26,8 +26,8 @@ export type MeasuredColour = {
 
 export type DayReference = { stats: RegionStats; lab: Lab };
 
-function sample(stats: RegionStats, encoding: PhotoEncoding): RegionSample {
-  return { camera: stats.linearRgb, sd: stats.sd ?? [0, 0, 0], pixels: Math.max(1, stats.pixels - stats.rejected), encoding };
+function sample(stats: RegionStats, encoding: PhotoEncoding, pixelsPerSample?: number): RegionSample {
+  return { camera: stats.linearRgb, sd: stats.sd ?? [0, 0, 0], pixels: Math.max(1, stats.pixels - stats.rejected), encoding, pixelsPerSample };
 }
 
 /**
@@ -38,7 +38,14 @@ function sample(stats: RegionStats, encoding: PhotoEncoding): RegionSample {
  */
 export function measureCalibratedColour(
   stats: RegionStats,
-  opts: { calibration: Calibration | null; white: LabWhite; reference?: DayReference; encoding: PhotoEncoding },
+  opts: {
+    calibration: Calibration | null;
+    white: LabWhite;
+    reference?: DayReference;
+    encoding: PhotoEncoding;
+    /** Pixels per independent sample of the region and the reference (`pixelsPerSampleFromAutocorrelation`); default: by encoding. */
+    pixelsPerSample?: { region?: number; reference?: number };
+  },
 ): MeasuredColour {
   const { calibration, white, reference } = opts;
   const flags: string[] = [...stats.flags];
@@ -63,8 +70,8 @@ export function measureCalibratedColour(
   }
   const uncertainty = colourUncertainty({
     toLab,
-    region: sample(stats, opts.encoding),
-    reference: reference ? sample(reference.stats, opts.encoding) : undefined,
+    region: sample(stats, opts.encoding, opts.pixelsPerSample?.region),
+    reference: reference ? sample(reference.stats, opts.encoding, opts.pixelsPerSample?.reference) : undefined,
     calibrationLabRms: calibration ? calibration.looLabRmsD65 : null,
   });
   const xyzD65 = toXyzD65(stats.linearRgb);

@@ -12,7 +12,7 @@ import { applyCalibration, fitCalibration, whiteAdaptation } from "@/lib/color/c
 import { decodePhoto, measureRegion, type DecodedPhoto, type RegionStats } from "@/lib/color/regions";
 import { renderSwatches, SYNTHETIC_CAMERAS } from "@/lib/color/synthetic-camera";
 import type { Lab, Vec3 } from "@/lib/color/types";
-import { colourUncertainty, effectivePixelCount, isTie, monteCarloDeltaE00, rmsDeltaE00, type Cov3 } from "@/lib/color/uncertainty";
+import { colourUncertainty, effectivePixelCount, isTie, monteCarloDeltaE00, pixelsPerSampleFromAutocorrelation, rmsDeltaE00, type Cov3 } from "@/lib/color/uncertainty";
 import { CARD, sceneXyzD65, spectrumLab, VIALS } from "../support/spectral-card";
 
 const camera = SYNTHETIC_CAMERAS.coolPhone;
@@ -64,9 +64,10 @@ describe("pixel noise propagated through the calibration", () => {
     }
   });
 
-  it("is conservative for JPEG (8×8 blocks as one sample) but not absurdly so", async () => {
+  it("is conservative for JPEG (8×8 blocks as one sample) but not absurdly so; the photo's autocorrelation comes closer", async () => {
     const labs: Lab[] = [];
     let predicted = 0;
+    let fromAutocorrelation = 0;
     for (let i = 0; i < 24; i++) {
       const { raw } = shot(300 + i, 48);
       const jpeg = await sharp(Buffer.from(raw.data), { raw: { width: raw.width, height: raw.height, channels: 3 } }).jpeg({ quality: 85 }).toBuffer();
@@ -77,12 +78,26 @@ describe("pixel noise propagated through the calibration", () => {
       if (i === 0) {
         const u = colourUncertainty({ toLab: (c) => toLab(c), region: { camera: vial.linearRgb, sd: vial.sd as Vec3, pixels: vial.pixels - vial.rejected, encoding: "jpeg" }, calibrationLabRms: null });
         predicted = Math.hypot(...u.components.pixels);
+        const perSample = pixelsPerSampleFromAutocorrelation(photo, { x: x + 2, y: y + 2, w: 48, h: 48 });
+        const ua = colourUncertainty({ toLab: (c) => toLab(c), region: { camera: vial.linearRgb, sd: vial.sd as Vec3, pixels: vial.pixels - vial.rejected, pixelsPerSample: perSample }, calibrationLabRms: null });
+        fromAutocorrelation = Math.hypot(...ua.components.pixels);
+        console.log(`pixels per sample from autocorrelation: ${perSample.toFixed(1)}`);
       }
     }
     const observed = Math.hypot(...[0, 1, 2].map((k) => sd(labs.map((l) => l[k]))));
-    console.log(`JPEG q85, 48×48 px: predicted pixel term ${predicted.toFixed(3)} vs observed ${observed.toFixed(3)} (ΔE*ab-scale RSS of L*, a*, b*)`);
+    console.log(`JPEG q85, 48×48 px: predicted pixel term ${predicted.toFixed(3)} (8×8 blocks), ${fromAutocorrelation.toFixed(3)} (autocorrelation) vs observed ${observed.toFixed(3)} (RSS of u(L*), u(a*), u(b*))`);
     expect(predicted).toBeGreaterThan(observed);
     expect(predicted).toBeLessThan(10 * observed);
+    // The photo's own autocorrelation comes closer, still on the safe side of a factor 0.8.
+    expect(fromAutocorrelation).toBeGreaterThan(0.8 * observed);
+    expect(fromAutocorrelation).toBeLessThan(2 * observed);
+  });
+
+  it("finds about one pixel per sample when the pixel noise is independent (PNG, no demosaicing)", () => {
+    const { raw } = shot(17, 60);
+    const photo = { width: raw.width, height: raw.height, bitDepth: 8 as const, data: raw.data };
+    const [x, y] = raw.boxes[0];
+    expect(pixelsPerSampleFromAutocorrelation(photo, { x: x + 2, y: y + 2, w: 60, h: 60 })).toBeLessThan(1.3);
   });
 
   it("adds the calibration's leave-one-out RMS and never ends below it", () => {
