@@ -340,7 +340,7 @@ function fitMethod(method: CalibrationMethod, patches: readonly CalibrationPatch
   const full = fitFull(method, patches, white, linearise, null);
   const warnings: string[] = [];
   const neutralCount = patches.filter((p) => isNeutral(p.referenceLab)).length;
-  if (!full.toneCurve && linearise && method !== "white") {
+  if (!full.toneCurve && linearise) {
     warnings.push(
       `The card has ${neutralCount} grey patch${neutralCount === 1 ? "" : "es"} and the tone curve needs ${TONE_CURVE_MIN_GREYS}: the camera's values were used as if they were sRGB, which a phone's JPEG is not; add greys for accurate colours.`,
     );
