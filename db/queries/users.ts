@@ -58,18 +58,30 @@ export function recordSignInAttempt(db: Db, a: { email: string; ip: string; succ
   db.insert(signInAttempts).values({ ...a, email: normalizeEmail(a.email), at: new Date() }).run();
 }
 
-export function countRecentFailures(db: Db, { email, ip, since }: { email: string; ip: string; since: Date }) {
-  const byEmail = db
-    .select({ n: sql<number>`count(*)` })
+/**
+ * Recent failed sign-ins for an account (only those after its last successful sign-in) and for a
+ * client address, each with the time of the latest one.
+ */
+export function recentFailures(db: Db, { email, ip, since }: { email: string; ip: string; since: Date }) {
+  const address = normalizeEmail(email);
+  const lastSuccess = db
+    .select({ at: sql<number | null>`max(${signInAttempts.at})` })
     .from(signInAttempts)
-    .where(and(eq(signInAttempts.email, normalizeEmail(email)), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, since)))
-    .get();
-  const byIp = db
-    .select({ n: sql<number>`count(*)` })
-    .from(signInAttempts)
-    .where(and(eq(signInAttempts.ip, ip), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, since)))
-    .get();
-  return { email: byEmail?.n ?? 0, ip: byIp?.n ?? 0 };
+    .where(and(eq(signInAttempts.email, address), eq(signInAttempts.succeeded, true), gt(signInAttempts.at, since)))
+    .get()?.at;
+  const accountSince = lastSuccess && lastSuccess > since.getTime() ? new Date(lastSuccess) : since;
+  const summary = (where: ReturnType<typeof and>) => {
+    const row = db
+      .select({ n: sql<number>`count(*)`, last: sql<number | null>`max(${signInAttempts.at})` })
+      .from(signInAttempts)
+      .where(where)
+      .get();
+    return { count: row?.n ?? 0, lastAt: row?.last ? new Date(row.last) : null };
+  };
+  return {
+    account: summary(and(eq(signInAttempts.email, address), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, accountSince))),
+    address: summary(and(eq(signInAttempts.ip, ip), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, since))),
+  };
 }
 
 // ---------------------------------------------------------------- invitations and resets
