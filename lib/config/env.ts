@@ -31,7 +31,7 @@ const schema = z.object({
       if ("error" in parsed) ctx.addIssue({ code: "custom", message: `TRUSTED_PROXIES: ${parsed.error}; give addresses or ranges such as 127.0.0.1, 10.0.0.0/8` });
     }),
   /** Largest request body in megabytes for anything but a photo upload (JSON, forms, server actions). */
-  MAX_BODY_MB: z.coerce.number().positive().max(100).default(1),
+  MAX_BODY_MB: z.coerce.number().positive().max(100).default(2),
   MAX_UPLOAD_MB: z.coerce.number().positive().max(500).default(40),
   /** Largest photo accepted in megapixels (after decoding); refuses decompression bombs. */
   MAX_PHOTO_MEGAPIXELS: z.coerce.number().positive().max(1000).default(100),
@@ -84,4 +84,9 @@ export function trustedProxies(): BlockList {
   const parsed = parseTrustedProxies(env().TRUSTED_PROXIES);
   proxies = "list" in parsed ? parsed.list : new BlockList();
   return proxies;
+}
+
+/** MAX_BODY_MB in bytes: the most any request body may carry except a photo upload. */
+export function bodyLimitBytes(): number {
+  return Math.round(env().MAX_BODY_MB * 1048576);
 }

@@ -6,6 +6,7 @@
  */
 import { afterEach, beforeAll, describe, expect, it, vi } from "vitest";
 import { signInAction } from "@/app/actions/auth";
+import type { ActionState } from "@/lib/auth/guard";
 import { requestContext } from "../support/request-context";
 import { buildWorld, form, PASSWORD, PEOPLE } from "../support/world";
 
@@ -27,12 +28,12 @@ function from(peer: string, headers: Record<string, string> = {}) {
   requestContext.reset({}, { host: "localhost:3000", origin: "http://localhost:3000", "x-solvatlas-peer": peer, ...headers });
 }
 
-async function attempt(email: string, password: string) {
+async function attempt(email: string, password: string): Promise<ActionState> {
   try {
     return await signInAction(null, form({ email, password, next: "/" }));
   } catch (error) {
     // A successful sign-in redirects.
-    if ((error as { digest?: string }).digest?.startsWith("NEXT_REDIRECT")) return { ok: true } as const;
+    if ((error as { digest?: string }).digest?.startsWith("NEXT_REDIRECT")) return { ok: true };
     throw error;
   }
 }
