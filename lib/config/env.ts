@@ -32,6 +32,8 @@ const schema = z.object({
     }),
   /** Largest request body in megabytes for anything but a photo upload (JSON, forms, server actions). */
   MAX_BODY_MB: z.coerce.number().positive().max(100).default(2),
+  /** Memory for decoded photos kept while people mark them (least recently used dropped first). */
+  DECODED_CACHE_MB: z.coerce.number().positive().max(16384).default(256),
   MAX_UPLOAD_MB: z.coerce.number().positive().max(500).default(40),
   /** Largest photo accepted in megapixels (after decoding); refuses decompression bombs. */
   MAX_PHOTO_MEGAPIXELS: z.coerce.number().positive().max(1000).default(100),
