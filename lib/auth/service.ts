@@ -13,6 +13,7 @@ import {
   findUserById,
   normalizeEmail,
   recentFailures,
+  revokeAllApiTokens,
   recordSignInAttempt,
   toPublicUser,
   type PublicUser,
@@ -225,12 +226,18 @@ export async function completePasswordReset(db: Db, { secret, password }: { secr
     if (claimed.changes !== 1) throw new AppError("invalid_input", "This reset link was already used.");
     tx.update(users).set({ passwordHash }).where(eq(users.id, reset.userId)).run();
     recordAudit(tx, { actorId: reset.userId, action: "user.password-reset", entity: "user", entityId: reset.userId });
+    // A reset is the way back in after losing control of the account: tokens made before it go too.
+    revokeAllApiTokens(tx, { actorId: reset.userId, userId: reset.userId, reason: "password reset" });
   });
   await invalidateAllSessions(db, reset.userId);
   return toPublicUser(findUserById(db, { id: reset.userId })!);
 }
 
-/** Changes a signed-in person's password after checking the current one; ends their other sessions. */
+/**
+ * Changes a signed-in person's password after checking the current one; ends their other sessions.
+ * API tokens are kept (the person proved the current password, and lab scripts keep running); they are
+ * listed on the account page to revoke one by one. A password reset, by contrast, revokes them all.
+ */
 export async function changePassword(
   db: Db,
   { userId, currentPassword, newPassword, keepSessionId }: { userId: string; currentPassword: string; newPassword: string; keepSessionId: string | null },
