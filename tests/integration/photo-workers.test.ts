@@ -57,7 +57,7 @@ afterAll(async () => {
 describe("photo measuring runs on worker threads", () => {
   it("a long measure request does not hold up another request", async () => {
     const [width, height] = [2400, 1260];
-    const noisy = await sharp({ create: { width, height, channels: 3, noise: { type: "gaussian", mean: 128, sigma: 20 } } }).jpeg({ quality: 90 }).toBuffer();
+    const noisy = await sharp({ create: { width, height, channels: 3, background: { r: 128, g: 128, b: 128 }, noise: { type: "gaussian", mean: 128, sigma: 20 } } }).jpeg({ quality: 90 }).toBuffer();
     const id = await upload(noisy);
     // Warm up: the worker threads start and the photo is decoded into the cache.
     expect((await measure(id, [{ key: "w", region: { shape: "rect", x: 0, y: 0, w: 10, h: 10 } }])).status).toBe(200);
