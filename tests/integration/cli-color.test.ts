@@ -66,6 +66,11 @@ beforeAll(async () => {
   fs.writeFileSync(file("notes.jpg"), "these are lab notes, not a photo\n");
   fs.mkdirSync(file("folder.png"));
   fs.writeFileSync(file("band.csv"), "wavelength_nm,absorbance\n400,0.05\n450,0.2\n500,0.7\n540,1.0\n580,0.6\n650,0.1\n750,0.02\n");
+  // A stronger near-UV band at 372 nm and the visible band at 520 nm (10 nm steps), and a UV tail alone.
+  const twoBands = Array.from({ length: 51 }, (_, i) => 300 + 10 * i).map((w) => `${w},${(1.8 * Math.exp(-(((w - 372) / 25) ** 2)) + Math.exp(-(((w - 520) / 45) ** 2))).toFixed(5)}`);
+  fs.writeFileSync(file("uv-and-visible.csv"), `wavelength_nm,absorbance\n${twoBands.join("\n")}\n`);
+  const tail = Array.from({ length: 49 }, (_, i) => 300 + 10 * i).map((w) => `${w},${(2.5 * Math.exp(-(w - 300) / 30)).toFixed(5)}`);
+  fs.writeFileSync(file("uv-tail.csv"), `wavelength_nm,absorbance\n${tail.join("\n")}\n`);
   fs.writeFileSync(file("comma.csv"), "wavelength_nm;absorbance\n400;0,05\n500;0,7\n");
   fs.writeFileSync(file("bad-number.csv"), "wavelength_nm,absorbance\n400,0.05\n500,n/a\n");
   fs.writeFileSync(file("empty.csv"), "");
@@ -160,6 +165,18 @@ describe("cli spectrum", () => {
     expect(out.lambdaMaxNm).toBeLessThan(550);
     expect(out.transitionEnergyKcalMol).toBeCloseTo(28591 / out.lambdaMaxNm, 9);
     expect(out.lab[1]).toBeGreaterThan(0);
+  });
+
+  it("λmax is the longest-wavelength visible band even when a UV band is stronger; a UV tail alone gives null", async () => {
+    const two = JSON.parse((await cli(["spectrum", file("uv-and-visible.csv")])).stdout);
+    expect(Math.abs(two.lambdaMaxNm - 520)).toBeLessThan(3);
+    expect(two.transitionEnergyKcalMol).toBeCloseTo(28591 / two.lambdaMaxNm, 9);
+    const run = await cli(["spectrum", file("uv-tail.csv")]);
+    expect(run.code).toBe(0);
+    const tail = JSON.parse(run.stdout);
+    expect(tail.lambdaMaxNm).toBeNull();
+    expect(tail.transitionEnergyKcalMol).toBeNull();
+    expect(tail.lab[2]).toBeGreaterThan(0);
   });
 
   it("applies --scale (Beer–Lambert) and --illuminant", async () => {
