@@ -126,7 +126,7 @@ const MIN_PROMINENCE_FRACTION = 0.02;
 const NOISE_FACTOR = 5;
 
 /** Noise of a sampled spectrum from its second differences: σ ≈ 1.4826 · median|Δ²A| / √6 (MAD of white noise). */
-function noiseEstimate(a: readonly number[]): number {
+export function noiseEstimate(a: readonly number[]): number {
   const d: number[] = [];
   for (let i = 1; i < a.length - 1; i++) d.push(Math.abs(a[i + 1] - 2 * a[i] + a[i - 1]));
   // Too few samples to tell noise from the band's own curvature.

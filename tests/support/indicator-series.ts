@@ -19,12 +19,10 @@ export function logNormalAbsorbance(bands: readonly LogNormalBand[], nm: number)
   const nu = 1e7 / nm;
   let sum = 0;
   for (const { nuMax, fwhm, rho, peak } of bands) {
-    const a = (fwhm * rho) / (rho * rho - 1);
     const arg = 1 + ((nu - nuMax) * (rho * rho - 1)) / (fwhm * rho);
     if (arg <= 0) continue;
     const lnRho = Math.log(rho);
     sum += peak * Math.exp((-Math.LN2 / (lnRho * lnRho)) * Math.log(arg) ** 2);
-    void a;
   }
   return sum;
 }
