@@ -212,6 +212,7 @@ describe("refusals", () => {
     const over = shoot({ ...SYNTHETIC_CAMERAS.warmPhone, exposure: 1.6 }, "D65");
     refused(() => fitCalibration(patchesOf(over, "D65")), "clipped-patch", /clipped/);
     refused(() => fitCalibration(patches.map((p, i) => (i === 2 ? { ...p, flags: ["non-uniform"] } : p))), "non-uniform-patch", /not one even colour/);
+    refused(() => fitCalibration(patches.map((p, i) => (i === 2 ? { ...p, flags: ["much-rejected"] } : p))), "non-uniform-patch", /not one even colour/);
     refused(() => fitCalibration(patches.map((p, i) => (i === 2 ? { ...p, flags: ["too-few-pixels"] } : p))), "empty-patch", /too few usable pixels/);
   });
   it("a singular fit: patches of one hue", () => {
