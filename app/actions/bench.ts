@@ -68,6 +68,7 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
         spread: c.spread,
         flags: c.flags,
         flagReason: v.flagReason || null,
+        uncertainty: c.uncertainty,
       };
     }),
   });

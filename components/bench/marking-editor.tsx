@@ -30,7 +30,7 @@ type Mark = {
   refB: string;
 };
 
-type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[] };
+type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[]; uncertainty?: { uDeltaE00: number } };
 type RefResult = { region: { x: number; y: number }; correctedLab: number[]; profileLab: number[]; driftDeltaE00: number; flags: string[] };
 type Live = { vials: Record<string, { ok: true; colour: Colour } | { ok: false; error: string }>; references: Record<string, RefResult>; correction?: string; photoFlags: string[]; error?: string; busy: boolean };
 
@@ -736,6 +736,7 @@ export function MarkingEditor(props: {
                           <div className="text-xs tabular-nums">
                             <p className="font-semibold" data-testid="live-lab">
                               L* {fmt(r.colour.lab[0])} a* {fmt(r.colour.lab[1])} b* {fmt(r.colour.lab[2])}
+                              {r.colour.uncertainty && <span data-testid="live-uncertainty"> (± {fmt(r.colour.uncertainty.uDeltaE00, 1)} ΔE00)</span>}
                             </p>
                             <p>
                               C* {fmt(r.colour.lch[1])} h° {fmt(r.colour.lch[2], 0)} · {r.colour.pixels} px, {r.colour.rejected} rejected, spread {fmt(r.colour.spread, 2)}

@@ -101,7 +101,7 @@ export function profileForPipeline(db: Db, id: string | null): ProfileForPipelin
   if (!id) return null;
   // Draft, retired, expired or not-yet-valid profiles are refused here, whatever the page offered.
   const p = assertBenchProfile(db, id);
-  return { id: p.id, name: p.name, correction: correctionOfProfile(p), validFrom: p.validFrom, validUntil: p.validUntil };
+  return { id: p.id, name: p.name, correction: correctionOfProfile(p), validFrom: p.validFrom, validUntil: p.validUntil, looMeanDeltaE00: p.looMeanDeltaE00 };
 }
 
 /** The condition row for these values, made if no identical one exists yet. */
@@ -143,6 +143,8 @@ export type MeasurementToSave = {
   spread: number;
   flags: string[];
   flagReason: string | null;
+  /** Standard uncertainties of L*, a*, b* and the combined ± ΔE00 (null when not computed). */
+  uncertainty?: { uL: number; uA: number; uB: number; uDeltaE00: number } | null;
 };
 
 /**
@@ -227,6 +229,10 @@ export function saveMeasurements(
         pixelCount: v.pixels,
         rejectedCount: v.rejected,
         spread: v.spread,
+        uL: v.uncertainty?.uL ?? null,
+        uA: v.uncertainty?.uA ?? null,
+        uB: v.uncertainty?.uB ?? null,
+        uDeltaE00: v.uncertainty?.uDeltaE00 ?? null,
         flags: v.flags,
         flagReason: v.flags.length ? v.flagReason : null,
         reviewState: "pending",

@@ -10,7 +10,10 @@ import type { Lab } from "../../lib/color/types";
 import { applyCorrection, correctionToArray, type Correction } from "../../lib/color/correction";
 import { labToLinearSrgb } from "../../lib/color/convert";
 import { scaleCorrection } from "../../lib/bench/pipeline";
-import { correctionOfProfile, withinTolerance, type CardFit, type ProfileMethod } from "../../lib/lighting/calibration";
+import { correctionOfProfile, fitCard, withinTolerance, type CardFit, type ProfileMethod } from "../../lib/lighting/calibration";
+import { patchRegions } from "../../lib/lighting/grid";
+import { ColorInputError, measureRegion } from "../../lib/color/regions";
+import type { ObjectStore } from "../../lib/storage/driver";
 import { benchRefusal, profileStatus } from "../../lib/lighting/status";
 import { AppError } from "../../lib/errors";
 import type { Db } from "../connection";
@@ -29,6 +32,7 @@ import {
   type TargetPatch,
 } from "../schema";
 import { recordAudit } from "./audit";
+import { decodedPhoto, getPhoto } from "./photos";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
@@ -416,4 +420,55 @@ export function applyRederive(db: Db, { actorId, profileId, expected }: { actorI
     }
     return { changed: changes.length };
   });
+}
+
+// ---------------------------------------------------------------- fit from a card photo
+
+/**
+ * Samples a draft profile's card on a stored photo (grid corners placed by the admin), fits the
+ * profile's method and stores the result in the draft. What the browser showed is not trusted: the
+ * patches are measured again here on the stored photo.
+ */
+export async function fitProfileFromPhoto(
+  db: Db,
+  store: ObjectStore,
+  { actorId, profileId, photoId, corners, maxPixels }: { actorId: string; profileId: string; photoId: string; corners: GridCorners; maxPixels: number },
+) {
+  const p = getProfile(db, profileId);
+  if (!p) throw new AppError("not_found", "That lighting profile no longer exists.");
+  if (p.state !== "draft") throw new AppError("conflict", `“${p.name}” is ${p.state}; reopen it as a draft before fitting it again.`);
+  if (!p.targetId) throw new AppError("invalid_input", `Choose the calibration target of “${p.name}” first (edit the draft).`);
+  const target = getTarget(db, p.targetId);
+  if (!target) throw new AppError("invalid_input", "The profile's calibration target no longer exists; choose another.");
+  if (!target.gridRows || !target.gridColumns) throw new AppError("invalid_input", `Give the target “${target.name}” its layout (rows × columns) before fitting from a photo.`);
+  if (target.whitePoint === "A") throw new AppError("invalid_input", "Card values under illuminant A cannot be used; give them under D65 or D50.");
+  const photo = getPhoto(db, photoId);
+  if (!photo) throw new AppError("not_found", "That photo no longer exists; upload the card photo again.");
+  const decoded = await decodedPhoto(store, photo, maxPixels);
+  const regions = patchRegions(corners, target.gridRows, target.gridColumns);
+  const samples: FitSample[] = [];
+  try {
+    regions.forEach((region, i) => {
+      const stats = measureRegion(decoded, region);
+      samples.push({ patch: target.patches[i].name, rawLinearRgb: stats.linearRgb, spread: stats.spread, flags: stats.flags });
+    });
+  } catch (error) {
+    if (error instanceof ColorInputError) throw new AppError("invalid_input", `${error.message} Drag the grid's corners onto the card's corner patches.`);
+    throw error;
+  }
+  const nonUniform = samples.find((s) => s.flags.includes("non-uniform") || s.flags.includes("much-rejected"));
+  if (nonUniform) throw new AppError("invalid_input", `Patch “${nonUniform.patch}” is not one colour in the photo (glare, an edge or a shadow); move the grid's corners onto the card's corner patches, or photograph the card again.`);
+  let fit: CardFit;
+  try {
+    fit = fitCard(
+      samples.map((s, i) => ({ name: s.patch, measured: s.rawLinearRgb, lab: target.patches[i].lab })),
+      target.whitePoint,
+      (p.method as ProfileMethod | null) ?? "auto",
+    );
+  } catch (error) {
+    if (error instanceof ColorInputError) throw new AppError("invalid_input", error.message);
+    throw error;
+  }
+  saveProfileFit(db, { actorId, id: profileId, fit, photoId, grid: corners, samples });
+  return { fit, samples, regions, target };
 }

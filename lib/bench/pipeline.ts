@@ -11,14 +11,16 @@
  * Pure: no database, no storage.
  */
 import { applyCorrection, correctionToArray, fitWhiteScaling, type Correction } from "../color/correction";
-import { labToLinearSrgb, linearSrgbToLab } from "../color/convert";
+import { labD50ToLabD65, labToLinearSrgb, linearSrgbToLab } from "../color/convert";
+import { NEUTRAL_MAX_CHROMA } from "../lighting/calibration";
+import { colourUncertainty, type ColourUncertainty } from "../lighting/uncertainty";
 import { deltaE00 } from "../color/difference";
 import { colourOfRegion } from "../color/measure";
 import { ColorInputError, measureRegion, type DecodedPhoto, type RegionSpec, type RegionStats } from "../color/regions";
 import type { Lab, Lch, LinearRgb, Vec3, Xyz } from "../color/types";
 
 /** Photo-level flags added to every vial's own quality flags. */
-export type PipelineFlag = "uncorrected" | "reference-drift" | "profile-not-valid-then";
+export type PipelineFlag = "uncorrected" | "reference-drift" | "profile-not-valid-then" | "white-card-only";
 
 /**
  * Above this ΔE00 between a reference as the profile sees it and its known Lab, the light has changed
@@ -27,8 +29,9 @@ export type PipelineFlag = "uncorrected" | "reference-drift" | "profile-not-vali
  */
 export const DRIFT_LIMIT_DE00 = 5;
 
-export type ProfileForPipeline = { id: string; name: string; correction: Correction; validFrom: Date; validUntil: Date | null };
-export type ReferenceInput = { region: RegionSpec; lab: Lab; label?: string };
+export type ProfileForPipeline = { id: string; name: string; correction: Correction; validFrom: Date; validUntil: Date | null; looMeanDeltaE00?: number | null };
+/** A reference of known Lab, given under its own white point (D65 when not said). */
+export type ReferenceInput = { region: RegionSpec; lab: Lab; label?: string; whitePoint?: "D65" | "D50" };
 
 export type VialColour = {
   region: RegionSpec;
@@ -41,6 +44,8 @@ export type VialColour = {
   rejected: number;
   spread: number;
   flags: string[];
+  /** Standard uncertainties of L*, a*, b* and the combined ± ΔE00 (lib/lighting/uncertainty.ts). */
+  uncertainty: ColourUncertainty;
 };
 
 export type ReferenceResult = {
@@ -99,7 +104,9 @@ export function runPipeline(
     if (t < input.profile.validFrom.getTime() || (input.profile.validUntil && t > input.profile.validUntil.getTime())) photoFlags.push("profile-not-valid-then");
   }
 
-  const refStats: { ref: ReferenceInput; stats: RegionStats }[] = input.references.map((ref, i) => {
+  const refStats: { ref: ReferenceInput; stats: RegionStats }[] = input.references.map((raw, i) => {
+    // Known values are read under their own white point: a D50 card is Bradford-adapted, never read as D65.
+    const ref = raw.whitePoint === "D50" ? { ...raw, lab: labD50ToLabD65(raw.lab), whitePoint: "D65" as const } : raw;
     try {
       return { ref, stats: measureRegion(photo, ref.region) };
     } catch (error) {
@@ -112,11 +119,17 @@ export function runPipeline(
   if (refStats.length > 0) {
     const pairs = refStats.map(({ ref, stats }) => {
       const seen = applyCorrection(base, stats.linearRgb);
-      // fitWhiteScaling checks that the reference is neutral enough and bright enough to scale by.
+      // A white reference must be neutral (C*ab ≤ 3, common practice, no source) and bright enough
+      // (fitWhiteScaling checks the brightness) before every channel is scaled by it.
+      const chroma = Math.hypot(ref.lab[1], ref.lab[2]);
+      if (chroma > NEUTRAL_MAX_CHROMA) {
+        throw new ColorInputError(`Reference ${ref.label ?? ""} is not neutral (C*ab ${chroma.toFixed(1)} > ${NEUTRAL_MAX_CHROMA}); mark a white or grey patch or a blank-solvent vial as the reference.`.replace("  ", " "));
+      }
       fitWhiteScaling({ measured: seen, referenceLab: ref.lab }, "D65");
       return { measured: seen, target: labToLinearSrgb(ref.lab, "D65") };
     });
     correction = scaleCorrection(base, scalingGains(pairs));
+    if (!input.profile) photoFlags.push("white-card-only");
   } else if (!input.profile) {
     photoFlags.push("uncorrected");
   }
@@ -151,7 +164,15 @@ export function runPipeline(
         pixels: stats.pixels,
         rejected: stats.rejected,
         spread: stats.spread,
-        flags: [...new Set([...c.flags, ...photoFlags])],
+        // "white-card-only" is shown with the photo, not as a vial flag (it needs no reason to keep).
+        flags: [...new Set([...c.flags, ...photoFlags.filter((f) => f !== "white-card-only")])],
+        uncertainty: colourUncertainty({
+          lab: c.lab,
+          spread: stats.spread,
+          pixels: stats.pixels - stats.rejected,
+          references: refStats.map((r) => ({ spread: r.stats.spread, pixels: r.stats.pixels - r.stats.rejected })),
+          profileLooDeltaE00: input.profile ? (input.profile.looMeanDeltaE00 ?? null) : null,
+        }),
       };
       return { ok: true as const, colour };
     } catch (error) {

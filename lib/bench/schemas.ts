@@ -15,7 +15,13 @@ const labSchema = z.tuple([z.number().min(0).max(100), z.number().min(-200).max(
   error: "Give the reference's known L*, a*, b* (L* 0–100).",
 });
 
-export const referenceSchema = z.object({ region: regionSchema, lab: labSchema, label: z.string().trim().max(80).optional() });
+export const referenceSchema = z.object({
+  region: regionSchema,
+  lab: labSchema,
+  label: z.string().trim().max(80).optional(),
+  /** White point the known Lab is given under (D65 when left out); D50 values are Bradford-adapted. */
+  whitePoint: z.enum(["D65", "D50"], { error: "A reference's white point is D65 or D50." }).optional(),
+});
 
 const profileId = z
   .string()

@@ -1,7 +1,8 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { db } from "@/db/client";
-import { listLightingProfiles, listRecentPhotos } from "@/db/queries/bench";
+import { listRecentPhotos } from "@/db/queries/bench";
+import { benchProfiles } from "@/db/queries/lighting";
 import { PhotoUploader } from "@/components/bench/photo-uploader";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNotice } from "@/components/ui/safety";
@@ -17,7 +18,8 @@ export default async function BenchPage() {
   if (!allowed) return <Refused user={user} allowed={BENCH_ROLES} area="The bench" />;
   const handle = db();
   const photos = listRecentPhotos(handle, { limit: 40 });
-  const profiles = listLightingProfiles(handle).map(({ profile }) => ({ id: profile.id, name: profile.name }));
+  // Only approved profiles inside their validity window can be chosen (the server refuses the others too).
+  const profiles = benchProfiles(handle);
   return (
     <>
       <PageHeader

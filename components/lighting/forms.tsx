@@ -1,0 +1,184 @@
+"use client";
+
+import { useActionState } from "react";
+import { createCheckStandardAction, saveProfileAction, saveTargetAction } from "@/app/actions/lighting";
+import { Field, Select, TextArea, TextInput } from "@/components/ui/field";
+import { FormMessage, SubmitButton } from "@/components/ui/form-status";
+
+export type ProfileDraftValues = {
+  id?: string;
+  name: string;
+  illuminant: string;
+  lightSource: string;
+  colourTemperatureK: number | null;
+  camera: string;
+  cameraSettings: string;
+  targetId: string | null;
+  method: string;
+  validFrom: string;
+  validUntil: string;
+  notes: string;
+};
+
+const day = (d: Date) => d.toISOString().slice(0, 10);
+
+export function ProfileForm({ values, targets }: { values?: ProfileDraftValues; targets: { id: string; name: string }[] }) {
+  const [state, action] = useActionState(saveProfileAction, null);
+  const e = state?.fieldErrors ?? {};
+  const v = values;
+  return (
+    <form action={action} className="grid gap-3 md:grid-cols-2" noValidate aria-label={v?.id ? "Edit draft profile" : "New draft profile"}>
+      {v?.id && <input type="hidden" name="id" value={v.id} />}
+      <Field label="Name" name="name" error={e.name}>
+        <TextInput name="name" defaultValue={v?.name ?? ""} error={e.name} />
+      </Field>
+      <Field label="Light source" name="lightSource" error={e.lightSource} hint="e.g. daylight LED panel behind a diffuser">
+        <TextInput name="lightSource" defaultValue={v?.lightSource ?? ""} error={e.lightSource} />
+      </Field>
+      <Field label="CIE illuminant it stands for" name="illuminant" error={e.illuminant}>
+        <Select name="illuminant" defaultValue={v?.illuminant ?? "D65"}>
+          <option value="D65">D65</option>
+          <option value="D50">D50</option>
+          <option value="A">A</option>
+        </Select>
+      </Field>
+      <Field label="Colour temperature (K)" name="colourTemperatureK" error={e.colourTemperatureK}>
+        <TextInput name="colourTemperatureK" inputMode="decimal" defaultValue={v?.colourTemperatureK ?? ""} error={e.colourTemperatureK} />
+      </Field>
+      <Field label="Camera" name="camera" error={e.camera}>
+        <TextInput name="camera" defaultValue={v?.camera ?? ""} error={e.camera} />
+      </Field>
+      <Field label="Fixed camera settings" name="cameraSettings" error={e.cameraSettings} hint="exposure, ISO, white balance, HDR off">
+        <TextInput name="cameraSettings" defaultValue={v?.cameraSettings ?? ""} error={e.cameraSettings} />
+      </Field>
+      <Field label="Calibration target" name="targetId" error={e.targetId}>
+        <Select name="targetId" defaultValue={v?.targetId ?? targets[0]?.id ?? ""}>
+          <option value="">none yet</option>
+          {targets.map((t) => (
+            <option key={t.id} value={t.id}>
+              {t.name}
+            </option>
+          ))}
+        </Select>
+      </Field>
+      <Field label="Method" name="method" error={e.method} hint="Automatic picks the lowest leave-one-out ΔE00">
+        <Select name="method" defaultValue={v?.method ?? "auto"}>
+          <option value="auto">automatic (by leave-one-out)</option>
+          <option value="matrix-3x3">3×3 matrix</option>
+          <option value="root-polynomial-2">root-polynomial, degree 2 (18+ patches)</option>
+          <option value="white">white scaling only</option>
+        </Select>
+      </Field>
+      <Field label="Valid from" name="validFrom" error={e.validFrom}>
+        <TextInput name="validFrom" type="date" defaultValue={v?.validFrom ?? day(new Date())} error={e.validFrom} />
+      </Field>
+      <Field label="Valid until (empty: open)" name="validUntil" error={e.validUntil}>
+        <TextInput name="validUntil" type="date" defaultValue={v?.validUntil ?? ""} error={e.validUntil} />
+      </Field>
+      <div className="md:col-span-2">
+        <Field label="Notes" name="notes" error={e.notes}>
+          <TextArea name="notes" defaultValue={v?.notes ?? ""} error={e.notes} />
+        </Field>
+      </div>
+      <div className="space-y-2 md:col-span-2">
+        <SubmitButton pendingText="Saving…">{v?.id ? "Save draft" : "Create draft profile"}</SubmitButton>
+        <FormMessage state={state} />
+        {state?.ok && !v?.id && typeof state.data?.id === "string" && (
+          <p className="text-sm">
+            <a className="text-accent underline" href={`/lighting/profiles/${state.data.id}`}>
+              Open the new draft to fit it
+            </a>
+          </p>
+        )}
+      </div>
+    </form>
+  );
+}
+
+export type TargetValues = { id?: string; name: string; description: string; source: string; whitePoint: string; gridRows: number | null; gridColumns: number | null; csv: string };
+
+export function TargetForm({ values }: { values?: TargetValues }) {
+  const [state, action] = useActionState(saveTargetAction, null);
+  const e = state?.fieldErrors ?? {};
+  const v = values;
+  return (
+    <form action={action} className="grid gap-3 md:grid-cols-2" noValidate aria-label={v?.id ? `Edit target ${v.name}` : "New calibration target"}>
+      {v?.id && <input type="hidden" name="id" value={v.id} />}
+      <Field label="Name" name="name" error={e.name}>
+        <TextInput name="name" defaultValue={v?.name ?? ""} error={e.name} />
+      </Field>
+      <Field label="Values measured under" name="whitePoint" error={e.whitePoint}>
+        <Select name="whitePoint" defaultValue={v?.whitePoint ?? "D50"}>
+          <option value="D50">D50</option>
+          <option value="D65">D65</option>
+        </Select>
+      </Field>
+      <Field label="Rows" name="gridRows" error={e.gridRows}>
+        <TextInput name="gridRows" inputMode="numeric" defaultValue={v?.gridRows ?? ""} error={e.gridRows} />
+      </Field>
+      <Field label="Columns" name="gridColumns" error={e.gridColumns}>
+        <TextInput name="gridColumns" inputMode="numeric" defaultValue={v?.gridColumns ?? ""} error={e.gridColumns} />
+      </Field>
+      <Field label="Source of the values" name="source" error={e.source} hint="instrument and date, or the maker's sheet">
+        <TextInput name="source" defaultValue={v?.source ?? ""} error={e.source} />
+      </Field>
+      <Field label="Description" name="description" error={e.description}>
+        <TextInput name="description" defaultValue={v?.description ?? ""} error={e.description} />
+      </Field>
+      <div className="md:col-span-2">
+        <Field label="Patches (CSV: name, L*, a*, b*, white point; row by row from the top left)" name="csv" error={e.csv}>
+          <TextArea name="csv" defaultValue={v?.csv ?? "name,L*,a*,b*,white point\n"} error={e.csv} rows={8} />
+        </Field>
+      </div>
+      <div className="space-y-2 md:col-span-2">
+        <SubmitButton pendingText="Saving…">{v?.id ? "Save target" : "Create target"}</SubmitButton>
+        <FormMessage state={state} />
+      </div>
+    </form>
+  );
+}
+
+export function CheckStandardForm() {
+  const [state, action] = useActionState(createCheckStandardAction, null);
+  const e = state?.fieldErrors ?? {};
+  return (
+    <form action={action} className="grid gap-3 md:grid-cols-3" noValidate aria-label="New check standard">
+      <Field label="Name" name="name" error={e.name}>
+        <TextInput name="name" error={e.name} />
+      </Field>
+      <Field label="Kind" name="kind" error={e.kind}>
+        <Select name="kind" defaultValue="vial">
+          <option value="vial">sealed vial</option>
+          <option value="tile">tile</option>
+        </Select>
+      </Field>
+      <Field label="White point" name="whitePoint" error={e.whitePoint}>
+        <Select name="whitePoint" defaultValue="D50">
+          <option value="D50">D50</option>
+          <option value="D65">D65</option>
+        </Select>
+      </Field>
+      <Field label="L*" name="l" error={e.l}>
+        <TextInput name="l" inputMode="decimal" error={e.l} />
+      </Field>
+      <Field label="a*" name="a" error={e.a}>
+        <TextInput name="a" inputMode="decimal" error={e.a} />
+      </Field>
+      <Field label="b*" name="b" error={e.b}>
+        <TextInput name="b" inputMode="decimal" error={e.b} />
+      </Field>
+      <Field label="Measured with (instrument, date)" name="sourceInstrument" error={e.sourceInstrument}>
+        <TextInput name="sourceInstrument" error={e.sourceInstrument} />
+      </Field>
+      <div className="md:col-span-2">
+        <Field label="Notes" name="notes" error={e.notes}>
+          <TextInput name="notes" error={e.notes} />
+        </Field>
+      </div>
+      <div className="space-y-2 md:col-span-3">
+        <SubmitButton pendingText="Saving…">Register check standard</SubmitButton>
+        <FormMessage state={state} />
+      </div>
+    </form>
+  );
+}
