@@ -5,12 +5,31 @@ import { z } from "zod";
 import { db } from "@/db/client";
 import { deleteRackTemplate, saveMeasurements, saveRackTemplate } from "@/db/queries/bench";
 import { getPhoto, measureOnPhoto } from "@/db/queries/photos";
+import { adminEmails, getProfile, recordPhotoDrift } from "@/db/queries/lighting";
+import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
+import { send } from "@/lib/mail";
 import { formAction, parseInput } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
 import { saveRequestSchema, templateSchema } from "@/lib/bench/schemas";
 import { AppError } from "@/lib/errors";
 import { objectStore } from "@/lib/storage";
 import { photoLimits } from "@/lib/storage/limits";
+
+/** Drift of the photo's references through its profile: recorded, and admins told by e-mail above the limit. */
+async function noteDrift(photoId: string, profileId: string | null, references: { label?: string; driftDeltaE00: number }[]) {
+  const handle = db();
+  const flagged = recordPhotoDrift(handle, { profileId, photoId, references, limit: DRIFT_LIMIT_DE00 });
+  if (flagged.length === 0 || !profileId) return;
+  const profile = getProfile(handle, profileId);
+  const text = [
+    `A bench photo's references no longer match the lighting profile “${profile?.name ?? profileId}”:`,
+    ...flagged.map((f) => `- ${f.label}: ${f.deltaE00.toFixed(2)} ΔE00 (limit ${DRIFT_LIMIT_DE00} ΔE00)`),
+    "",
+    "The measurements from this photo are flagged. Check the light and the camera settings, and re-fit the profile if the light has changed.",
+    `Photo: /bench/photos/${photoId}   Profile: /lighting/profiles/${profileId}`,
+  ].join("\n");
+  for (const to of adminEmails(handle)) await send({ to, subject: `Light drift on “${profile?.name ?? profileId}”`, text });
+}
 
 const jsonPayload = z.object({ payload: z.string().min(2, { error: "Nothing to save." }).max(2_000_000) });
 
@@ -72,6 +91,7 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
       };
     }),
   });
+  await noteDrift(photo.id, input.lightingProfileId, result.references);
   revalidatePath("/bench");
   revalidatePath(`/bench/photos/${photo.id}`);
   revalidatePath("/review");

@@ -472,3 +472,20 @@ export async function fitProfileFromPhoto(
   saveProfileFit(db, { actorId, id: profileId, fit, photoId, grid: corners, samples });
   return { fit, samples, regions, target };
 }
+
+/**
+ * Records the drift of every reference seen in a bench photo through its profile (ΔE00 between the
+ * reference as the profile alone sees it and its known value) in one transaction. Returns the
+ * readings above the limit, so the caller can tell the admins.
+ */
+export function recordPhotoDrift(
+  db: Db,
+  { profileId, photoId, references, limit }: { profileId: string | null; photoId: string; references: { label?: string; driftDeltaE00: number }[]; limit: number },
+) {
+  if (!profileId || references.length === 0) return [];
+  return db.transaction((tx) =>
+    references
+      .map((r, i) => ({ label: r.label || `reference ${i + 1}`, deltaE00: r.driftDeltaE00, ...recordDrift(tx, { profileId, photoId, label: r.label || `reference ${i + 1}`, deltaE00: r.driftDeltaE00, thresholdDeltaE00: limit }) }))
+      .filter((r) => r.flagged),
+  );
+}
