@@ -222,14 +222,23 @@ export const calibrationTargets = sqliteTable("calibration_targets", {
 });
 export type CalibrationTarget = typeof calibrationTargets.$inferSelect;
 
-export const CORRECTION_KINDS = ["none", "white-scaling", "matrix-3x3", "root-polynomial"] as const;
+/** "calibration": the lighting profile's engine calibration, then the 3×3 XYZ adaptation stored in `correction`. */
+export const CORRECTION_KINDS = ["none", "white-scaling", "matrix-3x3", "root-polynomial", "calibration"] as const;
 
 export const PROFILE_STATES = ["draft", "approved", "retired"] as const;
 export type ProfileState = (typeof PROFILE_STATES)[number];
 export type ProfileResidual = { patch: string; deltaE00: number; looDeltaE00?: number };
 /** Four corners of the patch grid on a card photo, in photo pixels: top left, top right, bottom right, bottom left. */
 export type GridCorners = [[number, number], [number, number], [number, number], [number, number]];
-export type FitSample = { patch: string; rawLinearRgb: [number, number, number]; spread: number; flags: string[] };
+export type FitSample = {
+  patch: string;
+  rawLinearRgb: [number, number, number];
+  spread: number;
+  flags: string[];
+  sd?: [number, number, number];
+  pixels?: number;
+  clippedFraction?: number;
+};
 export type CorrectionKind = (typeof CORRECTION_KINDS)[number];
 
 export const lightingProfiles = sqliteTable("lighting_profiles", {

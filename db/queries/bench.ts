@@ -1,6 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { and, desc, eq, isNull, sql } from "drizzle-orm";
-import { correctionOfProfile } from "../../lib/lighting/calibration";
+import { calibrationOfProfile, correctionOfProfile } from "../../lib/lighting/calibration";
 import type { ProfileForPipeline } from "../../lib/bench/pipeline";
 import { AppError } from "../../lib/errors";
 import type { Db } from "../connection";
@@ -101,7 +101,7 @@ export function profileForPipeline(db: Db, id: string | null): ProfileForPipelin
   if (!id) return null;
   // Draft, retired, expired or not-yet-valid profiles are refused here, whatever the page offered.
   const p = assertBenchProfile(db, id);
-  return { id: p.id, name: p.name, correction: correctionOfProfile(p), validFrom: p.validFrom, validUntil: p.validUntil, looMeanDeltaE00: p.looMeanDeltaE00 };
+  return { id: p.id, name: p.name, correction: correctionOfProfile(p), calibration: calibrationOfProfile(p), validFrom: p.validFrom, validUntil: p.validUntil, looMeanDeltaE00: p.looMeanDeltaE00 };
 }
 
 /** The condition row for these values, made if no identical one exists yet. */

@@ -10,7 +10,8 @@ import type { Lab } from "../../lib/color/types";
 import { applyCorrection, correctionToArray, type Correction } from "../../lib/color/correction";
 import { labToLinearSrgb } from "../../lib/color/convert";
 import { scaleCorrection } from "../../lib/bench/pipeline";
-import { correctionOfProfile, fitCard, withinTolerance, type CardFit, type ProfileMethod } from "../../lib/lighting/calibration";
+import { applyCalibration, whiteAdaptation } from "../../lib/color/calibration";
+import { calibrationOfProfile, correctionOfProfile, fitCard, withinTolerance, type CardFit, type ProfileMethod } from "../../lib/lighting/calibration";
 import { patchRegions } from "../../lib/lighting/grid";
 import { ColorInputError, measureRegion } from "../../lib/color/regions";
 import type { ObjectStore } from "../../lib/storage/driver";
@@ -146,7 +147,7 @@ export function saveProfileFit(
 ) {
   db.transaction((tx) => {
     const before = draftOrRefuse(tx, id);
-    const stored = correctionToArray(fit.correction);
+    const stored = { kind: "calibration" as const, values: [] as number[] };
     const after = {
       correctionKind: stored.kind,
       correction: stored.values,
@@ -371,16 +372,32 @@ export function previewRederive(db: Db | Tx, { profileId, minDeltaE00 = 0.01 }: 
   const p = getProfile(db, profileId);
   if (!p) throw new AppError("not_found", "That lighting profile no longer exists.");
   if (p.correctionKind === "none") throw new AppError("conflict", `“${p.name}” has no fitted calibration to re-derive with.`);
+  const cal = calibrationOfProfile(p);
   const base = correctionOfProfile(p);
   const rows = db.select().from(measurements).where(eq(measurements.lightingProfileId, profileId)).all();
   const changes: RederiveChange[] = [];
   for (const m of rows) {
-    const white: LabWhite = m.illuminant === "D50" ? "D50" : "D65";
-    const corr = rederivedCorrection(base, m.referencePatches?.map((r) => ({ rawLinearRgb: r.rawLinearRgb, lab: r.lab })) ?? null, white);
-    const lin = applyCorrection(corr, [m.rawR, m.rawG, m.rawB]);
-    const after = linearSrgbToLab(lin, white);
+    const raw: [number, number, number] = [m.rawR, m.rawG, m.rawB];
+    const refs = m.referencePatches ?? [];
+    let after: Lab;
+    let xyz: [number, number, number];
+    let correction: { kind: string; values: number[] };
+    if (cal) {
+      // The engine calibration, then the day's white adaptation from the first stored reference (as on the bench).
+      const adaptation = refs[0] ? whiteAdaptation(cal, refs[0].rawLinearRgb, refs[0].lab, "D65") : undefined;
+      const c = applyCalibration(cal, raw, adaptation);
+      after = c.labD65;
+      xyz = c.xyzD65;
+      correction = { kind: "calibration", values: adaptation ? adaptation.flat() : [] };
+    } else {
+      const corr = rederivedCorrection(base, refs.map((r) => ({ rawLinearRgb: r.rawLinearRgb, lab: r.lab })), "D65");
+      const lin = applyCorrection(corr, raw);
+      after = linearSrgbToLab(lin, "D65");
+      xyz = linearSrgbToXyz(lin, "D65");
+      correction = correctionToArray(corr);
+    }
     const dE = deltaE00([m.l, m.a, m.b], after);
-    if (dE >= minDeltaE00) changes.push({ id: m.id, before: [m.l, m.a, m.b], after, deltaE00: dE, correction: correctionToArray(corr), xyz: linearSrgbToXyz(lin, white) });
+    if (dE >= minDeltaE00) changes.push({ id: m.id, before: [m.l, m.a, m.b], after, deltaE00: dE, correction, xyz });
   }
   const sorted = changes.map((c) => c.deltaE00).sort((a, b) => a - b);
   const q = (f: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.floor(f * sorted.length))] : 0);
@@ -450,7 +467,7 @@ export async function fitProfileFromPhoto(
   try {
     regions.forEach((region, i) => {
       const stats = measureRegion(decoded, region);
-      samples.push({ patch: target.patches[i].name, rawLinearRgb: stats.linearRgb, spread: stats.spread, flags: stats.flags });
+      samples.push({ patch: target.patches[i].name, rawLinearRgb: stats.linearRgb, spread: stats.spread, flags: stats.flags, sd: stats.sd, pixels: stats.pixels - stats.rejected, clippedFraction: stats.clippedFraction });
     });
   } catch (error) {
     if (error instanceof ColorInputError) throw new AppError("invalid_input", `${error.message} Drag the grid's corners onto the card's corner patches.`);
@@ -461,7 +478,7 @@ export async function fitProfileFromPhoto(
   let fit: CardFit;
   try {
     fit = fitCard(
-      samples.map((s, i) => ({ name: s.patch, measured: s.rawLinearRgb, lab: target.patches[i].lab })),
+      samples.map((s, i) => ({ name: s.patch, measured: s.rawLinearRgb, lab: target.patches[i].lab, sd: s.sd, pixels: s.pixels, clippedFraction: s.clippedFraction, flags: s.flags })),
       target.whitePoint,
       (p.method as ProfileMethod | null) ?? "auto",
     );

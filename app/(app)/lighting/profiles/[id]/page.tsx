@@ -15,9 +15,8 @@ import { Card, PageHeader } from "@/components/ui/card";
 import { Field, TextInput } from "@/components/ui/field";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
-import { applyCorrection } from "@/lib/color/correction";
 import { labD50ToLabD65, labToHex, linearSrgbToHex } from "@/lib/color/convert";
-import { correctionOfProfile, DEFAULT_TOLERANCE } from "@/lib/lighting/calibration";
+import { DEFAULT_TOLERANCE, profileColour } from "@/lib/lighting/calibration";
 import { profileStatus } from "@/lib/lighting/status";
 import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
 import type { GridCorners } from "@/db/schema";
@@ -36,10 +35,10 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
   if (!p) notFound();
   const status = profileStatus(p);
   const target = p.targetId ? getTarget(handle, p.targetId) : undefined;
-  const correction = p.correctionKind !== "none" ? correctionOfProfile(p) : null;
+  const fitted = p.correctionKind !== "none";
   const checks = checkHistory(handle, { profileId: p.id });
   const drift = driftHistory(handle, { profileId: p.id });
-  const preview = isAdmin && p.state === "approved" && correction ? previewRederive(handle, { profileId: p.id }) : null;
+  const preview = isAdmin && p.state === "approved" && fitted ? previewRederive(handle, { profileId: p.id }) : null;
   const targetLab = (name: string) => {
     const patch = target?.patches.find((t) => t.name === name);
     if (!patch) return null;
@@ -112,10 +111,10 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
                     <tr key={r.patch} className="border-t border-line">
                       <td>{r.patch}</td>
                       <td>
-                        {sample && correction ? (
+                        {sample && fitted ? (
                           <span className="flex gap-1">
                             <span role="img" aria-label={`${r.patch} as photographed`} className="h-6 w-6 rounded border border-black/10" style={{ backgroundColor: linearSrgbToHex(sample.rawLinearRgb) }} />
-                            <span role="img" aria-label={`${r.patch} after the profile`} className="h-6 w-6 rounded border border-black/10" style={{ backgroundColor: linearSrgbToHex(applyCorrection(correction, sample.rawLinearRgb)) }} />
+                            <span role="img" aria-label={`${r.patch} after the profile`} className="h-6 w-6 rounded border border-black/10" style={{ backgroundColor: labToHex(profileColour(p, sample.rawLinearRgb).lab, "D65") }} />
                             {known && <span role="img" aria-label={`${r.patch} known value`} className="h-6 w-6 rounded border border-black/10" style={{ backgroundColor: labToHex(known, "D65") }} />}
                           </span>
                         ) : (
