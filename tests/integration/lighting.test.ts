@@ -23,6 +23,10 @@ import { objectStore } from "@/lib/storage";
 import { CARD, cardCorners, cardCsv, cardPhoto, CARD_PATCHES } from "../support/card";
 import { RACK, rackPhoto, type Rgb8 } from "../support/photos";
 import { labOf8 } from "../support/srgb-reference";
+import { CARD as SPECTRAL_CARD, sceneXyzD65, spectrumLab, VIALS } from "../support/spectral-card";
+import { renderSwatches, SYNTHETIC_CAMERAS } from "@/lib/color/synthetic-camera";
+import { deltaE00 } from "@/lib/color/difference";
+import sharp from "sharp";
 import { actAs, addMeasurement, buildWorld, form, PEOPLE, tokenFor } from "../support/world";
 
 const limits = { maxBytes: 40 * 1048576, maxPixels: 100e6 };
@@ -233,6 +237,72 @@ describe("drift", () => {
     expect(mails.length).toBeGreaterThan(mailsBefore);
     expect(mails.some((x: { to: string; subject: string }) => x.to === PEOPLE.admin.email && /Light drift/.test(x.subject))).toBe(true);
   });
+});
+
+describe("accuracy through the app on a camera that is not sRGB", () => {
+  // The card and vials are invented smooth spectra; their true Lab come from the CIE tables in
+  // tests/fixtures (CIE 018:2019 colour-matching functions, CIE D65/D50), not from lib/color
+  // (tests/support/spectral-card.ts). The camera has cross-talk, a warm light, an exposure error and
+  // a phone-like S-curve (lib/color/synthetic-camera.ts): a fit that ignored the tone curve fails here.
+  const SIZE = 48;
+  const GAP = 10;
+  const COLUMNS = 6;
+  const INSET = 8;
+
+  async function spectralPhoto(seed: number) {
+    const swatches = [...SPECTRAL_CARD.map((p) => sceneXyzD65(p.reflectance, "D65")), ...VIALS.map((v) => sceneXyzD65(v.transmittance, "D65"))];
+    const r = renderSwatches(SYNTHETIC_CAMERAS.warmPhone, { swatches, columns: COLUMNS, size: SIZE, gap: GAP }, seed);
+    const png = await sharp(Buffer.from(r.data), { raw: { width: r.width, height: r.height, channels: 3 } }).png().toBuffer();
+    return { png, boxes: r.boxes };
+  }
+
+  for (const white of ["D65", "D50"] as const) {
+    it(`fits a ${white} card photo in the workflow, approves it, and measures hold-out vials within 1.5 ΔE00 with ± values`, async () => {
+      const { png, boxes } = await spectralPhoto(white === "D65" ? 5 : 6);
+      const rows = SPECTRAL_CARD.length / COLUMNS;
+      await actAs("admin");
+      const csv = ["name,L*,a*,b*,white point", ...SPECTRAL_CARD.map((p) => `${p.name},${spectrumLab(p.reflectance, white).map((v) => v.toFixed(4)).join(",")},${white}`)].join("\n");
+      const t = await saveTargetAction(null, form({ name: `Spectral card ${white}`, description: "", source: "CIE 018:2019 tables", whitePoint: white, gridRows: String(rows), gridColumns: String(COLUMNS), csv }));
+      expect(t, JSON.stringify(t)).toMatchObject({ ok: true });
+      const id = await draft(`Phone ${white}`, { targetId: t!.data!.id as string, method: "auto" });
+      const photo = (await storePhoto(db(), objectStore(), { bytes: png, originalName: `phone-${white}.png`, uploaderId: PEOPLE.admin.id, limits })).photo;
+      const right = GAP + COLUMNS * (SIZE + GAP) - GAP;
+      const bottom = GAP + rows * (SIZE + GAP) - GAP;
+      const res = await fitProfileAction(null, form({ payload: JSON.stringify({ profileId: id, photoId: photo.id, corners: [[GAP, GAP], [right, GAP], [right, bottom], [GAP, bottom]] }) }));
+      expect(res, JSON.stringify(res)).toMatchObject({ ok: true });
+      const row = profileRow(id);
+      expect(row.calibration).toMatchObject({ format: "solvatlas-calibration", whitePoint: white });
+      expect(row.looMeanDeltaE00!).toBeLessThan(2);
+      expect(await approveProfileAction(null, form({ id, toleranceMean: "", toleranceMax: "" }))).toMatchObject({ ok: true });
+
+      await actAs("chemist");
+      // The bench photo is another shot of the same scene (other noise), so the vials are hold-out colours.
+      const bench = await spectralPhoto(white === "D65" ? 15 : 16);
+      const benchPhoto = (await storePhoto(db(), objectStore(), { bytes: bench.png, originalName: `phone-${white}-bench.png`, lightingProfileId: id, uploaderId: PEOPLE.chemist.id, limits })).photo;
+      const vialBoxes = boxes.slice(SPECTRAL_CARD.length);
+      const save = await saveMeasurementsAction(
+        null,
+        form({
+          payload: JSON.stringify({
+            photoId: benchPhoto.id,
+            lightingProfileId: id,
+            references: [],
+            vials: vialBoxes.map(([x, y, w, h]) => ({ region: { shape: "rect", x: x + INSET, y: y + INSET, w: w - 2 * INSET, h: h - 2 * INSET }, dyeId: "dye_t1", solventId: "solv-methanol", acidBase: "neutral", ph: null, concentrationUmolL: 20, flagReason: "synthetic test vial" })),
+          }),
+        }),
+      );
+      expect(save, JSON.stringify(save)).toMatchObject({ ok: true });
+      const saved = (save!.data!.ids as string[]).map((mid) => db().select().from(measurements).where(eq(measurements.id, mid)).get()!);
+      const errors = saved.map((m, i) => deltaE00([m.l, m.a, m.b], spectrumLab(VIALS[i].transmittance, "D65") as [number, number, number]));
+      for (const [i, e] of errors.entries()) expect(e, `${VIALS[i].name}: ${errors.map((x) => x.toFixed(2)).join(" ")}`).toBeLessThan(1.5);
+      for (const m of saved) {
+        expect(m.correctionKind).toBe("calibration");
+        expect(m.uDeltaE00).toBeGreaterThan(0);
+        expect(m.uL).toBeGreaterThan(0);
+      }
+      console.info(`accuracy ${white} card, warmPhone camera, method ${row.method}→${(row.calibration as { method: string }).method}: vial ΔE00 mean ${(errors.reduce((a, b) => a + b, 0) / errors.length).toFixed(2)}, max ${Math.max(...errors).toFixed(2)}; LOO mean ${row.looMeanDeltaE00!.toFixed(2)}, max ${row.looMaxDeltaE00!.toFixed(2)}; u(ΔE00) ${saved.map((m) => m.uDeltaE00!.toFixed(2)).join(" ")}`);
+    });
+  }
 });
 
 void CARD_PATCHES;
