@@ -12,7 +12,7 @@ import { COLOUR_WORDS } from "@/lib/search/colour-words";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
 
-type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number };
+type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number; uncertaintyDeltaE00?: number | null; tieWithPrevious?: boolean };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
 
 const TARGET_KINDS = [
@@ -182,7 +182,15 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                   <span className="w-28 text-ink-soft">
                     {r.measurements} measurement{r.measurements === 1 ? "" : "s"}
                   </span>
-                  <span className="w-24 text-right font-semibold tabular-nums">ΔE00 {r.deltaE00.toFixed(1)}</span>
+                  <span className="w-24 text-right font-semibold tabular-nums">
+                    ΔE00 {r.deltaE00.toFixed(1)}
+                    {r.uncertaintyDeltaE00 != null && <span className="block text-xs font-normal text-ink-soft">± {r.uncertaintyDeltaE00.toFixed(1)}</span>}
+                    {r.tieWithPrevious && (
+                      <span className="block text-xs font-normal text-warn" data-testid="tie-mark" title="Differs from the result above by less than their combined uncertainty">
+                        ≈ tie with the one above
+                      </span>
+                    )}
+                  </span>
                 </li>
               ))}
             </ol>

@@ -506,3 +506,9 @@ export function recordPhotoDrift(
       .filter((r) => r.flagged),
   );
 }
+
+/** ± ΔE00 of stored measurements by id (null when not recorded), for search results and exports. */
+export function uncertaintiesOf(db: Db, ids: string[]): Map<string, number | null> {
+  if (ids.length === 0) return new Map();
+  return new Map(db.select({ id: measurements.id, u: measurements.uDeltaE00 }).from(measurements).where(inArray(measurements.id, ids)).all().map((r) => [r.id, r.u]));
+}
