@@ -5,7 +5,7 @@ import { z } from "zod";
 import { db } from "@/db/client";
 import { deleteRackTemplate, saveMeasurements, saveRackTemplate } from "@/db/queries/bench";
 import { getPhoto, measureOnPhoto } from "@/db/queries/photos";
-import { adminEmails, getProfile, recordPhotoDrift } from "@/db/queries/lighting";
+import { adminEmails, getProfile, recordPhotoChecks, recordPhotoDrift, standardOrRefuse } from "@/db/queries/lighting";
 import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
 import { send } from "@/lib/mail";
 import { formAction, parseInput } from "@/lib/auth/guard";
@@ -50,12 +50,19 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
   const handle = db();
   const photo = getPhoto(handle, input.photoId);
   if (!photo) throw new AppError("not_found", "That photo no longer exists.");
-  const result = await measureOnPhoto(handle, objectStore(), photo, {
+  const checks = input.checkStandards ?? [];
+  for (const c of checks) standardOrRefuse(handle, c.standardId);
+  const measured = await measureOnPhoto(handle, objectStore(), photo, {
     lightingProfileId: input.lightingProfileId,
     references: input.references,
-    vials: input.vials.map((v) => v.region),
+    // Check standards are measured exactly like vials, through the same correction.
+    vials: [...input.vials.map((v) => v.region), ...checks.map((c) => c.region)],
     maxPixels: photoLimits().maxPixels,
   });
+  const result = { ...measured, vials: measured.vials.slice(0, input.vials.length) };
+  const checkResults = measured.vials.slice(input.vials.length);
+  const badCheck = checkResults.findIndex((r) => !r.ok);
+  if (badCheck >= 0) throw new AppError("invalid_input", `Check standard ${badCheck + 1} cannot be measured: ${(checkResults[badCheck] as { error: string }).error}`);
   const failed = result.vials.map((v, i) => (v.ok ? null : { i, error: v.error })).filter((v) => v !== null);
   if (failed.length > 0) {
     throw new AppError(
@@ -92,6 +99,15 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
     }),
   });
   await noteDrift(photo.id, input.lightingProfileId, result.references);
+  recordPhotoChecks(handle, {
+    actorId: user.id,
+    photoId: photo.id,
+    profileId: input.lightingProfileId,
+    readings: checks.flatMap((c, i) => {
+      const r = checkResults[i];
+      return r.ok ? [{ standardId: c.standardId, labD65: r.colour.lab }] : [];
+    }),
+  });
   revalidatePath("/bench");
   revalidatePath(`/bench/photos/${photo.id}`);
   revalidatePath("/review");

@@ -4,7 +4,7 @@
  */
 import { randomUUID } from "node:crypto";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
-import { linearSrgbToLab, linearSrgbToXyz, type LabWhite } from "../../lib/color/convert";
+import { labD65ToLabD50, linearSrgbToLab, linearSrgbToXyz, type LabWhite } from "../../lib/color/convert";
 import { deltaE00 } from "../../lib/color/difference";
 import type { Lab } from "../../lib/color/types";
 import { applyCorrection, correctionToArray, type Correction } from "../../lib/color/correction";
@@ -511,4 +511,25 @@ export function recordPhotoDrift(
 export function uncertaintiesOf(db: Db, ids: string[]): Map<string, number | null> {
   if (ids.length === 0) return new Map();
   return new Map(db.select({ id: measurements.id, u: measurements.uDeltaE00 }).from(measurements).where(inArray(measurements.id, ids)).all().map((r) => [r.id, r.u]));
+}
+
+export function standardOrRefuse(db: Db, id: string) {
+  const s = db.select().from(checkStandards).where(eq(checkStandards.id, id)).get();
+  if (!s) throw new AppError("invalid_input", "A region names a check standard that is not registered; pick one from the Lighting page's list.", { checkStandards: ["Unknown check standard."] });
+  return s;
+}
+
+/** Records the check standards measured in one bench photo (Lab D65 from the pipeline, compared under each standard's own white point), in one transaction. */
+export function recordPhotoChecks(
+  db: Db,
+  { actorId, photoId, profileId, readings }: { actorId: string; photoId: string; profileId: string | null; readings: { standardId: string; labD65: Lab }[] },
+) {
+  if (readings.length === 0) return [];
+  return db.transaction((tx) =>
+    readings.map((r) => {
+      const s = tx.select().from(checkStandards).where(eq(checkStandards.id, r.standardId)).get();
+      const lab = s?.whitePoint === "D50" ? labD65ToLabD50(r.labD65) : r.labD65;
+      return recordCheckReading(tx, { actorId, standardId: r.standardId, profileId, photoId, measuredLab: lab });
+    }),
+  );
 }

@@ -59,6 +59,8 @@ export const saveRequestSchema = z.object({
   lightingProfileId: profileId,
   references: z.array(referenceSchema).max(10).default([]),
   vials: z.array(vialSchema).min(1, { error: "Mark at least one vial before saving." }).max(200),
+  /** Regions holding a registered check standard: each one's ΔE00 to its known value is recorded. */
+  checkStandards: z.array(z.object({ region: regionSchema, standardId: z.string().min(1).max(100) })).max(10).default([]),
 });
 export type SaveRequest = z.infer<typeof saveRequestSchema>;
 

@@ -11,13 +11,14 @@ import fs from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { and, eq, sql } from "drizzle-orm";
-import { approveProfileAction, fitProfileAction, rederiveAction, reopenProfileAction, retireProfileAction, saveProfileAction, saveTargetAction } from "@/app/actions/lighting";
+import { approveProfileAction, createCheckStandardAction, fitProfileAction, rederiveAction, reopenProfileAction, retireProfileAction, saveProfileAction, saveTargetAction } from "@/app/actions/lighting";
 import { saveMeasurementsAction } from "@/app/actions/bench";
 import { GET as listProfilesRoute } from "@/app/api/lighting/profiles/route";
+import { GET as searchRoute } from "@/app/api/search/route";
 import { db } from "@/db/client";
 import { previewRederive } from "@/db/queries/lighting";
 import { storePhoto } from "@/db/queries/photos";
-import { auditLog, calibrationTargets, driftReadings, lightingProfiles, measurements } from "@/db/schema";
+import { auditLog, calibrationTargets, checkReadings, checkStandards, driftReadings, dyes, lightingProfiles, measurements } from "@/db/schema";
 import { mailboxDir } from "@/lib/mail";
 import { objectStore } from "@/lib/storage";
 import { CARD, cardCorners, cardCsv, cardPhoto, CARD_PATCHES } from "../support/card";
@@ -280,6 +281,15 @@ describe("accuracy through the app on a camera that is not sRGB", () => {
       const bench = await spectralPhoto(white === "D65" ? 15 : 16);
       const benchPhoto = (await storePhoto(db(), objectStore(), { bytes: bench.png, originalName: `phone-${white}-bench.png`, lightingProfileId: id, uploaderId: PEOPLE.chemist.id, limits })).photo;
       const vialBoxes = boxes.slice(SPECTRAL_CARD.length);
+      // The last vial doubles as a sealed check standard, registered with its D50 value (as a spectrophotometer would give it).
+      await actAs("admin");
+      const checkLab = spectrumLab(VIALS[VIALS.length - 1].transmittance, "D50");
+      expect(
+        await createCheckStandardAction(null, form({ name: `Check vial ${white}`, kind: "vial", l: String(checkLab[0]), a: String(checkLab[1]), b: String(checkLab[2]), whitePoint: "D50", sourceInstrument: "computed from CIE 018:2019 tables", notes: "" })),
+      ).toMatchObject({ ok: true });
+      const standardId = db().select().from(checkStandards).where(eq(checkStandards.name, `Check vial ${white}`)).get()!.id;
+      await actAs("chemist");
+      const [cx, cy, cw, ch] = vialBoxes[vialBoxes.length - 1];
       const save = await saveMeasurementsAction(
         null,
         form({
@@ -287,6 +297,7 @@ describe("accuracy through the app on a camera that is not sRGB", () => {
             photoId: benchPhoto.id,
             lightingProfileId: id,
             references: [],
+            checkStandards: [{ standardId, region: { shape: "rect", x: cx + INSET, y: cy + INSET, w: cw - 2 * INSET, h: ch - 2 * INSET } }],
             vials: vialBoxes.map(([x, y, w, h]) => ({ region: { shape: "rect", x: x + INSET, y: y + INSET, w: w - 2 * INSET, h: h - 2 * INSET }, dyeId: "dye_t1", solventId: "solv-methanol", acidBase: "neutral", ph: null, concentrationUmolL: 20, flagReason: "synthetic test vial" })),
           }),
         }),
@@ -295,6 +306,10 @@ describe("accuracy through the app on a camera that is not sRGB", () => {
       const saved = (save!.data!.ids as string[]).map((mid) => db().select().from(measurements).where(eq(measurements.id, mid)).get()!);
       const errors = saved.map((m, i) => deltaE00([m.l, m.a, m.b], spectrumLab(VIALS[i].transmittance, "D65") as [number, number, number]));
       for (const [i, e] of errors.entries()) expect(e, `${VIALS[i].name}: ${errors.map((x) => x.toFixed(2)).join(" ")}`).toBeLessThan(1.5);
+      const reading = db().select().from(checkReadings).where(eq(checkReadings.standardId, standardId)).get()!;
+      expect(reading).toMatchObject({ profileId: id, photoId: benchPhoto.id });
+      expect(reading.deltaE00).toBeLessThan(1.5);
+      expect(reading.deltaE00).toBeCloseTo(deltaE00([reading.l, reading.a, reading.b], checkLab as [number, number, number]), 6);
       for (const m of saved) {
         expect(m.correctionKind).toBe("calibration");
         expect(m.uDeltaE00).toBeGreaterThan(0);
@@ -303,6 +318,28 @@ describe("accuracy through the app on a camera that is not sRGB", () => {
       console.info(`accuracy ${white} card, warmPhone camera, method ${row.method}→${(row.calibration as { method: string }).method}: vial ΔE00 mean ${(errors.reduce((a, b) => a + b, 0) / errors.length).toFixed(2)}, max ${Math.max(...errors).toFixed(2)}; LOO mean ${row.looMeanDeltaE00!.toFixed(2)}, max ${row.looMaxDeltaE00!.toFixed(2)}; u(ΔE00) ${saved.map((m) => m.uDeltaE00!.toFixed(2)).join(" ")}`);
     });
   }
+});
+
+describe("search ties", () => {
+  it("marks a result whose ΔE00 differs from the one above by less than their combined uncertainty", async () => {
+    // Two dyes 0.3 ΔE00 apart in distance with ± 0.5 each: a tie (|Δ| < √(0.5² + 0.5²)); a third far away is not.
+    db().insert(dyes).values([{ id: "dye_tie_a", code: "TIE-A", name: "Tie A", dyeClass: "azo", synonyms: [] }, { id: "dye_tie_b", code: "TIE-B", name: "Tie B", dyeClass: "azo", synonyms: [] }, { id: "dye_far", code: "FAR-1", name: "Far", dyeClass: "azo", synonyms: [] }]).run();
+    const base = { conditionId: "cond_t1", rawR: 0.2, rawG: 0.2, rawB: 0.2, x: 18, y: 18, z: 18, pixelCount: 1000, rejectedCount: 0, spread: 0.4, createdBy: PEOPLE.chemist.id, reviewState: "accepted" as const };
+    db().insert(measurements).values([
+      { ...base, id: "ms_tie_a", dyeId: "dye_tie_a", l: 50, a: 21, b: 0, uDeltaE00: 0.5 },
+      { ...base, id: "ms_tie_b", dyeId: "dye_tie_b", l: 50, a: 21.4, b: 0, uDeltaE00: 0.5 },
+      { ...base, id: "ms_far", dyeId: "dye_far", l: 80, a: -30, b: 40, uDeltaE00: 0.5 },
+    ]).run();
+    const res = await searchRoute(new Request("http://localhost:3000/api/search?lab=50,20,0&limit=20", { headers: { authorization: `Bearer ${tokenFor("formulator")}` } }));
+    expect(res.status).toBe(200);
+    const body = await res.json();
+    const codes = body.results.map((r: { dye: { code: string } }) => r.dye.code);
+    const at = (code: string) => body.results[codes.indexOf(code)];
+    expect(codes.indexOf("TIE-B")).toBe(codes.indexOf("TIE-A") + 1);
+    expect(at("TIE-A").uncertaintyDeltaE00).toBe(0.5);
+    expect(at("TIE-B").tieWithPrevious).toBe(true);
+    expect(at("FAR-1").tieWithPrevious).toBe(false);
+  });
 });
 
 void CARD_PATCHES;
