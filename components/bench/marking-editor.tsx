@@ -602,6 +602,9 @@ export function MarkingEditor(props: {
                 ? "No light correction: choose a profile or mark a white/grey reference of known Lab."
                 : `Correction: ${profileId ? "profile" : ""}${profileId && refInputs.length ? " + " : ""}${refInputs.length ? "in-photo reference scaling" : ""} (${live.correction}).`}
             </p>
+            {live.photoFlags.includes("white-card-only") && (
+              <p className="text-warn" data-testid="white-card-only">White card only: no lighting profile stands behind these colours; expect a few ΔE00 (practitioner estimate).</p>
+            )}
             {live.error && (
               <p role="alert" className="mt-1 text-bad">
                 {live.error}

@@ -334,6 +334,7 @@ export function recordDrift(db: Db | Tx, r: { profileId: string; photoId: string
   const id = `dr_${randomUUID()}`;
   const flagged = r.deltaE00 > r.thresholdDeltaE00;
   db.insert(driftReadings).values({ id, ...r, flagged }).run();
+  recordAudit(db, { actorId: null, action: "drift-reading.create", entity: "drift_reading", entityId: id, after: { ...r, flagged } });
   return { id, flagged };
 }
 

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { db } from "@/db/client";
 import { listRecentPhotos } from "@/db/queries/bench";
 import { benchProfiles } from "@/db/queries/lighting";
+import { AccuracyNotes } from "@/components/lighting/accuracy-notes";
 import { PhotoUploader } from "@/components/bench/photo-uploader";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNotice } from "@/components/ui/safety";
@@ -26,8 +27,9 @@ export default async function BenchPage() {
         title="Bench"
         lead="Upload rack photos, then mark each vial and the white or grey reference on them. Colours are measured on the stored photo, corrected for the light, and wait for a second person's review."
       />
-      <div className="mb-4">
+      <div className="mb-4 grid gap-4 lg:grid-cols-2">
         <SafetyNotice />
+        <AccuracyNotes />
       </div>
       <Card title="Upload rack photos" className="mb-4">
         <PhotoUploader maxBytes={photoLimits().maxBytes} profiles={profiles} />
