@@ -1,5 +1,7 @@
 import { db } from "@/db/client";
+import { uncertaintiesOf } from "@/db/queries/lighting";
 import { resolveSolvent, searchByColour } from "@/db/queries/search";
+import { isTie } from "@/lib/color/uncertainty";
 import { apiRoute } from "@/lib/auth/guard";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { AppError } from "@/lib/errors";
@@ -27,11 +29,17 @@ export const GET = apiRoute({ access: ANY_ROLE, query: colourSearchQuerySchema }
     limit: query.limit,
     accept: word ? (l, a, b) => matchesColourWord(word, l, a, b) : undefined,
   });
+  // ± ΔE00 of each result's measurement; a result whose distance differs from the one before it by
+  // less than their combined uncertainty is marked as a tie (its rank over the other is not real).
+  const u = uncertaintiesOf(handle, results.map((r) => r.measurementId).filter((id): id is string => typeof id === "string"));
+  const withU = results.map((r) => ({ r, u: typeof r.measurementId === "string" ? (u.get(r.measurementId) ?? null) : null }));
   return {
     target: { lab: query.target.lab, ...(word ? { word: word.word } : {}) },
-    results: results.map((r) => ({
+    results: withU.map(({ r, u: uncertaintyDeltaE00 }, i) => ({
       dye: r.dye,
       deltaE00: r.deltaE00,
+      uncertaintyDeltaE00,
+      tieWithPrevious: i > 0 && uncertaintyDeltaE00 !== null && withU[i - 1].u !== null && isTie({ deltaE00: r.deltaE00, uncertaintyDeltaE00 }, { deltaE00: withU[i - 1].r.deltaE00, uncertaintyDeltaE00: withU[i - 1].u }),
       lab: r.lab,
       condition: r.condition,
       predicted: r.predicted,
