@@ -131,7 +131,7 @@ export function fitOls(
   if (leverage.some((h) => h > 1 - 1e-9)) {
     throw new ModelRefusal(
       "collinear-parameters",
-      "One solvent alone decides a coefficient of this fit (its leave-one-out error is undefined); add solvents with similar parameters to it.",
+      "The fit cannot tell the solvent parameters apart: one solvent alone decides a coefficient (no other solvent of the set varies that parameter). Add solvents that vary it.",
     );
   }
   const looPredicted = y.map((v, i) => v - residuals[i] / (1 - leverage[i]));
