@@ -33,28 +33,57 @@ export function interpolateAt(spectrum: SampledSpectrum, nm: number): number {
 }
 
 /**
+ * Per-wavelength tristimulus weights k·S(λ)·x̄(λ), k·S(λ)·ȳ(λ), k·S(λ)·z̄(λ) at 1 nm over 360–830 nm for a
+ * CIE illuminant and the CIE 1931 2° observer, with k = 100 / Σ S(λ) ȳ(λ) (CIE 015:2018 §7.1), so that
+ * X = Σ T(λ)·wx(λ) and a perfect transmitter has Y = 100. Computed once per illuminant.
+ */
+export type TristimulusWeights = { wavelengths: Float64Array; wx: Float64Array; wy: Float64Array; wz: Float64Array };
+const weightCache = new Map<WhitePointName, TristimulusWeights>();
+
+export function tristimulusWeights(illuminant: WhitePointName): TristimulusWeights {
+  const cached = weightCache.get(illuminant);
+  if (cached) return cached;
+  const spd = ILLUMINANT_SPD[illuminant];
+  const spdStart = spd[0][0];
+  const n = CIE1931_2DEG_CMF.length;
+  const w: TristimulusWeights = { wavelengths: new Float64Array(n), wx: new Float64Array(n), wy: new Float64Array(n), wz: new Float64Array(n) };
+  let norm = 0;
+  CIE1931_2DEG_CMF.forEach(([nm, xb, yb, zb], i) => {
+    const s = spd[nm - spdStart][1];
+    w.wavelengths[i] = nm;
+    w.wx[i] = s * xb;
+    w.wy[i] = s * yb;
+    w.wz[i] = s * zb;
+    norm += s * yb;
+  });
+  const k = 100 / norm;
+  for (let i = 0; i < n; i++) {
+    w.wx[i] *= k;
+    w.wy[i] *= k;
+    w.wz[i] *= k;
+  }
+  weightCache.set(illuminant, w);
+  return w;
+}
+
+/**
  * Tristimulus values of a transmitting (or reflecting) sample under a CIE illuminant, CIE 1931 2°
  * observer, by the CIE 015:2018 summation at 1 nm over 360–830 nm:
  * X = k Σ S(λ) T(λ) x̄(λ), k = 100 / Σ S(λ) ȳ(λ), so a perfect transmitter has Y = 100.
  * `transmittanceAt` gives T(λ) in 0–1 at each integer wavelength.
  */
 export function transmittanceToXyz(transmittanceAt: (nm: number) => number, illuminant: WhitePointName): Xyz {
-  const spd = ILLUMINANT_SPD[illuminant];
-  const spdStart = spd[0][0];
+  const { wavelengths, wx, wy, wz } = tristimulusWeights(illuminant);
   let x = 0;
   let y = 0;
   let z = 0;
-  let norm = 0;
-  for (const [nm, xb, yb, zb] of CIE1931_2DEG_CMF) {
-    const s = spd[nm - spdStart][1];
-    const t = transmittanceAt(nm);
-    x += s * t * xb;
-    y += s * t * yb;
-    z += s * t * zb;
-    norm += s * yb;
+  for (let i = 0; i < wavelengths.length; i++) {
+    const t = transmittanceAt(wavelengths[i]);
+    x += t * wx[i];
+    y += t * wy[i];
+    z += t * wz[i];
   }
-  const k = 100 / norm;
-  return [k * x, k * y, k * z];
+  return [x, y, z];
 }
 
 /** XYZ of a decadic absorbance spectrum, T = 10^(−A·scale) (Beer–Lambert scaling by `scale`). */
