@@ -31,6 +31,7 @@ import {
   type Solvent,
 } from "../schema";
 import { recordAudit } from "../queries/audit";
+import { ensureAllDyeModels } from "../queries/models";
 import { demoColour, demoDyes, demoSpectrum, gaussian, rng, type DemoDye } from "./demo-model";
 import { buildSolventTable } from "./solvent-table";
 
@@ -376,6 +377,9 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
       after: { dyes: dyeList.length, measurements: measurementRows.length, photos: photoRows.length },
     });
   });
+
+  // Solvent models and their predictions, so search with predictions answers at once (≈ 1 s of CPU per dye).
+  ensureAllDyeModels(db);
 
   return { users: DEMO_USERS.length, dyes: dyeList.length, measurements: measurementRows.length, photos: photoRows.length };
 }

@@ -16,7 +16,7 @@ async function loadSolventTable(): Promise<TableSolvent[]> {
     import("../../db/schema"),
     import("../../db/seed/solvent-table"),
   ]);
-  const toTable = (rows: { name: string; synonyms: string[] | null | undefined; ktPiStar?: number | null; ktAlpha?: number | null; ktBeta?: number | null; et30?: number | null; permittivity?: number | null }[]) =>
+  const toTable = (rows: { name: string; synonyms?: string[] | null; ktPiStar?: number | null; ktAlpha?: number | null; ktBeta?: number | null; et30?: number | null; permittivity?: number | null }[]) =>
     rows.map((s) => ({
       name: s.name,
       synonyms: s.synonyms ?? [],
