@@ -150,7 +150,7 @@ function plan(dyeList: DemoDye[], solventByName: Map<string, Solvent>, random: (
 }
 
 /** Seeds the invented demo scenario if there are no users yet. Returns what it added. */
-export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: number; dyes: number; measurements: number; photos: number } | null> {
+export async function seedDemo(db: Db, dataDirectory: string, options: { models?: boolean } = {}): Promise<{ users: number; dyes: number; measurements: number; photos: number } | null> {
   seedSolvents(db);
   if (count(db, users) > 0) return null;
 
@@ -378,8 +378,9 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
     });
   });
 
-  // Solvent models and their predictions, so search with predictions answers at once (≈ 1 s of CPU per dye).
-  ensureAllDyeModels(db);
+  // Solvent models and their predictions, so search with predictions answers at once (≈ 1 s of CPU per
+  // dye; off by default so tests that only need the measurements stay fast).
+  if (options.models) ensureAllDyeModels(db);
 
   return { users: DEMO_USERS.length, dyes: dyeList.length, measurements: measurementRows.length, photos: photoRows.length };
 }
