@@ -243,3 +243,41 @@ describe("binary mixtures (Bosch & Rosés preferential solvation)", () => {
     expect(boschRosesValue(fit, 0.2) - idealMixingValue(18000, 21000, 0.2)).toBeGreaterThan(500);
   });
 });
+
+describe("tune (constructed case)", () => {
+  it("finds the 50:50 blend of two solvents whose band positions bracket the target, ahead of either neat solvent", async () => {
+    const { tune } = await import("@/lib/models/tune");
+    const { bandLab } = await import("@/lib/color/band");
+    const band = { fwhmCm1: 4000, peakAbsorbance: 1.2, rmsDeltaE00: 0.3 };
+    const at = (nu: number) => bandLab({ wavenumberCm1: nu, fwhmCm1: band.fwhmCm1, peakAbsorbance: band.peakAbsorbance });
+    const solvent = (id: string, nu: number) => ({ solventId: id, solvent: id, cautions: "", medium: "protic", lab: at(nu), measured: true, uncertaintyDeltaE00: 0, wavenumberCm1: nu, wavenumberStdErrCm1: 50, extrapolated: false });
+    const dye = { dye: { id: "d", code: "D", name: "D" }, band, neat: [solvent("A", 16000), solvent("B", 20000), solvent("C", 23000)] };
+    const ranked = tune(at(18000), [dye], { limit: 5 });
+    expect(ranked[0].kind).toBe("blend");
+    expect(ranked[0].solvents.map((s) => s.solventId)).toEqual(["A", "B"]);
+    expect(ranked[0].x2).toBeCloseTo(0.5, 10);
+    expect(ranked[0].deltaE00).toBeLessThan(0.2);
+    expect(ranked[0].basis).toMatch(/ideal mixing/);
+    // A blend's uncertainty is wider than that of its measured ends (the ideal-mixing allowance).
+    expect(ranked[0].uncertaintyDeltaE00).toBeGreaterThan(band.rmsDeltaE00);
+    const neatB = tune(at(18000), [dye], { limit: 100 }).find((c) => c.kind === "neat" && c.solvents[0].solventId === "B")!;
+    expect(neatB.deltaE00).toBeGreaterThan(ranked[0].deltaE00 + 2);
+    // The target of a neat solvent's own colour ranks that solvent first.
+    expect(tune(at(23000), [dye], { limit: 1 })[0]).toMatchObject({ kind: "neat", measured: true });
+  });
+
+  it("uses the preferential-solvation curve when three compositions of the pair were measured", async () => {
+    const { tune } = await import("@/lib/models/tune");
+    const { bandLab } = await import("@/lib/color/band");
+    const band = { fwhmCm1: 4000, peakAbsorbance: 1.2, rmsDeltaE00: 0.3 };
+    const at = (nu: number) => bandLab({ wavenumberCm1: nu, fwhmCm1: band.fwhmCm1, peakAbsorbance: band.peakAbsorbance });
+    const truth = { y1: 16000, y2: 20000, y12: 19000, f21: 5, f121: 2 };
+    const solvent = (id: string, nu: number) => ({ solventId: id, solvent: id, cautions: "", medium: "protic", lab: at(nu), measured: true, uncertaintyDeltaE00: 0, wavenumberCm1: nu, wavenumberStdErrCm1: 50, extrapolated: false });
+    const points = [0.2, 0.4, 0.6, 0.8].map((x2) => ({ x2, value: boschRosesValue(truth, x2) }));
+    const dye = { dye: { id: "d", code: "D", name: "D" }, band, neat: [solvent("A", 16000), solvent("B", 20000)], blends: [{ solventId1: "A", solventId2: "B", points }] };
+    const target = at(boschRosesValue(truth, 0.3));
+    const best = tune(target, [dye], { limit: 1 })[0];
+    expect(best.basis).toBe("preferential solvation fit");
+    expect(best.x2).toBeCloseTo(0.3, 10);
+  });
+});
