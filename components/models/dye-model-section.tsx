@@ -43,7 +43,7 @@ function rowOf(fit: ScaleFit, s: ModelSolvent): number[] | null {
  * side by side with their leave-one-out errors), the chart of ν̃ against the scale, and the colour strip with
  * predicted swatches (hatched, ± ΔE00) in the solvents not measured, ordered by Kamlet–Taft β.
  */
-export function DyeModelSection({ model, solvents }: { model: DyeModel; solvents: ModelSolvent[] }) {
+export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel; solvents: ModelSolvent[]; dyeCode: string }) {
   const byId = new Map(solvents.map((s) => [s.id, s]));
   if (!model.chosen) {
     return (
@@ -190,6 +190,16 @@ export function DyeModelSection({ model, solvents }: { model: DyeModel; solvents
             </li>
           ))}
         </ul>
+        <form method="get" action="/tune" className="mt-4 flex flex-wrap items-end gap-2 text-sm" aria-label="Tune this dye">
+          <input type="hidden" name="dye" value={dyeCode} />
+          <label className="block">
+            <span className="font-medium">Find a solvent or blend for a colour</span>
+            <input name="target" placeholder="7a3fa0, 40,45,-50 or violet" className="mt-1 block w-56 rounded-md border border-line px-2 py-2" />
+          </label>
+          <button type="submit" className="rounded-md border border-accent bg-accent px-3 py-2 font-medium text-white">
+            Tune
+          </button>
+        </form>
       </Card>
     </>
   );

@@ -5,6 +5,8 @@
  */
 import { createHash } from "node:crypto";
 import { and, asc, eq, isNull, sql } from "drizzle-orm";
+import { fitApparentBand } from "../../lib/color/band";
+import { tuneDyeFromModel, type TuneDye } from "../../lib/models/tune";
 import { computeDyeModel, DYE_MODEL_VERSION, type DyeModel, type SolventColour, type TableSolvent } from "../../lib/models/dye-model";
 import type { Lab } from "../../lib/color/types";
 import type { Db } from "../connection";
@@ -181,4 +183,35 @@ export function searchPredictions(
       condition: { solvent: p.solvent, medium: p.medium, acidBase: "neutral" as const, pH: null },
       replicates: 0,
     }));
+}
+
+/**
+ * Tune inputs for one dye or all: the stored models (brought up to date) with each solvent's cautions,
+ * and the band positions of measured blends (apparent band with the dye's own width and strength).
+ */
+export function tuneInputs(db: Db, { dyeId }: { dyeId?: string } = {}): TuneDye[] {
+  if (!dyeId) ensureAllDyeModels(db);
+  const info = new Map(solventTableForModels(db).map((s) => [s.solventId, { solventId: s.solventId, solvent: s.solvent, cautions: s.cautions, medium: s.medium }]));
+  const list = db.select({ id: dyes.id, code: dyes.code, name: dyes.name }).from(dyes).where(dyeId ? eq(dyes.id, dyeId) : sql`1 = 1`).orderBy(asc(dyes.code)).all();
+  return list.map((d) => {
+    const model = ensureDyeModel(db, { dyeId: d.id });
+    const blendRows = db
+      .select({ l: measurements.l, a: measurements.a, b: measurements.b, s1: conditions.solventId, s2: conditions.secondSolventId, x2: conditions.secondSolventMoleFraction })
+      .from(measurements)
+      .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
+      .where(and(eq(measurements.dyeId, d.id), eq(measurements.reviewState, "accepted"), eq(conditions.acidBase, "neutral"), eq(measurements.illuminant, "D65")))
+      .all()
+      .filter((r) => r.s2 !== null && r.x2 !== null);
+    const pairs = new Map<string, { solventId1: string; solventId2: string; points: { x2: number; value: number }[] }>();
+    if (blendRows.length > 0 && Number.isFinite(model.band.fwhmCm1)) {
+      for (const r of blendRows) {
+        const key = `${r.s1}|${r.s2}`;
+        const entry = pairs.get(key) ?? { solventId1: r.s1, solventId2: r.s2!, points: [] };
+        const fit = fitApparentBand([r.l, r.a, r.b], { fwhmCm1: model.band.fwhmCm1, peakAbsorbance: model.band.peakAbsorbance });
+        if (fit.status === "ok") entry.points.push({ x2: r.x2!, value: fit.band.wavenumberCm1 });
+        pairs.set(key, entry);
+      }
+    }
+    return tuneDyeFromModel(d, model, info, [...pairs.values()]);
+  });
 }

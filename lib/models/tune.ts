@@ -13,6 +13,7 @@ import { bandLab } from "../color/band";
 import { deltaE00 } from "../color/difference";
 import type { Lab } from "../color/types";
 import { boschRosesValue, fitBoschRoses, type BlendPoint, type PreferentialSolvation } from "./blends";
+import { studentTQuantile } from "./student-t";
 
 export type TuneSolvent = { solventId: string; solvent: string; cautions: string; medium: string };
 
@@ -143,4 +144,41 @@ export function tune(target: Lab, dyes: readonly TuneDye[], { limit = 20, blends
 
 function pick(s: TuneSolvent): TuneSolvent {
   return { solventId: s.solventId, solvent: s.solvent, cautions: s.cautions, medium: s.medium };
+}
+
+/**
+ * A dye's tune input from its fitted model (dye-model.ts): measured colours with their apparent band
+ * positions, and predictions with theirs (standard error = 95 % half-width / t(0.975, dof)).
+ */
+export function tuneDyeFromModel(
+  dye: TuneDye["dye"],
+  model: import("./dye-model").DyeModel,
+  solvents: ReadonlyMap<string, TuneSolvent>,
+  blends: TuneDye["blends"] = [],
+): TuneDye {
+  const bandFit = model.chosen?.route === "band" ? model.scales.find((s) => s.model === model.chosen!.model)?.fit ?? null : null;
+  const hasBand = !model.band.refusal && Number.isFinite(model.band.fwhmCm1) && model.points.some((p) => p.used);
+  const t = bandFit ? studentTQuantile(0.975, bandFit.dof) : 1;
+  const info = (id: string, name: string): TuneSolvent => solvents.get(id) ?? { solventId: id, solvent: name, cautions: "", medium: "" };
+  const neat: TuneNeat[] = [
+    ...model.points.map((p) => ({
+      ...info(p.solventId, p.solvent),
+      lab: p.lab,
+      measured: true,
+      uncertaintyDeltaE00: 0,
+      wavenumberCm1: hasBand && p.used ? p.wavenumberCm1 : null,
+      wavenumberStdErrCm1: 0,
+      extrapolated: false,
+    })),
+    ...model.predictions.map((p) => ({
+      ...info(p.solventId, p.solvent),
+      lab: p.lab,
+      measured: false,
+      uncertaintyDeltaE00: p.uncertaintyDeltaE00,
+      wavenumberCm1: hasBand && p.route === "band" ? p.wavenumberCm1 : null,
+      wavenumberStdErrCm1: p.wavenumberHalfWidthCm1 !== null ? p.wavenumberHalfWidthCm1 / t : 0,
+      extrapolated: p.extrapolated,
+    })),
+  ];
+  return { dye, band: hasBand ? { fwhmCm1: model.band.fwhmCm1, peakAbsorbance: model.band.peakAbsorbance, rmsDeltaE00: model.band.rmsDeltaE00 } : null, neat, blends };
 }

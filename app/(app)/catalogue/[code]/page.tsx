@@ -172,7 +172,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             ))}
           </div>
         </Card>
-        <DyeModelSection model={ensureDyeModel(handle, { dyeId: dye.id })} solvents={listSolvents(handle)} />
+        <DyeModelSection model={ensureDyeModel(handle, { dyeId: dye.id })} solvents={listSolvents(handle)} dyeCode={dye.code} />
         <Card title="a*b* plane, one point per condition" className="lg:col-span-1">
           {planePoints.length ? <AbPlane points={planePoints} /> : <p className="text-sm text-ink-soft">No accepted colours yet.</p>}
         </Card>
