@@ -123,6 +123,19 @@ export const signInAttempts = sqliteTable(
   (t) => [index("sign_in_attempts_email_idx").on(t.email, t.at), index("sign_in_attempts_ip_idx").on(t.ip, t.at)],
 );
 
+/** Counted events for rate limits other than sign-ins (db/queries/rate.ts). */
+export const rateEvents = sqliteTable(
+  "rate_events",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    /** What is counted, e.g. "reset-by-address", "reset-by-account", "share-by-user". */
+    kind: text("kind").notNull(),
+    key: text("key").notNull(),
+    at: integer("at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("rate_events_kind_key_at_idx").on(t.kind, t.key, t.at)],
+);
+
 // ---------------------------------------------------------------- reference data
 
 export const dyes = sqliteTable("dyes", {

@@ -116,13 +116,13 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
 
 export const saveTemplateAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
   const input = parseInput(templateSchema, parseJson(payload));
-  const id = saveRackTemplate(db(), { actorId: user.id, name: input.name, regions: input.regions });
+  const id = saveRackTemplate(db(), { actorId: user.id, actorRole: user.role, name: input.name, regions: input.regions });
   revalidatePath("/bench", "layout");
   return { ok: true, message: `Layout “${input.name}” saved with ${input.regions.length} regions.`, data: { id } };
 });
 
 export const deleteTemplateAction = formAction({ access: BENCH_ROLES, schema: z.object({ id: z.string().min(1).max(100) }) }, async ({ id }, { user }) => {
-  deleteRackTemplate(db(), { actorId: user.id, id });
+  deleteRackTemplate(db(), { actorId: user.id, actorRole: user.role, id });
   revalidatePath("/bench", "layout");
   return { ok: true, message: "Layout deleted." };
 });

@@ -19,6 +19,7 @@ import {
   type NewMeasurement,
   type Region,
   type ReferenceUsed,
+  type Role,
   type TemplateRegion,
 } from "../schema";
 import { recordAudit } from "./audit";
@@ -272,11 +273,22 @@ export function listRackTemplates(db: Db) {
   return db.select().from(rackTemplates).orderBy(rackTemplates.name).all();
 }
 
-/** Saves a layout under a name; a layout saved again under the same name replaces the old one. */
-export function saveRackTemplate(db: Db, { actorId, name, regions }: { actorId: string; name: string; regions: TemplateRegion[] }) {
+/**
+ * A layout belongs to the person who saved it first (`created_by`); only they or an admin may
+ * overwrite or delete it. Everyone on the bench may apply it.
+ */
+function mayChangeTemplate(tx: Pick<Db, "select">, existing: { name: string; createdBy: string }, actor: { id: string; role: Role }) {
+  if (existing.createdBy === actor.id || actor.role === "admin") return;
+  const owner = tx.select({ name: users.name }).from(users).where(eq(users.id, existing.createdBy)).get()?.name ?? "someone else";
+  throw new AppError("forbidden", `The layout “${existing.name}” belongs to ${owner}; only they or an admin may change or delete it. Save yours under another name.`);
+}
+
+/** Saves a layout under a name; saved again under the same name by its owner (or an admin), it replaces the old one. */
+export function saveRackTemplate(db: Db, { actorId, actorRole, name, regions }: { actorId: string; actorRole: Role; name: string; regions: TemplateRegion[] }) {
   return db.transaction((tx) => {
     const existing = tx.select().from(rackTemplates).where(eq(rackTemplates.name, name)).get();
     if (existing) {
+      mayChangeTemplate(tx, existing, { id: actorId, role: actorRole });
       tx.update(rackTemplates).set({ regions, updatedAt: new Date() }).where(eq(rackTemplates.id, existing.id)).run();
       recordAudit(tx, { actorId, action: "rack-template.update", entity: "rack_template", entityId: existing.id, before: { regions: existing.regions }, after: { regions } });
       return existing.id;
@@ -288,10 +300,11 @@ export function saveRackTemplate(db: Db, { actorId, name, regions }: { actorId: 
   });
 }
 
-export function deleteRackTemplate(db: Db, { actorId, id }: { actorId: string; id: string }) {
+export function deleteRackTemplate(db: Db, { actorId, actorRole, id }: { actorId: string; actorRole: Role; id: string }) {
   db.transaction((tx) => {
     const existing = tx.select().from(rackTemplates).where(eq(rackTemplates.id, id)).get();
     if (!existing) throw new AppError("not_found", "That template no longer exists.");
+    mayChangeTemplate(tx, existing, { id: actorId, role: actorRole });
     tx.delete(rackTemplates).where(eq(rackTemplates.id, id)).run();
     recordAudit(tx, { actorId, action: "rack-template.delete", entity: "rack_template", entityId: id, before: { name: existing.name, regions: existing.regions } });
   });

@@ -12,6 +12,7 @@ import type { Mat3 } from "../../lib/color/matrix";
 import { linearSrgbToLab } from "../../lib/color/convert";
 import { deltaE00 } from "../../lib/color/difference";
 import { linearSrgbToXyzD65, mat3MulVec, srgbEncode, xyzD65ToLinearSrgb } from "../../lib/color/srgb";
+import { lambdaMax } from "../../lib/color/spectrum";
 import type { Lab, LinearRgb, Vec3 } from "../../lib/color/types";
 import { hashPassword } from "../../lib/auth/password";
 import { LocalStorage } from "../../lib/storage/local";
@@ -357,15 +358,13 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
           conditionRows.set(condKey, { id: conditionId, solventId: solvent.id, acidBase: "neutral" });
         }
         const s = demoSpectrum(d, { alpha: solvent.ktAlpha ?? 0, beta: solvent.ktBeta ?? 0, piStar: solvent.ktPiStar ?? 0 }, null);
-        let peak = 0;
-        s.values.forEach((v, i) => (v > s.values[peak] ? (peak = i) : null));
         tx.insert(spectra)
           .values({
             id: `sp_demo_${families.size}_${name.toLowerCase().replace(/[^a-z]+/g, "")}`,
             dyeId: `dye_${d.code.toLowerCase()}`,
             conditionId,
             points: s.wavelengths.map((w, i) => [w, Math.round((s.values[i] + 0.002 * gaussian(random)) * 1e4) / 1e4] as [number, number]),
-            lambdaMaxNm: s.wavelengths[peak],
+            lambdaMaxNm: lambdaMax(s),
             concentrationUmolL: 20,
             pathLengthMm: 10,
             instrument: "Demo UV-Vis, 1 cm quartz cell",

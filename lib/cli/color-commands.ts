@@ -4,8 +4,9 @@ import type { LabWhite } from "../color/convert";
 import { ColorInputError } from "../color/errors";
 import type { WhitePointName } from "../color/illuminants";
 import { measureCalibratedColour, type DayReference } from "../color/calibrated-measure";
+import { pixelsPerSampleFromAutocorrelation } from "../color/uncertainty";
 import { decodePhoto, measureRegion, type RegionSpec } from "../color/regions";
-import { fitPkaHendersonHasselbalch, parsePhSeriesCsv } from "../color/pka";
+import { fitPkaFromColours, parsePhSeriesCsv } from "../color/pka";
 import { parseAbsorbanceCsv, spectrumColour } from "../color/spectrum";
 import type { Lab } from "../color/types";
 import { readCalibrationFile } from "./calibration-file";
@@ -104,14 +105,17 @@ export async function measureCommand(args: string[]): Promise<unknown> {
     const rect = (b: number[]): RegionSpec => ({ shape: "rect", x: b[0], y: b[1], w: b[2], h: b[3] });
     let reference: DayReference | undefined;
     let referenceFlags: string[] = [];
+    let referencePerSample: number | undefined;
     if (whiteBox && whiteLab) {
       reference = { stats: measureRegion(photo, rect(whiteBox)), lab: whiteLab };
+      referencePerSample = pixelsPerSampleFromAutocorrelation(photo, rect(whiteBox));
       referenceFlags = reference.stats.flags.map((f) => `reference-${f}`);
     }
     const measurements = rois.map((box) => {
       const stats = measureRegion(photo, rect(box));
       // The calibration (if any) first, then the day's --white reference: see measureCalibratedColour.
-      const colour = measureCalibratedColour(stats, { calibration, white, reference, encoding: photo.format });
+      const pixelsPerSample = { region: pixelsPerSampleFromAutocorrelation(photo, rect(box)), reference: referencePerSample };
+      const colour = measureCalibratedColour(stats, { calibration, white, reference, encoding: photo.format, pixelsPerSample });
       return {
         roi: box,
         lab: colour.lab,
@@ -170,7 +174,7 @@ export async function pkaCommand(args: string[]): Promise<unknown> {
   const bytes = await readInput(positionals[0], "pH series CSV", PKA_USAGE);
   try {
     const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
-    const fit = fitPkaHendersonHasselbalch(parsePhSeriesCsv(text), blank);
+    const fit = fitPkaFromColours(parsePhSeriesCsv(text), blank);
     return {
       pKa: fit.pKa,
       pKaStdErr: fit.pKaStdErr,
@@ -178,6 +182,15 @@ export async function pkaCommand(args: string[]): Promise<unknown> {
       acidLab: fit.acidLab,
       baseLab: fit.baseLab,
       rmsDeltaE00: fit.rmsDeltaE00,
+      // Beyond the contract: how the figures were made and what to watch.
+      method: fit.method,
+      apparent: true,
+      transitionThresholdDeltaE00: fit.transitionThresholdDeltaE00,
+      bootstrapRuns: fit.bootstrapRuns,
+      acidBand: fit.acidBand,
+      baseBand: fit.baseBand,
+      flags: fit.flags,
+      messages: fit.messages,
     };
   } catch (error) {
     if (error instanceof TypeError) throw new CliError("The pH series file is not UTF-8 text; save it as a plain CSV file.");

@@ -2,7 +2,7 @@
  * One region's colour through a calibration (or none) and the day's white reference (or none), with
  * its uncertainty: the step the CLI's `measure` and the bench share. Pure.
  */
-import { applyCalibration, whiteAdaptation, type Calibration } from "./calibration";
+import { applyCalibration, checkWhiteReference, whiteAdaptation, type Calibration } from "./calibration";
 import { applyCorrection, fitWhiteScaling } from "./correction";
 import { linearSrgbInGamut, linearSrgbToHex, linearSrgbToLab, xyzToLinearSrgb, type LabWhite } from "./convert";
 import { labToLch } from "./lab";
@@ -26,8 +26,8 @@ export type MeasuredColour = {
 
 export type DayReference = { stats: RegionStats; lab: Lab };
 
-function sample(stats: RegionStats, encoding: PhotoEncoding): RegionSample {
-  return { camera: stats.linearRgb, sd: stats.sd ?? [0, 0, 0], pixels: Math.max(1, stats.pixels - stats.rejected), encoding };
+function sample(stats: RegionStats, encoding: PhotoEncoding, pixelsPerSample?: number): RegionSample {
+  return { camera: stats.linearRgb, sd: stats.sd ?? [0, 0, 0], pixels: Math.max(1, stats.pixels - stats.rejected), encoding, pixelsPerSample };
 }
 
 /**
@@ -38,7 +38,14 @@ function sample(stats: RegionStats, encoding: PhotoEncoding): RegionSample {
  */
 export function measureCalibratedColour(
   stats: RegionStats,
-  opts: { calibration: Calibration | null; white: LabWhite; reference?: DayReference; encoding: PhotoEncoding },
+  opts: {
+    calibration: Calibration | null;
+    white: LabWhite;
+    reference?: DayReference;
+    encoding: PhotoEncoding;
+    /** Pixels per independent sample of the region and the reference (`pixelsPerSampleFromAutocorrelation`); default: by encoding. */
+    pixelsPerSample?: { region?: number; reference?: number };
+  },
 ): MeasuredColour {
   const { calibration, white, reference } = opts;
   const flags: string[] = [...stats.flags];
@@ -51,6 +58,7 @@ export function measureCalibratedColour(
     toXyzD65 = (camera) => applyCalibration(calibration, camera, fixed).xyzD65;
   } else if (reference) {
     const correctionFor = (refCam: LinearRgb) => fitWhiteScaling({ measured: refCam, referenceLab: reference.lab }, white).correction;
+    checkWhiteReference(reference.lab, reference.stats.linearRgb);
     const fixed = correctionFor(reference.stats.linearRgb);
     toLab = (camera, refCam) => linearSrgbToLab(applyCorrection(refCam ? correctionFor(refCam) : fixed, camera), white);
     toXyzD65 = (camera) => linearSrgbToXyzD65(applyCorrection(fixed, camera));
@@ -62,8 +70,8 @@ export function measureCalibratedColour(
   }
   const uncertainty = colourUncertainty({
     toLab,
-    region: sample(stats, opts.encoding),
-    reference: reference ? sample(reference.stats, opts.encoding) : undefined,
+    region: sample(stats, opts.encoding, opts.pixelsPerSample?.region),
+    reference: reference ? sample(reference.stats, opts.encoding, opts.pixelsPerSample?.reference) : undefined,
     calibrationLabRms: calibration ? calibration.looLabRmsD65 : null,
   });
   const xyzD65 = toXyzD65(stats.linearRgb);

@@ -345,37 +345,27 @@ function fitMethod(method: CalibrationMethod, patches: readonly CalibrationPatch
       `The card has ${neutralCount} grey patch${neutralCount === 1 ? "" : "es"} and the tone curve needs ${TONE_CURVE_MIN_GREYS}: the camera's values were used as if they were sRGB, which a phone's JPEG is not; add greys for accurate colours.`,
     );
   }
+  const looLabs: (Lab | null)[] = [];
   const residuals: CalibrationResidual[] = patches.map((p, i) => {
     const deltaE = deltaE00(predictLab(full, p.camera, white), p.referenceLab);
-    let loo: number | null = null;
     let looLab: Lab | null = null;
-    const rest = patches.filter((_, j) => j !== i);
     try {
       // Leave-one-out refits everything the patch influenced: the tone curve (when ≥ 3 greys remain,
       // otherwise the full card's curve) and the correction.
-      const fit = fitFull(method, rest, white, linearise, full.toneCurve);
+      const fit = fitFull(method, patches.filter((_, j) => j !== i), white, linearise, full.toneCurve);
       looLab = predictLab(fit, p.camera, white);
-      loo = deltaE00(looLab, p.referenceLab);
     } catch (error) {
       if (!(error instanceof CalibrationError)) throw error;
     }
-    return { patch: i + 1, name: p.name, deltaE00: deltaE, looDeltaE00: loo, neutral: isNeutral(p.referenceLab), looLab } as CalibrationResidual & { looLab: Lab | null };
+    looLabs.push(looLab);
+    return { patch: i + 1, name: p.name, deltaE00: deltaE, looDeltaE00: looLab ? deltaE00(looLab, p.referenceLab) : null, neutral: isNeutral(p.referenceLab) };
   });
-  const looPairs = (residuals as (CalibrationResidual & { looLab: Lab | null })[])
-    .map((r, i) => ({ r, ref: patches[i].referenceLab }))
-    .filter((x) => x.r.looLab !== null);
+  const looPairs = looLabs.flatMap((lab, i) => (lab ? [{ predicted: labD65Of(lab, white), known: labD65Of(patches[i].referenceLab, white) }] : []));
   const looLabRmsD65: Vec3 | null =
-    looPairs.length > 0
-      ? ([0, 1, 2].map((k) => Math.sqrt(mean(looPairs.map(({ r, ref }) => (labD65Of(r.looLab as Lab, white)[k] - labD65Of(ref, white)[k]) ** 2)))) as Vec3)
-      : null;
-  const clean = residuals.map((r) => {
-    const { looLab: _omit, ...rest } = r as CalibrationResidual & { looLab: Lab | null };
-    void _omit;
-    return rest;
-  });
-  const loos = clean.map((r) => r.looDeltaE00).filter((v): v is number => v !== null);
-  if (loos.length < clean.length) {
-    warnings.push(`${clean.length - loos.length} of the ${clean.length} patches could not be predicted with themselves left out; their leave-one-out residual is missing.`);
+    looPairs.length > 0 ? ([0, 1, 2].map((k) => Math.sqrt(mean(looPairs.map(({ predicted, known }) => (predicted[k] - known[k]) ** 2)))) as Vec3) : null;
+  const loos = residuals.map((r) => r.looDeltaE00).filter((v): v is number => v !== null);
+  if (loos.length < residuals.length) {
+    warnings.push(`${residuals.length - loos.length} of the ${residuals.length} patches could not be predicted with themselves left out; their leave-one-out residual is missing.`);
   }
   return {
     format: "solvatlas-calibration",
@@ -385,9 +375,9 @@ function fitMethod(method: CalibrationMethod, patches: readonly CalibrationPatch
     toneCurve: full.toneCurve,
     coefficients: full.core.coefficients,
     ...(full.core.gains ? { gains: full.core.gains } : {}),
-    residuals: clean,
-    meanDeltaE00: mean(clean.map((r) => r.deltaE00)),
-    maxDeltaE00: Math.max(...clean.map((r) => r.deltaE00)),
+    residuals: residuals,
+    meanDeltaE00: mean(residuals.map((r) => r.deltaE00)),
+    maxDeltaE00: Math.max(...residuals.map((r) => r.deltaE00)),
     meanLooDeltaE00: loos.length ? mean(loos) : null,
     maxLooDeltaE00: loos.length ? Math.max(...loos) : null,
     looLabRmsD65,
@@ -523,6 +513,10 @@ export function parseCalibration(value: unknown): Calibration {
     throw new CalibrationError("invalid-calibration", INVALID);
   }
   if (!Array.isArray(c.residuals)) throw new CalibrationError("invalid-calibration", INVALID);
+  const rms = c.looLabRmsD65;
+  if (rms !== undefined && rms !== null && !(Array.isArray(rms) && rms.length === 3 && rms.every((v) => typeof v === "number" && Number.isFinite(v) && v >= 0))) {
+    throw new CalibrationError("invalid-calibration", INVALID);
+  }
   return {
     comparison: [],
     warnings: [],

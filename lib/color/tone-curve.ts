@@ -9,13 +9,14 @@
  * in ISO 14524:2009 ("Photography — Electronic still-picture cameras — Methods for measuring
  * opto-electronic conversion functions").
  *
- * The curve interpolates the greys in log–log coordinates (ln camera value → ln Y) with the
- * monotone piecewise-cubic Hermite interpolant of F. N. Fritsch and R. E. Carlson, "Monotone
- * piecewise cubic interpolation", SIAM J. Numer. Anal. 17(2), 238–246 (1980). Log–log because a
- * power law (the usual shape of a tone curve over a stretch) is a straight line there, so the
- * curve stays smooth between widely spaced greys. Outside the greys it continues as the straight
- * line of the end segment's secant (a power law through the end grey), which is monotone and does
- * not overshoot the way the cubic's end tangent might.
+ * The curve interpolates the greys in log–log coordinates (ln camera value → ln Y) with a monotone
+ * piecewise-cubic Hermite interpolant (F. N. Fritsch and R. E. Carlson, "Monotone piecewise cubic
+ * interpolation", SIAM J. Numer. Anal. 17(2), 238–246, 1980; slopes by Fritsch & Butland 1984, see
+ * `monotoneSlopes`). Log–log because a power law (the usual shape of a tone curve over a stretch)
+ * is a straight line there, so the curve stays smooth between widely spaced greys. Outside the
+ * greys it continues as the straight line of its end tangent (a power law through the end grey,
+ * linear-in-log extrapolation), which is monotone because the end slopes are never negative. A dye
+ * vial on a backlight is often lighter than the card's white, so the upper end matters.
  *
  * Each channel is mapped onto the greys' luminance Y (white of the target = 1), so after
  * linearisation a neutral patch has equal R, G and B: the curve also white-balances. The colour
@@ -45,33 +46,38 @@ const MIN_LN_STEP = 0.02;
 export const TONE_CURVE_MIN_GREYS = 3;
 
 /**
- * Fritsch–Carlson slopes (1980, steps 1–5): start from the three-point (average-of-secants)
- * estimate, set slopes to zero where the data are flat, and scale pairs of slopes back onto the
- * circle α² + β² ≤ 9 so each cubic segment is monotone.
+ * Slopes of a monotone piecewise-cubic Hermite interpolant (PCHIP): at interior knots the weighted
+ * harmonic mean of the neighbouring secants, zero where they differ in sign (F. N. Fritsch and
+ * J. Butland, "A method for constructing local monotone piecewise cubic interpolants", SIAM J. Sci.
+ * Stat. Comput. 5(2), 300–304, 1984); at the ends the one-sided three-point estimate, limited to
+ * 3× the end secant; both satisfy the monotonicity conditions of Fritsch & Carlson (1980). The
+ * harmonic mean follows a smooth curve more closely than Fritsch–Carlson's arithmetic mean with
+ * uneven knot spacing, which a card's grey scale has in log coordinates.
  */
-export function fritschCarlsonSlopes(x: readonly number[], y: readonly number[]): number[] {
+export function monotoneSlopes(x: readonly number[], y: readonly number[]): number[] {
   const n = x.length;
+  const h: number[] = [];
   const delta: number[] = [];
-  for (let i = 0; i < n - 1; i++) delta.push((y[i + 1] - y[i]) / (x[i + 1] - x[i]));
-  const m: number[] = new Array(n).fill(0);
-  m[0] = delta[0];
-  m[n - 1] = delta[n - 2];
-  for (let i = 1; i < n - 1; i++) m[i] = delta[i - 1] * delta[i] <= 0 ? 0 : (delta[i - 1] + delta[i]) / 2;
   for (let i = 0; i < n - 1; i++) {
-    if (delta[i] === 0) {
-      m[i] = 0;
-      m[i + 1] = 0;
-      continue;
-    }
-    const a = m[i] / delta[i];
-    const b = m[i + 1] / delta[i];
-    const s = a * a + b * b;
-    if (s > 9) {
-      const tau = 3 / Math.sqrt(s);
-      m[i] = tau * a * delta[i];
-      m[i + 1] = tau * b * delta[i];
-    }
+    h.push(x[i + 1] - x[i]);
+    delta.push((y[i + 1] - y[i]) / h[i]);
   }
+  const m: number[] = new Array(n).fill(0);
+  if (n === 2) return [delta[0], delta[0]];
+  for (let k = 1; k < n - 1; k++) {
+    if (delta[k - 1] * delta[k] <= 0) continue;
+    const w1 = 2 * h[k] + h[k - 1];
+    const w2 = h[k] + 2 * h[k - 1];
+    m[k] = (w1 + w2) / (w1 / delta[k - 1] + w2 / delta[k]);
+  }
+  const end = (h0: number, h1: number, d0: number, d1: number) => {
+    let v = ((2 * h0 + h1) * d0 - h0 * d1) / (h0 + h1);
+    if (Math.sign(v) !== Math.sign(d0)) v = 0;
+    else if (Math.sign(d0) !== Math.sign(d1) && Math.abs(v) > Math.abs(3 * d0)) v = 3 * d0;
+    return v;
+  };
+  m[0] = end(h[0], h[1], delta[0], delta[1]);
+  m[n - 1] = end(h[n - 2], h[n - 3], delta[n - 2], delta[n - 3]);
   return m;
 }
 
@@ -79,8 +85,8 @@ export function fritschCarlsonSlopes(x: readonly number[], y: readonly number[])
 function evaluateLn(curve: ChannelCurve, t: number): number {
   const { lnCamera: x, lnY: y, slopes: m } = curve;
   const n = x.length;
-  if (t <= x[0]) return y[0] + ((y[1] - y[0]) / (x[1] - x[0])) * (t - x[0]);
-  if (t >= x[n - 1]) return y[n - 1] + ((y[n - 1] - y[n - 2]) / (x[n - 1] - x[n - 2])) * (t - x[n - 1]);
+  if (t <= x[0]) return y[0] + m[0] * (t - x[0]);
+  if (t >= x[n - 1]) return y[n - 1] + m[n - 1] * (t - x[n - 1]);
   let i = 0;
   while (i < n - 2 && t > x[i + 1]) i++;
   const h = x[i + 1] - x[i];
@@ -135,7 +141,7 @@ export function fitToneCurve(greys: readonly GreyPoint[]): ToneCurve {
       lnCamera.push(x);
       lnY.push(y);
     }
-    return { lnCamera, lnY, slopes: fritschCarlsonSlopes(lnCamera, lnY) };
+    return { lnCamera, lnY, slopes: monotoneSlopes(lnCamera, lnY) };
   }) as [ChannelCurve, ChannelCurve, ChannelCurve];
   return { kind: "monotone-cubic-log-log", channels };
 }

@@ -9,12 +9,12 @@ import { execFile } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import sharp from "sharp";
 import { beforeAll, describe, expect, it } from "vitest";
 import { deltaE00 } from "@/lib/color/difference";
-import { renderSwatches, SYNTHETIC_CAMERAS, type SyntheticCamera } from "@/lib/color/synthetic-camera";
+import { SYNTHETIC_CAMERAS, type SyntheticCamera } from "@/lib/color/synthetic-camera";
 import type { Lab } from "@/lib/color/types";
-import { CARD, GREYS, sceneXyzD65, spectrumLab, VIALS } from "../support/spectral-card";
+import { cardPhoto } from "../support/camera";
+import { CARD, GREYS, spectrumLab, VIALS } from "../support/spectral-card";
 
 const ROOT = process.cwd();
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), "solvatlas-calibrate-"));
@@ -38,8 +38,6 @@ function expectRefusal(run: Run, pattern: RegExp) {
   expect(lines[0]).toMatch(pattern);
 }
 
-const SIZE = 48;
-const INSET = 6;
 type Box = [number, number, number, number];
 let cardBoxes: Box[] = [];
 let vialBoxes: Box[] = [];
@@ -48,12 +46,10 @@ const cardLabD50 = CARD.map((p) => spectrumLab(p.reflectance, "D50") as Lab);
 const vialLabD65 = VIALS.map((v) => spectrumLab(v.transmittance, "D65") as Lab);
 
 async function renderPng(camera: SyntheticCamera, light: "D65" | "D50", name: string): Promise<string> {
-  const swatches = [...CARD.map((p) => sceneXyzD65(p.reflectance, light)), ...VIALS.map((v) => sceneXyzD65(v.transmittance, light))];
-  const r = renderSwatches(camera, { swatches, columns: 6, size: SIZE, gap: 10 }, 11);
-  const boxes = r.boxes.map(([x, y, w, h]) => [x + INSET, y + INSET, w - 2 * INSET, h - 2 * INSET] as Box);
-  cardBoxes = boxes.slice(0, CARD.length);
-  vialBoxes = boxes.slice(CARD.length);
-  fs.writeFileSync(file(name), await sharp(Buffer.from(r.data), { raw: { width: r.width, height: r.height, channels: 3 } }).png().toBuffer());
+  const photo = await cardPhoto({ camera, light, size: 48, gap: 10, inset: 6, seed: 11 });
+  cardBoxes = photo.patches.map((p) => p.box);
+  vialBoxes = photo.vials.map((v) => v.box);
+  fs.writeFileSync(file(name), photo.file);
   return file(name);
 }
 
@@ -106,7 +102,7 @@ describe("calibrate then measure --calibration on a non-sRGB camera", () => {
     const plainErrors = JSON.parse(plain.stdout).measurements.map((m: { lab: Lab }, i: number) => deltaE00(m.lab, vialLabD65[i]));
     expect(plainErrors.reduce((a: number, b: number) => a + b, 0) / plainErrors.length).toBeGreaterThan(3);
     expect(JSON.parse(plain.stdout).measurements[0].flags).toContain("white-reference-only");
-  });
+  }, 120_000);
 
   it("reads D50 reference values as D50 (read as D65 they would be ≥ 1 ΔE00 off on the vials)", async () => {
     const d50 = await renderPng(SYNTHETIC_CAMERAS.warmPhone, "D50", "card-d50.png");
@@ -124,14 +120,18 @@ describe("calibrate then measure --calibration on a non-sRGB camera", () => {
     const meanWrong = w.reduce((s: number, x: { lab: Lab }, i: number) => s + deltaE00(x.lab, vialLabD50[i]), 0) / w.length;
     expect(meanWrong).toBeGreaterThan(1);
     cardPng = await renderPng(SYNTHETIC_CAMERAS.warmPhone, "D65", "card.png");
-  });
+  }, 180_000);
 });
 
 describe("calibrate refuses bad input as the contract says", () => {
   it("too few patches for the method", async () => {
-    expectRefusal(await cli(["calibrate", cardPng, ...patchArgs(cardLabD65, [0, 1, 2])]), /at least 4 patches/);
-    expectRefusal(await cli(["calibrate", cardPng, ...patchArgs(cardLabD65, [0, 1, 2, 3, 4, 5, 18, 19, 20]), "--method", "root-polynomial-2"]), /at least 18 patches/);
-  });
+    const [three, nine] = await Promise.all([
+      cli(["calibrate", cardPng, ...patchArgs(cardLabD65, [0, 1, 2])]),
+      cli(["calibrate", cardPng, ...patchArgs(cardLabD65, [0, 1, 2, 3, 4, 5, 18, 19, 20]), "--method", "root-polynomial-2"]),
+    ]);
+    expectRefusal(three, /at least 4 patches/);
+    expectRefusal(nine, /at least 18 patches/);
+  }, 120_000);
   it("greys only for a matrix", async () => {
     expectRefusal(await cli(["calibrate", cardPng, ...patchArgs(cardLabD65, [18, 19, 20, 21, 22, 23])]), /Grey patches alone/);
   });
@@ -139,20 +139,26 @@ describe("calibrate refuses bad input as the contract says", () => {
     expectRefusal(await cli(["calibrate", overexposedPng, ...patchArgs(cardLabD65)]), /clipped/);
   });
   it("a malformed --patch, an unknown method, a bad white point, no patches", async () => {
-    expectRefusal(await cli(["calibrate", cardPng, "--patch", "1,2,3,4"]), /x,y,w,h=L,a,b/);
-    expectRefusal(await cli(["calibrate", cardPng, "--patch", "1,2,3,4=50,a,0"]), /3 comma-separated numbers/);
-    expectRefusal(await cli(["calibrate", cardPng, "--patch", "1,2,0,4=50,0,0"]), /empty/);
-    expectRefusal(await cli(["calibrate", cardPng, ...patchArgs(cardLabD65), "--method", "cubic"]), /--method must be/);
-    expectRefusal(await cli(["calibrate", cardPng, ...patchArgs(cardLabD65), "--white-point", "D55"]), /--white-point must be/);
-    expectRefusal(await cli(["calibrate", cardPng]), /--patch/);
-    expectRefusal(await cli(["calibrate", cardPng, "--patch", "100000,0,10,10=50,0,0"]), /outside/);
-  });
+    // Run side by side: each child process loads TypeScript, which is slow on a busy machine.
+    const cases: [string[], RegExp][] = [
+      [["--patch", "1,2,3,4"], /x,y,w,h=L,a,b/],
+      [["--patch", "1,2,3,4=50,a,0"], /3 comma-separated numbers/],
+      [["--patch", "1,2,0,4=50,0,0"], /empty/],
+      [[...patchArgs(cardLabD65), "--method", "cubic"], /--method must be/],
+      [[...patchArgs(cardLabD65), "--white-point", "D55"], /--white-point must be/],
+      [[], /--patch/],
+      [["--patch", "100000,0,10,10=50,0,0"], /outside/],
+    ];
+    const runs = await Promise.all(cases.map(([args]) => cli(["calibrate", cardPng, ...args])));
+    runs.forEach((run, i) => expectRefusal(run, cases[i][1]));
+  }, 180_000);
   it("measure refuses a missing, non-JSON or foreign calibration file", async () => {
     const roi = ["--roi", vialBoxes[0].join(",")];
-    expectRefusal(await cli(["measure", cardPng, ...roi, "--calibration", file("nope.json")]), /does not exist/);
     fs.writeFileSync(file("junk.json"), "not json");
-    expectRefusal(await cli(["measure", cardPng, ...roi, "--calibration", file("junk.json")]), /not JSON/);
     fs.writeFileSync(file("other.json"), JSON.stringify({ method: "matrix-3x3", matrix: [1, 2, 3] }));
-    expectRefusal(await cli(["measure", cardPng, ...roi, "--calibration", file("other.json")]), /not a Solvatlas calibration/);
-  });
+    const [missing, junk, other] = await Promise.all(["nope.json", "junk.json", "other.json"].map((f) => cli(["measure", cardPng, ...roi, "--calibration", file(f)])));
+    expectRefusal(missing, /does not exist/);
+    expectRefusal(junk, /not JSON/);
+    expectRefusal(other, /not a Solvatlas calibration/);
+  }, 120_000);
 });

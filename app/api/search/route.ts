@@ -10,8 +10,9 @@ import { colourSearchQuerySchema } from "@/lib/search/query";
 
 /**
  * GET /api/search?lab=L,a,b | hex=rrggbb | word=violet &medium=&acidBase=&solvent=&phMin=&phMax=&limit=
- * One result per dye (its accepted colour closest to the target under the condition), ranked exactly
- * by CIEDE2000 (D65). See ../shared/CONTRACT.md.
+ * One result per dye: its condition whose mean colour (of the accepted replicates in that solvent,
+ * acid/base state and pH) is closest to the target, ranked exactly by CIEDE2000 (D65), with the
+ * replicate count and spread. See ../shared/CONTRACT.md.
  */
 export const GET = apiRoute({ access: ANY_ROLE, query: colourSearchQuerySchema }, async ({ query }) => {
   const handle = db();
@@ -42,7 +43,8 @@ export const GET = apiRoute({ access: ANY_ROLE, query: colourSearchQuerySchema }
       lab: r.lab,
       condition: r.condition,
       predicted: r.predicted,
-      measurementId: r.measurementId,
+      replicates: r.replicates,
+      spreadDeltaE00: r.spreadDeltaE00,
       measurements: r.measurements,
     })),
   };
