@@ -1,5 +1,5 @@
 import { db } from "@/db/client";
-import { uncertaintiesOf } from "@/db/queries/lighting";
+import { replicateMeanUncertainty } from "@/db/queries/lighting";
 import { resolveSolvent, searchByColour } from "@/db/queries/search";
 import { isTie } from "@/lib/color/uncertainty";
 import { apiRoute } from "@/lib/auth/guard";
@@ -29,10 +29,12 @@ export const GET = apiRoute({ access: ANY_ROLE, query: colourSearchQuerySchema }
     limit: query.limit,
     accept: word ? (l, a, b) => matchesColourWord(word, l, a, b) : undefined,
   });
-  // ± ΔE00 of each result's measurement; a result whose distance differs from the one before it by
+  // ± ΔE00 of each result's replicate mean; a result whose distance differs from the one before it by
   // less than their combined uncertainty is marked as a tie (its rank over the other is not real).
-  const u = uncertaintiesOf(handle, results.map((r) => r.measurementId).filter((id): id is string => typeof id === "string"));
-  const withU = results.map((r) => ({ r, u: typeof r.measurementId === "string" ? (u.get(r.measurementId) ?? null) : null }));
+  const withU = results.map((r) => ({
+    r,
+    u: replicateMeanUncertainty(handle, { dyeId: r.dye.id, solvent: r.condition.solvent, acidBase: r.condition.acidBase, pH: r.condition.pH, replicates: r.replicates, spreadDeltaE00: r.spreadDeltaE00 }),
+  }));
   return {
     target: { lab: query.target.lab, ...(word ? { word: word.word } : {}) },
     results: withU.map(({ r, u: uncertaintyDeltaE00 }, i) => ({
