@@ -73,6 +73,7 @@ it("the admin fits and approves a profile from a card photo; the chemist measure
   const corner = page.getByTestId("grid-corner-0");
   await corner.waitFor();
   // Drag the top-left handle towards the card's corner, then set every corner exactly.
+  await page.getByTestId("card-grid").scrollIntoViewIfNeeded();
   const box = (await page.getByTestId("card-grid").boundingBox())!;
   const c0 = (await corner.boundingBox())!;
   await page.mouse.move(c0.x + c0.width / 2, c0.y + c0.height / 2);
