@@ -98,9 +98,11 @@ it("the admin fits and approves a profile from a card photo; the chemist measure
   expect(mean).toBeLessThan(2);
 
   await page.getByRole("button", { name: "Approve this profile" }).click();
-  await page.getByText("Profile approved; chemists can now pick it on the bench.").waitFor();
+  // Once approved, the draft-only sections (fit, approve, edit) leave the page and the badge says so.
+  await expect.poll(() => page.getByTestId("profile-status").innerText(), { timeout: 30_000 }).toMatch(/Approved/);
   await page.reload();
   await expect(page.getByTestId("profile-status").innerText()).resolves.toMatch(/Approved/);
+  await expect(page.getByTestId("profile-state").innerText()).resolves.toBe("approved");
   await admin.signOut();
 
   // The chemist picks the new profile on the bench (the expired demo profile is not offered).
