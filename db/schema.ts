@@ -507,6 +507,53 @@ export const spectra = sqliteTable(
 );
 export type Spectrum = typeof spectra.$inferSelect;
 
+// ---------------------------------------------------------------- solvent models
+
+/**
+ * A dye's fitted solvent model (lib/models/dye-model.ts), derived from its accepted colours and the solvent
+ * table. Recomputed lazily: `cache_key` fingerprints the inputs, and a stale row is replaced on next read.
+ */
+export const dyeModels = sqliteTable("dye_models", {
+  dyeId: text("dye_id")
+    .primaryKey()
+    .references(() => dyes.id),
+  cacheKey: text("cache_key").notNull(),
+  version: integer("version").notNull(),
+  /** The whole result object (fits, band points, leave-one-out figures) as JSON. */
+  result: text("result", { mode: "json" }).notNull(),
+  computedAt: integer("computed_at", { mode: "timestamp_ms" }).notNull(),
+});
+export type DyeModelRow = typeof dyeModels.$inferSelect;
+
+/** Predicted colours of a dye in solvents it was not measured in: never measurements, always with ± ΔE00. */
+export const dyePredictions = sqliteTable(
+  "dye_predictions",
+  {
+    id: text("id").primaryKey(),
+    dyeId: text("dye_id")
+      .notNull()
+      .references(() => dyes.id),
+    solventId: text("solvent_id")
+      .notNull()
+      .references(() => solvents.id),
+    l: real("l").notNull(),
+    a: real("a").notNull(),
+    b: real("b").notNull(),
+    illuminant: text("illuminant", { enum: ILLUMINANTS }).notNull().default("D65"),
+    observer: text("observer").notNull().default("CIE 1931 2°"),
+    uncertaintyDeltaE00: real("uncertainty_delta_e00").notNull(),
+    extrapolated: integer("extrapolated", { mode: "boolean" }).notNull(),
+    /** "band" (scale fit on the apparent band position) or "cielab" (direct fit of L*, a*, b*). */
+    route: text("route").notNull(),
+    model: text("model").notNull(),
+    wavenumberCm1: real("wavenumber_cm1"),
+    wavenumberHalfWidthCm1: real("wavenumber_half_width_cm1"),
+    cacheKey: text("cache_key").notNull(),
+  },
+  (t) => [index("dye_predictions_dye_idx").on(t.dyeId)],
+);
+export type DyePredictionRow = typeof dyePredictions.$inferSelect;
+
 // ---------------------------------------------------------------- formulator work
 
 export const shortlists = sqliteTable("shortlists", {

@@ -34,6 +34,7 @@ import {
   type Solvent,
 } from "../schema";
 import { recordAudit } from "../queries/audit";
+import { ensureAllDyeModels } from "../queries/models";
 import { demoColour, demoDyes, demoSpectrum, gaussian, rng, type DemoDye } from "./demo-model";
 import { buildSolventTable } from "./solvent-table";
 
@@ -152,7 +153,7 @@ function plan(dyeList: DemoDye[], solventByName: Map<string, Solvent>, random: (
 }
 
 /** Seeds the invented demo scenario if there are no users yet. Returns what it added. */
-export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: number; dyes: number; measurements: number; photos: number } | null> {
+export async function seedDemo(db: Db, dataDirectory: string, options: { models?: boolean } = {}): Promise<{ users: number; dyes: number; measurements: number; photos: number } | null> {
   seedSolvents(db);
   if (count(db, users) > 0) return null;
 
@@ -388,6 +389,10 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
       after: { dyes: dyeList.length, measurements: measurementRows.length, photos: photoRows.length },
     });
   });
+
+  // Solvent models and their predictions, so search with predictions answers at once (≈ 1 s of CPU per
+  // dye; off by default so tests that only need the measurements stay fast).
+  if (options.models) ensureAllDyeModels(db);
 
   return { users: DEMO_USERS.length, dyes: dyeList.length, measurements: measurementRows.length, photos: photoRows.length };
 }

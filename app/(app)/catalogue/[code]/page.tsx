@@ -19,11 +19,15 @@ import { ANY_ROLE, BENCH_ROLES, hasRole } from "@/lib/auth/roles";
 import { labToLch } from "@/lib/color/lab";
 import type { Lab } from "@/lib/color/types";
 import { MEDIUM_LABELS, type MediumClass } from "@/lib/solvents/parameters";
+import { DyeModelSection } from "@/components/models/dye-model-section";
+import { ensureDyeModel } from "@/db/queries/models";
+import { listSolvents } from "@/db/queries/solvents";
 
 const SCALES = {
   et30: { label: "ET(30)", pick: (s: { et30: number | null }) => s.et30 },
   alpha: { label: "Kamlet–Taft α", pick: (s: { ktAlpha: number | null }) => s.ktAlpha },
   pistar: { label: "Kamlet–Taft π*", pick: (s: { ktPiStar: number | null }) => s.ktPiStar },
+  beta: { label: "Kamlet–Taft β", pick: (s: { ktBeta: number | null }) => s.ktBeta },
   permittivity: { label: "permittivity εr", pick: (s: { permittivity: number | null }) => s.permittivity },
 } as const;
 type ScaleKey = keyof typeof SCALES;
@@ -169,6 +173,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             ))}
           </div>
         </Card>
+        <DyeModelSection model={ensureDyeModel(handle, { dyeId: dye.id })} solvents={listSolvents(handle)} dyeCode={dye.code} />
         <Card title="a*b* plane, one point per condition" className="lg:col-span-1">
           {planePoints.length ? <AbPlane points={planePoints} /> : <p className="text-sm text-ink-soft">No accepted colours yet.</p>}
         </Card>
