@@ -6,13 +6,14 @@ import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useState } from "react";
 import { Button, ButtonLink } from "@/components/ui/button";
 import { Badge, Card } from "@/components/ui/card";
+import { PredictedSwatch } from "@/components/models/predicted-swatch";
 import { Swatch } from "@/components/ui/swatch";
 import type { Lab } from "@/lib/color/types";
 import { COLOUR_WORDS } from "@/lib/search/colour-words";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
 
-type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number };
+type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number; uncertaintyDeltaE00?: number };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
 
 const TARGET_KINDS = [
@@ -23,7 +24,7 @@ const TARGET_KINDS = [
 ] as const;
 type TargetKind = (typeof TARGET_KINDS)[number]["kind"];
 
-const FILTER_KEYS = ["medium", "acidBase", "solvent", "phMin", "phMax", "limit"] as const;
+const FILTER_KEYS = ["medium", "acidBase", "solvent", "phMin", "phMax", "limit", "predicted"] as const;
 
 export function ColourSearch({ solvents }: { solvents: { id: string; name: string }[] }) {
   const params = useSearchParams();
@@ -97,6 +98,10 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
               </select>
             )}
           </fieldset>
+          <label className="flex items-center gap-2 text-sm">
+            <input type="checkbox" name="predicted" value="include" defaultChecked={params.get("predicted") === "include"} className="h-5 w-5" />
+            Include colours predicted by the solvent models (marked, with their uncertainty)
+          </label>
           <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5">
             <label className="text-sm font-medium">
               Medium
@@ -170,7 +175,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                   <span className="w-6 text-right text-ink-soft">{i + 1}</span>
                   <span className="flex items-center gap-1">
                     <Swatch lab={answer.target.lab} label="target" size="sm" />
-                    <Swatch lab={r.lab} label={r.condition.solvent} />
+                    {r.predicted ? <PredictedSwatch lab={r.lab} uncertaintyDeltaE00={r.uncertaintyDeltaE00 ?? 0} label={r.condition.solvent} size="md" /> : <Swatch lab={r.lab} label={r.condition.solvent} />}
                   </span>
                   <div className="min-w-48 flex-1">
                     <Link href={`/catalogue/${encodeURIComponent(r.dye.code)}`} className="font-semibold text-accent hover:underline">
@@ -178,9 +183,9 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                     </Link>
                     <p className="text-ink-soft">{describeCondition(r.condition)}</p>
                   </div>
-                  <Badge tone={r.predicted ? "warn" : "ok"}>{r.predicted ? "predicted" : "measured"}</Badge>
+                  <Badge tone={r.predicted ? "warn" : "ok"}>{r.predicted ? `predicted ± ${(r.uncertaintyDeltaE00 ?? 0).toFixed(1)} ΔE00` : "measured"}</Badge>
                   <span className="w-28 text-ink-soft">
-                    {r.measurements} measurement{r.measurements === 1 ? "" : "s"}
+                    {r.predicted ? "solvent model" : `${r.measurements} measurement${r.measurements === 1 ? "" : "s"}`}
                   </span>
                   <span className="w-24 text-right font-semibold tabular-nums">ΔE00 {r.deltaE00.toFixed(1)}</span>
                 </li>

@@ -15,7 +15,7 @@ describe("solvent models in the browser", () => {
     const errors = watchConsole(page);
     await new SignInPage(page, base).signIn("formulator@demo.test");
 
-    await page.goto(`${base}/catalogue/KB-BT-107`);
+    await page.goto(`${base}/catalogue/KB-BT-107`, { timeout: 120_000 });
     const sentence = page.getByTestId("model-sentence");
     await sentence.waitFor();
     expect(await sentence.innerText()).toMatch(/most sensitive to hydrogen-bond donation \(α\): a = [\d,]+ ± [\d,]+ cm⁻¹/);
@@ -31,6 +31,7 @@ describe("solvent models in the browser", () => {
     expect(await predicted.count()).toBeGreaterThan(3);
     expect(await predicted.first().getAttribute("aria-label")).toMatch(/predicted .* ± \d+\.\d ΔE00 \(not measured\)/);
     expect(await strip.innerText()).toMatch(/predicted ± \d+\.\d/);
+    if (process.env.MODELS_SCREENSHOTS) await page.screenshot({ path: `${process.env.MODELS_SCREENSHOTS}/dye.png`, fullPage: true });
 
     // Tune from the dye page: a colour word as the target.
     const form = page.getByRole("form", { name: "Tune this dye" });
@@ -45,9 +46,10 @@ describe("solvent models in the browser", () => {
     expect(await ranked.innerText()).toMatch(/x₂ = 0\.\d \(mole fraction of /);
     expect(await ranked.innerText()).toMatch(/ideal mixing \(approximation\)/);
     await expect(page.getByRole("complementary", { name: "Safety" }).isVisible()).resolves.toBe(true);
+    if (process.env.MODELS_SCREENSHOTS) await page.screenshot({ path: `${process.env.MODELS_SCREENSHOTS}/tune.png`, fullPage: true });
 
     // Across dyes: which dye, in which solvent or blend, comes closest to a hex colour.
-    await page.goto(`${base}/tune?dye=all&target=2f6fb0`);
+    await page.goto(`${base}/tune?dye=all&target=2f6fb0`, { timeout: 180_000 });
     await ranked.waitFor();
     const codes = await ranked.locator("tbody tr td:nth-child(3) a").allInnerTexts();
     expect(new Set(codes).size).toBeGreaterThan(1);
