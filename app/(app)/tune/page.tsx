@@ -28,7 +28,7 @@ export default async function TunePage({ searchParams }: { searchParams: Promise
   const query = parsed.success ? parsed.data : null;
   const dye = query?.dyeCode ? findDyeByCode(handle, { code: query.dyeCode }) : undefined;
   const unknownDye = query?.dyeCode && !dye;
-  const results = query?.target && !unknownDye ? tune(query.target, tuneInputs(handle, { dyeId: dye?.id }), { limit: 25, blends: query.blends }) : [];
+  const results = query?.target && !unknownDye ? tune(query.target, tuneInputs(handle, { dyeId: dye?.id }), { limit: 25, blends: query.blends, perDye: dye ? Infinity : 3 }) : [];
   const cautionSolvents = [...new Map(results.flatMap((r) => r.solvents).map((s) => [s.solvent, { name: s.solvent, cautions: s.cautions }])).values()];
 
   return (
