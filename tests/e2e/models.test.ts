@@ -58,5 +58,5 @@ describe("solvent models in the browser", () => {
     await page.goto(`${base}/tune?dye=all&target=purple-ish`);
     await page.getByText(/Give the target colour as a hex colour/).waitFor();
     expect(errors.filter((e) => !/favicon/.test(e))).toEqual([]);
-  }, 240_000);
+  }, 480_000);
 });
