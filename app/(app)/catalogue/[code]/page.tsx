@@ -12,6 +12,7 @@ import { ButtonLink } from "@/components/ui/button";
 import { listShortlists } from "@/db/queries/shortlists";
 import { lightingProfiles, photos } from "@/db/schema";
 import { Badge, Card, PageHeader } from "@/components/ui/card";
+import { UncertaintyText } from "@/components/lighting/uncertainty";
 import { Swatch } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE, BENCH_ROLES, hasRole } from "@/lib/auth/roles";
@@ -207,6 +208,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
                   <th className="py-2 pr-2 text-right">L*</th>
                   <th className="py-2 pr-2 text-right">C*</th>
                   <th className="py-2 pr-2 text-right">h°</th>
+                  <th className="py-2 pr-2 text-right">± ΔE00</th>
                   <th className="py-2 pr-2">State</th>
                 </tr>
               </thead>
@@ -226,6 +228,9 @@ export default async function DyePage({ params, searchParams }: { params: Promis
                       <td className="py-1.5 pr-2 text-right tabular-nums">{lch[0].toFixed(1)}</td>
                       <td className="py-1.5 pr-2 text-right tabular-nums">{lch[1].toFixed(1)}</td>
                       <td className="py-1.5 pr-2 text-right tabular-nums">{lch[2].toFixed(0)}</td>
+                      <td className="py-1.5 pr-2 text-right tabular-nums">
+                        <UncertaintyText value={m.uDeltaE00} />
+                      </td>
                       <td className="py-1.5 pr-2">
                         <Badge tone={m.reviewState === "accepted" ? "ok" : m.reviewState === "pending" ? "warn" : "bad"}>{m.reviewState}</Badge>
                       </td>
