@@ -126,7 +126,7 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
               <h3 className="mb-1 text-sm font-semibold">
                 Band position against {MODEL_LABELS[fit.model]} ({fit.n} solvents)
               </h3>
-              <ScaleChart points={points} xLabel={xLabel(fit)} predictions={chartPredictions} />
+              <ScaleChart points={points} xLabel={xLabel(fit)} xDecimals={fit.model === "kamlet-taft" ? 0 : fit.model === "et30" ? 1 : 2} predictions={chartPredictions} />
             </div>
             <div>
               <h3 className="mb-1 text-sm font-semibold">Observed against predicted ν̃ (leave-one-out triangles)</h3>

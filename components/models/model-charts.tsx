@@ -11,10 +11,7 @@ const fmt = (v: number) => Math.round(v).toLocaleString("en-GB");
  * predicted-vs-observed with the leave-one-out points. Filled circles are measured band positions,
  * open triangles the leave-one-out predictions, so the chart reads without colour.
  */
-export function ScaleChart({ points, xLabel, predictions }: { points: ScalePoint[]; xLabel: string; predictions?: { solvent: string; x: number; value: number; halfWidth: number }[] }) {
-  const xs = points.map((p) => p.x);
-  const lo = Math.min(...xs);
-  const hi = Math.max(...xs);
+export function ScaleChart({ points, xLabel, xDecimals, predictions }: { points: ScalePoint[]; xLabel: string; xDecimals: number; predictions?: { solvent: string; x: number; value: number; halfWidth: number }[] }) {
   const slopeLine = [...points].sort((a, b) => a.x - b.x).map((p) => ({ x: p.x, line: p.fitted }));
   return (
     <figure>
@@ -22,7 +19,7 @@ export function ScaleChart({ points, xLabel, predictions }: { points: ScalePoint
         <ResponsiveContainer>
           <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
             <CartesianGrid stroke="#e4e1da" />
-            <XAxis type="number" dataKey="x" domain={[lo - 0.05 * (hi - lo || 1), hi + 0.05 * (hi - lo || 1)]} tickFormatter={(v: number) => v.toFixed(2)} label={{ value: xLabel, position: "insideBottom", offset: -16 }} />
+            <XAxis type="number" dataKey="x" domain={["auto", "auto"]} tickFormatter={(v: number) => v.toLocaleString("en-GB", { maximumFractionDigits: xDecimals, minimumFractionDigits: xDecimals })} label={{ value: xLabel, position: "insideBottom", offset: -16 }} />
             <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={64} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
             <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
             <Legend verticalAlign="top" height={28} />
@@ -44,15 +41,15 @@ export function ScaleChart({ points, xLabel, predictions }: { points: ScalePoint
 /** Observed vs leave-one-out predicted ν̃ with the 1:1 line; residuals are the vertical distances. */
 export function ObservedPredictedChart({ points }: { points: ScalePoint[] }) {
   const all = points.flatMap((p) => [p.observed, p.loo]);
-  const lo = Math.min(...all);
-  const hi = Math.max(...all);
+  const lo = Math.floor(Math.min(...all) / 500) * 500;
+  const hi = Math.ceil(Math.max(...all) / 500) * 500;
   return (
     <div style={{ width: "100%", height: 280 }}>
       <ResponsiveContainer>
         <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
           <CartesianGrid stroke="#e4e1da" />
-          <XAxis type="number" dataKey="x" domain={[lo, hi]} tickFormatter={fmt} label={{ value: "observed ν̃ / cm⁻¹", position: "insideBottom", offset: -16 }} />
-          <YAxis type="number" domain={[lo, hi]} tickFormatter={fmt} width={64} label={{ value: "predicted ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
+          <XAxis type="number" dataKey="x" domain={["auto", "auto"]} tickFormatter={fmt} label={{ value: "observed ν̃ / cm⁻¹", position: "insideBottom", offset: -16 }} />
+          <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={64} label={{ value: "predicted ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
           <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
           <Legend verticalAlign="top" height={28} />
           <Line data={[{ x: lo, y: lo }, { x: hi, y: hi }]} dataKey="y" name="observed = predicted" stroke="#8b8578" strokeDasharray="4 4" dot={false} isAnimationActive={false} />

@@ -6,6 +6,7 @@ import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useState } from "react";
 import { Button, ButtonLink } from "@/components/ui/button";
 import { Badge, Card } from "@/components/ui/card";
+import { PredictedSwatch } from "@/components/models/predicted-swatch";
 import { Swatch } from "@/components/ui/swatch";
 import type { Lab } from "@/lib/color/types";
 import { COLOUR_WORDS } from "@/lib/search/colour-words";
@@ -23,7 +24,7 @@ const TARGET_KINDS = [
 ] as const;
 type TargetKind = (typeof TARGET_KINDS)[number]["kind"];
 
-const FILTER_KEYS = ["medium", "acidBase", "solvent", "phMin", "phMax", "limit"] as const;
+const FILTER_KEYS = ["medium", "acidBase", "solvent", "phMin", "phMax", "limit", "predicted"] as const;
 
 export function ColourSearch({ solvents }: { solvents: { id: string; name: string }[] }) {
   const params = useSearchParams();
@@ -97,6 +98,10 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
               </select>
             )}
           </fieldset>
+          <label className="flex items-center gap-2 text-sm">
+            <input type="checkbox" name="predicted" value="include" defaultChecked={params.get("predicted") === "include"} className="h-5 w-5" />
+            Include colours predicted by the solvent models (marked, with their uncertainty)
+          </label>
           <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5">
             <label className="text-sm font-medium">
               Medium
@@ -170,7 +175,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                   <span className="w-6 text-right text-ink-soft">{i + 1}</span>
                   <span className="flex items-center gap-1">
                     <Swatch lab={answer.target.lab} label="target" size="sm" />
-                    <Swatch lab={r.lab} label={r.condition.solvent} />
+                    {r.predicted ? <PredictedSwatch lab={r.lab} uncertaintyDeltaE00={r.uncertaintyDeltaE00 ?? 0} label={r.condition.solvent} size="md" /> : <Swatch lab={r.lab} label={r.condition.solvent} />}
                   </span>
                   <div className="min-w-48 flex-1">
                     <Link href={`/catalogue/${encodeURIComponent(r.dye.code)}`} className="font-semibold text-accent hover:underline">
@@ -180,7 +185,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                   </div>
                   <Badge tone={r.predicted ? "warn" : "ok"}>{r.predicted ? "predicted" : "measured"}</Badge>
                   <span className="w-36 text-ink-soft" title="The colour is the mean CIELAB of the accepted replicates; spread is their RMS ΔE00 from that mean.">
-                    mean of {r.replicates ?? r.measurements} replicate{(r.replicates ?? r.measurements) === 1 ? "" : "s"}
+                    {r.predicted ? "solvent model, not measured" : `mean of ${r.replicates ?? r.measurements} replicate${(r.replicates ?? r.measurements) === 1 ? "" : "s"}`}
                     {r.spreadDeltaE00 !== undefined && (r.replicates ?? 0) > 1 && <span className="block">spread ΔE00 {r.spreadDeltaE00.toFixed(1)}</span>}
                   </span>
                   <span className="w-24 text-right font-semibold tabular-nums">

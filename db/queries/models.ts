@@ -189,12 +189,13 @@ export function searchPredictions(
  * Tune inputs for one dye or all: the stored models (brought up to date) with each solvent's cautions,
  * and the band positions of measured blends (apparent band with the dye's own width and strength).
  */
-export function tuneInputs(db: Db, { dyeId }: { dyeId?: string } = {}): TuneDye[] {
-  if (!dyeId) ensureAllDyeModels(db);
+export function tuneInputs(db: Db, { dyeId, storedOnly = false }: { dyeId?: string; storedOnly?: boolean } = {}): TuneDye[] {
+  const stored = storedOnly ? new Map(db.select().from(dyeModels).all().map((r) => [r.dyeId, r.result as DyeModel])) : null;
   const info = new Map(solventTableForModels(db).map((s) => [s.solventId, { solventId: s.solventId, solvent: s.solvent, cautions: s.cautions, medium: s.medium }]));
   const list = db.select({ id: dyes.id, code: dyes.code, name: dyes.name }).from(dyes).where(dyeId ? eq(dyes.id, dyeId) : sql`1 = 1`).orderBy(asc(dyes.code)).all();
-  return list.map((d) => {
-    const model = ensureDyeModel(db, { dyeId: d.id });
+  return list.flatMap((d) => {
+    const model = stored ? stored.get(d.id) : ensureDyeModel(db, { dyeId: d.id });
+    if (!model) return [];
     const blendRows = db
       .select({ l: measurements.l, a: measurements.a, b: measurements.b, s1: conditions.solventId, s2: conditions.secondSolventId, x2: conditions.secondSolventMoleFraction })
       .from(measurements)
@@ -212,6 +213,6 @@ export function tuneInputs(db: Db, { dyeId }: { dyeId?: string } = {}): TuneDye[
         pairs.set(key, entry);
       }
     }
-    return tuneDyeFromModel(d, model, info, [...pairs.values()]);
+    return [tuneDyeFromModel(d, model, info, [...pairs.values()])];
   });
 }

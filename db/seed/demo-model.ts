@@ -29,12 +29,21 @@ export type DemoDye = {
   hazards: string;
   /** Neutral (or acid) form. */
   band: Band;
+  /**
+   * Specific solvation the scales do not describe: extra shift of the band, kK, in named solvents
+   * (e.g. a hydrogen bond to water stronger than α predicts). Invented.
+   */
+  departures?: Record<string, number>;
+  /** A second band that moves with the first (a dye no single band explains). Offset of its centre, kK. */
+  secondBand?: { offset: number; peak: number; sigma: number };
+  /** Only these solvents were measured (e.g. a dye tried in aprotic solvents only). */
+  panel?: string[];
   /** Base form, for dyes with an acid/base response. */
   baseBand?: Band;
   pKa?: number;
 };
 
-export type SolventParams = { alpha: number; beta: number; piStar: number };
+export type SolventParams = { alpha: number; beta: number; piStar: number; name?: string };
 
 export { gaussian, mulberry32 as rng } from "../../lib/random";
 
@@ -141,11 +150,50 @@ export function demoDyes(): DemoDye[] {
       dyes.push(dye);
     }
   }
+  return addDepartures(dyes);
+}
+
+/** Deterministic per-name numbers that leave the shared random sequence (and so the rest of the demo) untouched. */
+function hashed(text: string): () => number {
+  let h = 2166136261;
+  for (let i = 0; i < text.length; i++) h = Math.imul(h ^ text.charCodeAt(i), 16777619);
+  return rng(h >>> 0);
+}
+
+const APROTIC_PANEL = ["N,N-Dimethylformamide", "Dimethyl sulfoxide", "N-Methyl-2-pyrrolidone", "Pyridine", "Tetrahydrofuran", "Ethyl acetate", "1,4-Dioxane", "Toluene", "Cyclohexane", "n-Hexane"];
+
+/**
+ * Realistic departures from the linear band model, so fits have something to be honest about (all
+ * invented): betaines and merocyanines are hydrogen-bonded more strongly than α says in water,
+ * ethylene glycol and trifluoroethanol and shifted in pyridine (specific solvation); every dye gets a small
+ * solvent-specific scatter; one anthraquinone absorbs in two regions (no single band explains its colours);
+ * one coumarin was only ever measured in solvents with α = 0 (none donates a hydrogen bond: its Kamlet–Taft fit must be refused).
+ */
+function addDepartures(dyes: DemoDye[]): DemoDye[] {
+  for (const dye of dyes) {
+    const r = hashed(dye.code);
+    const departures: Record<string, number> = {};
+    for (const name of ["Water", "Methanol", "Ethanol", "2-Propanol", "tert-Butanol", "Ethylene glycol", "Benzyl alcohol", "2,2,2-Trifluoroethanol", "Acetone", "2-Butanone", "Acetonitrile", "N,N-Dimethylformamide", "Dimethyl sulfoxide", "N-Methyl-2-pyrrolidone", "Pyridine", "Dichloromethane", "Tetrahydrofuran", "Ethyl acetate", "Chloroform", "1,4-Dioxane", "Toluene", "Cyclohexane", "n-Hexane"]) {
+      departures[name] = 0.06 * (2 * r() - 1);
+    }
+    if (dye.dyeClass === "betaine" || dye.dyeClass === "merocyanine") {
+      departures.Water += 0.35 + 0.2 * r();
+      departures["Ethylene glycol"] += 0.2 + 0.15 * r();
+      departures["2,2,2-Trifluoroethanol"] -= 0.3 + 0.2 * r();
+      departures.Pyridine -= 0.15 + 0.1 * r();
+    }
+    dye.departures = departures;
+  }
+  const twoBand = dyes.find((d) => d.name === "Skerry Quinone 55");
+  if (twoBand) twoBand.secondBand = { offset: 7.2, peak: twoBand.band.peak * 0.9, sigma: 1.2 };
+  const aproticOnly = dyes.find((d) => d.name === "Marram Coumarin 47");
+  if (aproticOnly) aproticOnly.panel = APROTIC_PANEL;
   return dyes;
 }
 
-function bandCentre(band: Band, solvent: SolventParams): number {
-  return band.nu0 + band.s * solvent.piStar + band.a * solvent.alpha + band.b * solvent.beta;
+function bandCentre(band: Band, solvent: SolventParams, departures?: Record<string, number>): number {
+  const specific = solvent.name && departures ? (departures[solvent.name] ?? 0) : 0;
+  return band.nu0 + band.s * solvent.piStar + band.a * solvent.alpha + band.b * solvent.beta + specific;
 }
 
 /** Absorbance spectrum (380–780 nm, 2 nm) of a dye in a solvent at a pH (null = unbuffered, neutral form). */
@@ -156,10 +204,13 @@ export function demoSpectrum(dye: DemoDye, solvent: SolventParams, pH: number | 
   for (let nm = 380; nm <= 780; nm += 2) {
     const nu = 1e4 / nm; // kK
     let a = 0;
-    const acidCentre = bandCentre(dye.band, solvent);
+    const acidCentre = bandCentre(dye.band, solvent, dye.departures);
     a += (1 - fractionBase) * dye.band.peak * Math.exp(-0.5 * ((nu - acidCentre) / dye.band.sigma) ** 2);
+    if (dye.secondBand) {
+      a += (1 - fractionBase) * dye.secondBand.peak * Math.exp(-0.5 * ((nu - acidCentre - dye.secondBand.offset) / dye.secondBand.sigma) ** 2);
+    }
     if (dye.baseBand && fractionBase > 0) {
-      const baseCentre = bandCentre(dye.baseBand, solvent);
+      const baseCentre = bandCentre(dye.baseBand, solvent, dye.departures);
       a += fractionBase * dye.baseBand.peak * Math.exp(-0.5 * ((nu - baseCentre) / dye.baseBand.sigma) ** 2);
     }
     wavelengths.push(nm);

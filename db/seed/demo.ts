@@ -134,7 +134,7 @@ type Planned = { dye: DemoDye; solvent: Solvent; acidBase: AcidBase; pH: number 
 function plan(dyeList: DemoDye[], solventByName: Map<string, Solvent>, random: () => number): Planned[] {
   const out: Planned[] = [];
   dyeList.forEach((dye, index) => {
-    const panel = PANEL.filter(() => random() < 0.8);
+    const panel = PANEL.filter(() => random() < 0.8).filter((name) => !dye.panel || dye.panel.includes(name));
     for (const name of panel) out.push({ dye, solvent: solventByName.get(name)!, acidBase: "neutral", pH: name === "Water" ? 7 : null, additive: "" });
     if (dye.pKa !== undefined) {
       for (const name of ["Water", "Ethanol"]) {
@@ -230,7 +230,7 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
     const vials: LinearRgb[] = [];
     const photoId = `ph_demo_${String(r + 1).padStart(4, "0")}`;
     rack.items.forEach((item, slot) => {
-      const { xyz } = demoColour(item.dye, { alpha: item.solvent.ktAlpha ?? 0, beta: item.solvent.ktBeta ?? 0, piStar: item.solvent.ktPiStar ?? 0 }, item.pH);
+      const { xyz } = demoColour(item.dye, { alpha: item.solvent.ktAlpha ?? 0, beta: item.solvent.ktBeta ?? 0, piStar: item.solvent.ktPiStar ?? 0, name: item.solvent.name }, item.pH);
       const sampleRgb = xyzD65ToLinearSrgb(xyz);
       const rawExact = mat3MulVec(camera.matrix, sampleRgb);
       const clipped = rawExact.some((v) => v < 0.002 || v > 0.98);
@@ -358,7 +358,7 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
           tx.insert(conditions).values({ id: conditionId, solventId: solvent.id, acidBase: "neutral", ph: null, additive: "", concentrationUmolL: 20, pathLengthMm: 10, temperatureC: 23 }).run();
           conditionRows.set(condKey, { id: conditionId, solventId: solvent.id, acidBase: "neutral" });
         }
-        const s = demoSpectrum(d, { alpha: solvent.ktAlpha ?? 0, beta: solvent.ktBeta ?? 0, piStar: solvent.ktPiStar ?? 0 }, null);
+        const s = demoSpectrum(d, { alpha: solvent.ktAlpha ?? 0, beta: solvent.ktBeta ?? 0, piStar: solvent.ktPiStar ?? 0, name: solvent.name }, null);
         tx.insert(spectra)
           .values({
             id: `sp_demo_${families.size}_${name.toLowerCase().replace(/[^a-z]+/g, "")}`,

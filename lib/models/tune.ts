@@ -72,8 +72,13 @@ function colourCurve(band: NonNullable<TuneDye["band"]>) {
   };
 }
 
-/** Ranks every neat solvent and every blend on the grid for each dye; returns the best `limit`. */
-export function tune(target: Lab, dyes: readonly TuneDye[], { limit = 20, blends = true }: { limit?: number; blends?: boolean } = {}): TuneCandidate[] {
+/**
+ * Ranks every neat solvent and every blend on the grid for each dye and returns the best `limit`: per pair
+ * only its best mole fraction; colours within `TIE_DELTA_E00` of each other are ordered by their
+ * uncertainty (a blend that lands on the same colour with a surer prediction comes first), and at most
+ * `perDye` candidates of one dye are kept (for the question "which dye, in which solvent or blend").
+ */
+export function tune(target: Lab, dyes: readonly TuneDye[], { limit = 20, blends = true, perDye = Infinity }: { limit?: number; blends?: boolean; perDye?: number } = {}): TuneCandidate[] {
   const out: TuneCandidate[] = [];
   for (const d of dyes) {
     for (const n of d.neat) {
@@ -138,9 +143,29 @@ export function tune(target: Lab, dyes: readonly TuneDye[], { limit = 20, blends
       }
     }
   }
-  out.sort((p, q) => p.deltaE00 - q.deltaE00 || Number(q.measured) - Number(p.measured));
-  return out.slice(0, limit);
+  const bestPerPair = new Map<string, TuneCandidate>();
+  for (const c of out) {
+    const key = `${c.dye.id}|${c.solvents.map((s) => s.solventId).join("|")}`;
+    const kept = bestPerPair.get(key);
+    if (!kept || c.deltaE00 < kept.deltaE00 - TIE_DELTA_E00 || (Math.abs(c.deltaE00 - kept.deltaE00) <= TIE_DELTA_E00 && c.uncertaintyDeltaE00 < kept.uncertaintyDeltaE00)) bestPerPair.set(key, c);
+  }
+  const ranked = [...bestPerPair.values()].sort(
+    (p, q) => Math.round(p.deltaE00 / TIE_DELTA_E00) - Math.round(q.deltaE00 / TIE_DELTA_E00) || Number(q.measured) - Number(p.measured) || p.uncertaintyDeltaE00 - q.uncertaintyDeltaE00,
+  );
+  const perDyeCount = new Map<string, number>();
+  const result: TuneCandidate[] = [];
+  for (const c of ranked) {
+    const n = perDyeCount.get(c.dye.id) ?? 0;
+    if (n >= perDye) continue;
+    perDyeCount.set(c.dye.id, n + 1);
+    result.push(c);
+    if (result.length >= limit) break;
+  }
+  return result;
 }
+
+/** Colours closer than this to each other rank as equal and are ordered by uncertainty (about a tenth of a just-noticeable difference; our choice). */
+export const TIE_DELTA_E00 = 0.1;
 
 function pick(s: TuneSolvent): TuneSolvent {
   return { solventId: s.solventId, solvent: s.solvent, cautions: s.cautions, medium: s.medium };

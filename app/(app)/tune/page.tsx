@@ -28,7 +28,11 @@ export default async function TunePage({ searchParams }: { searchParams: Promise
   const query = parsed.success ? parsed.data : null;
   const dye = query?.dyeCode ? findDyeByCode(handle, { code: query.dyeCode }) : undefined;
   const unknownDye = query?.dyeCode && !dye;
-  const results = query?.target && !unknownDye ? tune(query.target, tuneInputs(handle, { dyeId: dye?.id }), { limit: 25, blends: query.blends }) : [];
+  // Across dyes the stored models are used as they are (kept up to date beside the server and on each dye
+  // page), so the page never waits for every model to be recomputed.
+  const inputs = query?.target && !unknownDye ? tuneInputs(handle, { dyeId: dye?.id, storedOnly: !dye }) : [];
+  const missing = query?.target && !dye ? dyes.length - inputs.length : 0;
+  const results = query?.target && !unknownDye ? tune(query.target, inputs, { limit: 25, blends: query.blends, perDye: dye ? Infinity : 3 }) : [];
   const cautionSolvents = [...new Map(results.flatMap((r) => r.solvents).map((s) => [s.solvent, { name: s.solvent, cautions: s.cautions }])).values()];
 
   return (
@@ -138,6 +142,11 @@ export default async function TunePage({ searchParams }: { searchParams: Promise
                   </tbody>
                 </table>
               </div>
+              {missing > 0 && (
+                <p className="mt-2 text-xs text-ink-soft">
+                  {missing} {missing === 1 ? "dye has" : "dyes have"} no stored solvent model yet and {missing === 1 ? "is" : "are"} not ranked; opening a dye’s page computes its model.
+                </p>
+              )}
               <p className="mt-2 text-xs text-ink-soft">
                 Predictions come from each dye’s solvent model (see its page); blends assume ideal mixing of the band position (ν̃) unless the pair was measured in three or more compositions, and
                 carry a wider uncertainty for that approximation. A model fitted on few solvents is a guide, not a guarantee: confirm the colour at the bench.
