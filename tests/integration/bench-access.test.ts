@@ -79,9 +79,11 @@ it("refuses a cookie-authenticated upload from another site (no same-origin)", a
 });
 
 type ActionCase = { name: string; allowed: readonly Caller[]; run: () => Promise<{ ok: boolean; code?: string } | null> };
+// Rack layouts belong to whoever saved them (only they or an admin overwrite one): each caller saves its own name.
+let layoutSerial = 0;
 const ACTIONS: ActionCase[] = [
   { name: "save measurements", allowed: ["admin", "chemist"], run: () => saveMeasurementsAction(null, form({ payload: JSON.stringify({ photoId, vials: [] }) })) },
-  { name: "save a rack layout", allowed: ["admin", "chemist"], run: () => saveTemplateAction(null, form({ payload: JSON.stringify({ name: "L", regions: [{ shape: "rect", x: 0.1, y: 0.1, w: 0.1, h: 0.1, role: "vial", label: "Vial 1" }] }) })) },
+  { name: "save a rack layout", allowed: ["admin", "chemist"], run: () => saveTemplateAction(null, form({ payload: JSON.stringify({ name: `L${++layoutSerial}`, regions: [{ shape: "rect", x: 0.1, y: 0.1, w: 0.1, h: 0.1, role: "vial", label: "Vial 1" }] }) })) },
   { name: "delete a rack layout", allowed: ["admin", "chemist"], run: () => deleteTemplateAction(null, form({ id: "rt_missing" })) },
 ];
 
