@@ -15,7 +15,7 @@ async function main() {
   try {
     migrateDatabase(db);
     if (process.argv.includes("--seed-demo")) {
-      const added = await seedDemo(db, dir);
+      const added = await seedDemo(db, dir, { models: true });
       console.error(added ? `Demo data added: ${added.dyes} dyes, ${added.measurements} measurements, ${added.photos} photos.` : "Database already in use; demo seed skipped.");
     } else {
       const n = seedSolvents(db);

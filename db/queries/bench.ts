@@ -1,6 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { and, desc, eq, isNull, sql } from "drizzle-orm";
-import { correctionFromArray } from "../../lib/color/correction";
+import { calibrationOfProfile, correctionOfProfile } from "../../lib/lighting/calibration";
 import type { ProfileForPipeline } from "../../lib/bench/pipeline";
 import { AppError } from "../../lib/errors";
 import type { Db } from "../connection";
@@ -23,6 +23,7 @@ import {
   type TemplateRegion,
 } from "../schema";
 import { recordAudit } from "./audit";
+import { assertBenchProfile } from "./lighting";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
@@ -99,9 +100,9 @@ export function acceptedMeasurements(db: Db, { dyeId }: { dyeId?: string } = {})
 /** A lighting profile in the form the colour pipeline takes; throws 422 for an unknown id. */
 export function profileForPipeline(db: Db, id: string | null): ProfileForPipeline | null {
   if (!id) return null;
-  const p = db.select().from(lightingProfiles).where(eq(lightingProfiles.id, id)).get();
-  if (!p) throw new AppError("invalid_input", "lightingProfileId: no lighting profile has that id; pick one from the list.", { lightingProfileId: ["Unknown lighting profile."] });
-  return { id: p.id, name: p.name, correction: correctionFromArray(p.correctionKind, p.correction), validFrom: p.validFrom, validUntil: p.validUntil };
+  // Draft, retired, expired or not-yet-valid profiles are refused here, whatever the page offered.
+  const p = assertBenchProfile(db, id);
+  return { id: p.id, name: p.name, correction: correctionOfProfile(p), calibration: calibrationOfProfile(p), validFrom: p.validFrom, validUntil: p.validUntil, looMeanDeltaE00: p.looMeanDeltaE00 };
 }
 
 /** The condition row for these values, made if no identical one exists yet. */
@@ -143,6 +144,8 @@ export type MeasurementToSave = {
   spread: number;
   flags: string[];
   flagReason: string | null;
+  /** Standard uncertainties of L*, a*, b* and the combined ± ΔE00 (null when not computed). */
+  uncertainty?: { uL: number; uA: number; uB: number; uDeltaE00: number } | null;
 };
 
 /**
@@ -227,6 +230,10 @@ export function saveMeasurements(
         pixelCount: v.pixels,
         rejectedCount: v.rejected,
         spread: v.spread,
+        uL: v.uncertainty?.uL ?? null,
+        uA: v.uncertainty?.uA ?? null,
+        uB: v.uncertainty?.uB ?? null,
+        uDeltaE00: v.uncertainty?.uDeltaE00 ?? null,
         flags: v.flags,
         flagReason: v.flags.length ? v.flagReason : null,
         reviewState: "pending",

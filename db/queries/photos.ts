@@ -17,6 +17,7 @@ import type { Db } from "../connection";
 import { lightingProfiles, photos, type Photo } from "../schema";
 import { recordAudit } from "./audit";
 import { profileForPipeline } from "./bench";
+import { assertBenchProfile } from "./lighting";
 
 export type StorePhotoResult = { photo: Photo; duplicate: boolean };
 
@@ -34,8 +35,8 @@ export async function storePhoto(
   if (known) return { photo: known, duplicate: true };
 
   if (input.lightingProfileId) {
-    const profile = db.select({ id: lightingProfiles.id }).from(lightingProfiles).where(eq(lightingProfiles.id, input.lightingProfileId)).get();
-    if (!profile) throw new AppError("invalid_input", "lightingProfileId: no lighting profile has that id. Pick one from the Lighting page, or leave it out.", { lightingProfileId: ["Unknown lighting profile."] });
+    // Unknown, draft, retired or expired profiles are refused (the sentence says which and what to do).
+    assertBenchProfile(db, input.lightingProfileId);
   }
   const facts = await inspectPhoto(input.bytes, input.limits);
   const derived = await makeDerivatives(input.bytes, input.limits);

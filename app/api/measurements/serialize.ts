@@ -29,6 +29,11 @@ export function measurementJson(r: MeasurementRow) {
     pixels: m.pixelCount,
     rejected: m.rejectedCount,
     spread: m.spread,
+    /** Standard uncertainties of L*, a*, b* and the combined ± ΔE00 (null for rows made before they were stored). */
+    uncertainty: m.uDeltaE00 === null ? null : { l: m.uL, a: m.uA, b: m.uB },
+    uncertaintyDeltaE00: m.uDeltaE00,
+    /** "white-card-only": corrected by an in-photo white reference alone, with no lighting profile. */
+    correctionBasis: m.lightingProfileId ? "profile" : m.correctionKind === "white-scaling" ? "white-card-only" : m.correctionKind && m.correctionKind !== "none" ? "other" : "uncorrected",
     flags: m.flags,
     flagReason: m.flagReason,
     reviewState: m.reviewState,
