@@ -14,7 +14,7 @@ const apiHeaders = [
 /** @type {import('next').NextConfig} */
 const nextConfig = {
   // Native modules stay outside the server bundle.
-  serverExternalPackages: ["better-sqlite3", "sharp", "piscina"],
+  serverExternalPackages: ["better-sqlite3", "sharp", "piscina", "esbuild"],
   poweredByHeader: false,
   experimental: {
     // Over-limit server actions are refused with 413 by proxy.ts before Next reads them.

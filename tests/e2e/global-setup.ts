@@ -56,7 +56,8 @@ export default async function setup(project: TestProject) {
     detached: true,
   });
   const base = `http://localhost:${port}`;
-  await waitFor(`${base}/sign-in`, server, 90_000);
+  // The demo seed fits solvent models before serving: minutes on a loaded 2-core machine.
+  await waitFor(`${base}/sign-in`, server, 300_000);
   project.provide("baseUrl", base);
   project.provide("dataDir", dataDir);
 

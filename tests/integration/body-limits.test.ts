@@ -47,7 +47,7 @@ function post(url: string, body: ReadableStream<Uint8Array>, headers: Record<str
 
 beforeAll(async () => {
   await buildWorld();
-});
+}, 60_000);
 
 describe("request bodies are counted as they stream", () => {
   it("a chunked JSON body to the measure route stops at MAX_BODY_MB with 413", async () => {

@@ -16,7 +16,7 @@ const FORMULAS = ["=HYPERLINK(\"http://evil.example\",\"x\")", "+1+cmd|' /C calc
 beforeAll(async () => {
   await buildWorld();
   db().insert(dyes).values({ id: "dye_csv", code: "=CSV-1", name: "@Formula Red", dyeClass: "azo", hazards: "-irritant" }).run();
-});
+}, 60_000);
 
 describe("shortlist CSV export", () => {
   it("writes no cell a spreadsheet would run as a formula, and keeps numbers as numbers", async () => {

@@ -26,7 +26,7 @@ beforeAll(async () => {
   await actAs("formulator");
   const made = await createShortlistAction(null, form({ name: "WIN A PRIZE http://evil.example", notes: "" }));
   shortlistId = (made?.data as { id: string }).id;
-});
+}, 60_000);
 
 describe("sharing a shortlist", () => {
   it("refuses an address outside the lab and sends nothing", async () => {

@@ -19,7 +19,7 @@ import { rackPhoto } from "../support/photos";
 
 beforeAll(async () => {
   await buildWorld();
-});
+}, 60_000);
 
 const layout = (name: string, n: number) =>
   form({ payload: JSON.stringify({ name, regions: Array.from({ length: n }, (_, i) => ({ shape: "rect", x: 0.1 * i, y: 0.2, w: 0.05, h: 0.3, role: "vial", label: `V${i + 1}` })) }) });

@@ -18,7 +18,7 @@ import { actAs, buildWorld, form, PEOPLE, tokenFor } from "../support/world";
 
 beforeAll(async () => {
   await buildWorld();
-});
+}, 60_000);
 
 async function tokenWorks(token: string): Promise<boolean> {
   const caller = await identifyCaller(db(), new Headers({ authorization: `Bearer ${token}` }));

@@ -48,7 +48,7 @@ function manyRegions(width: number, height: number) {
 beforeAll(async () => {
   await buildWorld();
   token = tokenFor("chemist");
-});
+}, 60_000);
 
 afterAll(async () => {
   await closePhotoPool();

@@ -16,7 +16,7 @@ beforeAll(async () => {
   // @ts-expect-error plain CommonJS preload without types
   await import("../../scripts/peer-address.cjs");
   await buildWorld();
-});
+}, 60_000);
 
 afterEach(() => {
   vi.useRealTimers();

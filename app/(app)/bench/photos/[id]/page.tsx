@@ -9,6 +9,8 @@ import { labD50ToLabD65 } from "@/lib/color/convert";
 import { getPhoto } from "@/db/queries/photos";
 import { listSolvents } from "@/db/queries/solvents";
 import { MarkingEditor } from "@/components/bench/marking-editor";
+import { PhotoFileMissing } from "@/components/bench/photo-file-missing";
+import { objectStore } from "@/lib/storage";
 import { Badge, Card, PageHeader } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import { Refused } from "@/components/shell/refused";
@@ -38,6 +40,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
   const solvents = listSolvents(handle).map((s) => ({ id: s.id, name: s.name, medium: s.medium, cautions: s.cautions }));
   const templates = listRackTemplates(handle).map((t) => ({ id: t.id, name: t.name, regions: t.regions }));
   const existing = photoMeasurements(handle, { photoId: photo.id });
+  const fileMissing = !(await objectStore().has(photo.storageKey));
   return (
     <>
       <PageHeader
@@ -49,6 +52,9 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
           </Link>
         }
       />
+      {fileMissing ? (
+        <PhotoFileMissing name={photo.originalName || photo.id} />
+      ) : (
       <MarkingEditor
         photo={{ id: photo.id, width: photo.width, height: photo.height, name: photo.originalName, lightingProfileId: photo.lightingProfileId }}
         displayUrl={`/api/photos/${photo.id}/image?size=display`}
@@ -58,6 +64,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
         templates={templates}
         patches={patches}
       />
+      )}
       <Card title={`Measured in this photo (${existing.length})`} className="mt-6">
         {existing.length === 0 ? (
           <p className="text-sm text-ink-soft">Nothing saved from this photo yet.</p>
