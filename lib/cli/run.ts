@@ -1,10 +1,11 @@
 import { parseArgs } from "node:util";
+import { backupCommand, restoreCommand } from "./backup-commands";
 import { measureCommand, pkaCommand, spectrumCommand } from "./color-commands";
 import { CliError } from "./errors";
 
 export { CliError };
 
-const COMMAND_LIST = "measure <image> --roi x,y,w,h, spectrum <csv>, pka <csv> or token create --email <user> --name <label>";
+const COMMAND_LIST = "measure <image> --roi x,y,w,h, spectrum <csv>, pka <csv>, token create --email <user> --name <label>, backup <folder> or restore <folder> [--replace]";
 
 type Command = (args: string[]) => Promise<unknown>;
 
@@ -40,7 +41,7 @@ const tokenCommand: Command = async (args) => {
   }
 };
 
-export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, pka: pkaCommand, token: tokenCommand };
+export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, pka: pkaCommand, token: tokenCommand, backup: backupCommand, restore: restoreCommand };
 
 export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;
