@@ -27,8 +27,9 @@ import path from "node:path";
 import Database from "better-sqlite3";
 import { type BackupRecord } from "../lib/ops/backup-record";
 import { runningServer, SERVER_PID_FILE } from "../lib/ops/server-lock";
-import type { ObjectStore } from "../lib/storage/driver";
-import { databaseFile, migrateDatabase, MIGRATIONS_DIR, openDatabase } from "./connection";
+import { STORE_PREFIXES, type ObjectStore } from "../lib/storage/driver";
+import { databaseFile, migrateDatabase, openDatabase } from "./connection";
+import { appliedMigrations, migrationJournal } from "./schema-level";
 
 export const MANIFEST_FILE = "solvatlas-backup.json";
 const FORMAT = "solvatlas-backup";
@@ -50,20 +51,6 @@ export type Manifest = {
   /** Photo files a row pointed to that the store did not have when the backup was taken. */
   missingFromStore: string[];
 };
-
-type JournalEntry = { idx: number; when: number; tag: string };
-
-export function migrationJournal(migrationsFolder = MIGRATIONS_DIR): JournalEntry[] {
-  const journal = JSON.parse(fs.readFileSync(path.join(migrationsFolder, "meta", "_journal.json"), "utf8")) as { entries: JournalEntry[] };
-  return journal.entries;
-}
-
-/** The migrations a database has applied, as drizzle's migrator records them (created_at = the journal's `when`). */
-export function appliedMigrations(sqlite: Database.Database): number[] {
-  const table = sqlite.prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND name = '__drizzle_migrations'").get();
-  if (!table) return [];
-  return (sqlite.prepare("SELECT created_at FROM __drizzle_migrations ORDER BY created_at").pluck().all() as (number | string)[]).map(Number);
-}
 
 function schemaLevel(sqlite: Database.Database): Manifest["schema"] {
   const applied = appliedMigrations(sqlite);
@@ -317,8 +304,10 @@ export function verifyBackup(folder: string): Manifest {
 /** DATA_DIR holds data a restore would overwrite: a database, or photo files. */
 function holdsData(dataDirectory: string): boolean {
   if (fs.existsSync(databaseFile(dataDirectory))) return true;
-  const objects = path.join(dataDirectory, "objects");
-  return fs.existsSync(objects) && fs.readdirSync(objects).length > 0;
+  return STORE_PREFIXES.some((prefix) => {
+    const folder = path.join(dataDirectory, "objects", prefix);
+    return fs.existsSync(folder) && fs.readdirSync(folder).length > 0;
+  });
 }
 
 export async function restoreBackup({
