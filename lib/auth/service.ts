@@ -21,7 +21,7 @@ import { apiTokens, invitations, passwordResets, users, type Role } from "@/db/s
 import { AppError } from "@/lib/errors";
 import { luciaFor } from "./lucia";
 import { dummyPasswordHash, hashPassword, verifyPassword } from "./password";
-import { newApiToken, newId, newSecret, sha256Hex } from "./tokens";
+import { lastUsedNeedsWrite, newApiToken, newId, newSecret, sha256Hex } from "./tokens";
 
 export const THROTTLE_WINDOW_MS = 15 * 60 * 1000;
 export const MAX_FAILURES_PER_EMAIL = 5;
@@ -94,7 +94,8 @@ export function authenticateApiToken(db: Db, token: string): AuthUser | null {
   if (!found) return null;
   if (found.token.expiresAt && found.token.expiresAt.getTime() <= Date.now()) return null;
   if (!isActive(found.user)) return null;
-  db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, found.token.id)).run();
+  const now = new Date();
+  if (lastUsedNeedsWrite(found.token.lastUsedAt, now)) db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, found.token.id)).run();
   return toPublicUser(found.user);
 }
 
