@@ -8,9 +8,15 @@ import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { GET as health } from "@/app/api/health/route";
 import { GET as listPhotos, POST as uploadPhoto } from "@/app/api/photos/route";
+import { eq } from "drizzle-orm";
+import { GET as listDyesRoute } from "@/app/api/dyes/route";
 import { db } from "@/db/client";
+import { dyesVersion, listDyesCached } from "@/db/queries/dyes";
+import { apiTokens, dyes, measurements } from "@/db/schema";
+import { authenticateApiToken } from "@/lib/auth/service";
+import { sha256Hex } from "@/lib/auth/tokens";
 import { dataDir } from "@/lib/config/env";
-import { buildWorld, tokenFor } from "../support/world";
+import { addMeasurement, buildWorld, PEOPLE, tokenFor } from "../support/world";
 import { smallJpeg } from "../support/photos";
 
 const get = (handler: (req: Request) => Promise<Response>, url: string, headers: Record<string, string> = {}) => handler(new Request(`http://localhost:3000${url}`, { headers }));
@@ -113,5 +119,47 @@ describe("GET /api/photos?limit=&cursor=", () => {
       expect((await res.json()).error.message).toMatch(/cursor|limit/);
     }
     expect((await get(listPhotos, "/api/photos", { authorization: `Bearer ${tokenFor("formulator")}` })).status).toBe(403);
+  });
+});
+
+describe("cheap authenticated reads", () => {
+  it("a token's last_used_at is written on first use and then at most once a minute, not on every call", () => {
+    const token = tokenFor("formulator");
+    const row = () => db().select().from(apiTokens).where(eq(apiTokens.tokenHash, sha256Hex(token))).get()!;
+    expect(row().lastUsedAt).toBeNull();
+    expect(authenticateApiToken(db(), token)?.email).toBe(PEOPLE.formulator.email);
+    const first = row().lastUsedAt!;
+    expect(first).toBeInstanceOf(Date);
+    const changes = () => Number(db().$client.prepare("SELECT total_changes()").pluck().get());
+    const before = changes();
+    for (let i = 0; i < 20; i++) expect(authenticateApiToken(db(), token)).not.toBeNull();
+    expect(changes()).toBe(before);
+    expect(row().lastUsedAt!.getTime()).toBe(first.getTime());
+    // Two minutes later (as stored), the next use writes the time again.
+    db().update(apiTokens).set({ lastUsedAt: new Date(Date.now() - 120_000) }).where(eq(apiTokens.id, row().id)).run();
+    authenticateApiToken(db(), token);
+    expect(Date.now() - row().lastUsedAt!.getTime()).toBeLessThan(5_000);
+  });
+
+  it("the cached dye list follows every change that alters it: a new dye, a renamed one, an accepted or removed measurement", async () => {
+    const auth = { authorization: `Bearer ${tokenFor("formulator")}` };
+    const find = async (q: string) => (await (await get(listDyesRoute, `/api/dyes?q=${encodeURIComponent(q)}`, auth)).json()).dyes as { code: string; name: string; measurements: number }[];
+    const v0 = dyesVersion(db());
+    const list = listDyesCached(db());
+    expect(listDyesCached(db())).toBe(list);
+    db().insert(dyes).values({ id: "dye_cache1", code: "T-CACHE", name: "Cache Cobalt", dyeClass: "azo" }).run();
+    expect(dyesVersion(db())).toBeGreaterThan(v0);
+    expect((await find("T-CACHE")).map((d) => d.name)).toEqual(["Cache Cobalt"]);
+    db().update(dyes).set({ name: "Cache Cerulean" }).where(eq(dyes.id, "dye_cache1")).run();
+    expect((await find("T-CACHE"))[0].name).toBe("Cache Cerulean");
+    const count = async () => (await find("T-001")).find((d) => d.code === "T-001")!.measurements;
+    const n = await count();
+    addMeasurement("ms_cache_1", PEOPLE.chemist.id, "accepted");
+    expect(await count()).toBe(n + 1);
+    db().update(measurements).set({ reviewState: "rejected" }).where(eq(measurements.id, "ms_cache_1")).run();
+    expect(await count()).toBe(n);
+    db().update(measurements).set({ reviewState: "accepted" }).where(eq(measurements.id, "ms_cache_1")).run();
+    db().delete(measurements).where(eq(measurements.id, "ms_cache_1")).run();
+    expect(await count()).toBe(n);
   });
 });
