@@ -5,6 +5,7 @@
  * JSON lines with a request id and on SIGTERM finishes the requests in flight before exiting.
  * While serving, DATA_DIR/server.pid names this process so `restore` refuses to run under it.
  */
+import { createRequire } from "node:module";
 import path from "node:path";
 import { databaseFile, migrateDatabase, openDatabase } from "../db/connection";
 import { seedDemo, seedSolvents } from "../db/seed/demo";
@@ -28,7 +29,7 @@ async function main() {
   try {
     migrateDatabase(db);
     if (process.argv.includes("--seed-demo")) {
-      const added = await seedDemo(db, dir);
+      const added = await seedDemo(db, dir, { models: true });
       logger.info(added ? { added } : {}, added ? "demo data added" : "database already in use; demo seed skipped");
     } else {
       const n = seedSolvents(db);
@@ -39,6 +40,9 @@ async function main() {
   }
 
   captureConsole(logger);
+  // Stamps each request with its socket address before Next sees it (see scripts/peer-address.cjs);
+  // it patches http.Server, so the server below gets it too.
+  createRequire(import.meta.url)("./peer-address.cjs");
   const { default: next } = await import("next");
   const app = next({ dev: false, dir: path.resolve(".") });
   await app.prepare();
