@@ -112,7 +112,7 @@ export function CardFit({ profileId, rows, columns, photo: initial, corners: ini
                 if (p) move(dragging.current, p);
               }}
               onPointerUp={() => (dragging.current = null)}
-              onPointerLeave={() => (dragging.current = null)}
+              onPointerCancel={() => (dragging.current = null)}
             >
               {lines.map(([a, b], i) => (
                 <line key={i} x1={a[0]} y1={a[1]} x2={b[0]} y2={b[1]} stroke="#fff" strokeWidth={handle / 5} style={{ mixBlendMode: "difference" }} />
@@ -129,15 +129,9 @@ export function CardFit({ profileId, rows, columns, photo: initial, corners: ini
                   strokeWidth={handle / 4}
                   className="cursor-move"
                   onPointerDown={(e) => {
+                    e.preventDefault();
                     dragging.current = i;
-                    (e.target as Element).setPointerCapture?.(e.pointerId);
                   }}
-                  onPointerMove={(e) => {
-                    if (dragging.current !== i) return;
-                    const p = toPhoto(e);
-                    if (p) move(i, p);
-                  }}
-                  onPointerUp={() => (dragging.current = null)}
                 />
               ))}
             </svg>

@@ -120,7 +120,7 @@ function draftOrRefuse(tx: Tx, id: string): LightingProfile {
   const p = getProfile(tx, id);
   if (!p) throw new AppError("not_found", "That lighting profile no longer exists.");
   if (p.state !== "draft") {
-    throw new AppError("conflict", `“${p.name}” is ${p.state}; only a draft can be changed. Copy it into a new draft to change it.`);
+    throw new AppError("conflict", `“${p.name}” is ${p.state}; only a draft can be changed. ${p.state === "approved" ? "Reopen it as a draft first (its approval is then withdrawn)." : "Create a new draft instead."}`);
   }
   return p;
 }

@@ -4,7 +4,6 @@ import type { LabWhite } from "../color/convert";
 import { ColorInputError } from "../color/errors";
 import type { WhitePointName } from "../color/illuminants";
 import { measureCalibratedColour, type DayReference } from "../color/calibrated-measure";
-import { pixelsPerSampleFromAutocorrelation } from "../color/uncertainty";
 import { decodePhoto, measureRegion, type RegionSpec } from "../color/regions";
 import { fitPkaFromColours, parsePhSeriesCsv } from "../color/pka";
 import { parseAbsorbanceCsv, spectrumColour } from "../color/spectrum";
@@ -105,17 +104,14 @@ export async function measureCommand(args: string[]): Promise<unknown> {
     const rect = (b: number[]): RegionSpec => ({ shape: "rect", x: b[0], y: b[1], w: b[2], h: b[3] });
     let reference: DayReference | undefined;
     let referenceFlags: string[] = [];
-    let referencePerSample: number | undefined;
     if (whiteBox && whiteLab) {
       reference = { stats: measureRegion(photo, rect(whiteBox)), lab: whiteLab };
-      referencePerSample = pixelsPerSampleFromAutocorrelation(photo, rect(whiteBox));
       referenceFlags = reference.stats.flags.map((f) => `reference-${f}`);
     }
     const measurements = rois.map((box) => {
       const stats = measureRegion(photo, rect(box));
       // The calibration (if any) first, then the day's --white reference: see measureCalibratedColour.
-      const pixelsPerSample = { region: pixelsPerSampleFromAutocorrelation(photo, rect(box)), reference: referencePerSample };
-      const colour = measureCalibratedColour(stats, { calibration, white, reference, encoding: photo.format, pixelsPerSample });
+      const colour = measureCalibratedColour(stats, { calibration, white, reference, encoding: photo.format });
       return {
         roi: box,
         lab: colour.lab,

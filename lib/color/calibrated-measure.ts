@@ -27,7 +27,7 @@ export type MeasuredColour = {
 export type DayReference = { stats: RegionStats; lab: Lab };
 
 function sample(stats: RegionStats, encoding: PhotoEncoding, pixelsPerSample?: number): RegionSample {
-  return { camera: stats.linearRgb, sd: stats.sd ?? [0, 0, 0], pixels: Math.max(1, stats.pixels - stats.rejected), encoding, pixelsPerSample };
+  return { camera: stats.linearRgb, sd: stats.sd ?? [0, 0, 0], pixels: Math.max(1, stats.pixels - stats.rejected), encoding, pixelsPerSample: pixelsPerSample ?? stats.pixelsPerSample };
 }
 
 /**
@@ -43,7 +43,7 @@ export function measureCalibratedColour(
     white: LabWhite;
     reference?: DayReference;
     encoding: PhotoEncoding;
-    /** Pixels per independent sample of the region and the reference (`pixelsPerSampleFromAutocorrelation`); default: by encoding. */
+    /** Pixels per independent sample of the region and the reference; default: the stats' own (autocorrelation), else by encoding. */
     pixelsPerSample?: { region?: number; reference?: number };
   },
 ): MeasuredColour {

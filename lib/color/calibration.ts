@@ -205,7 +205,8 @@ function checkPatch(p: CalibrationPatch, i: number): void {
       `Patch ${label(p, i)} is clipped or close to clipping in the photo; lower the exposure (or lighten the shadows) so every patch stays clear of pure white and pure black, and photograph the card again.`,
     );
   }
-  if (flags.includes("non-uniform")) {
+  // "much-rejected": over 30 % of the pixels were outliers, so the region straddles an edge or glare.
+  if (flags.includes("non-uniform") || flags.includes("much-rejected")) {
     throw new CalibrationError("non-uniform-patch", `Patch ${label(p, i)} is not one even colour in the photo (glare, shadow or an edge); move its region onto the middle of the patch.`);
   }
   if (flags.includes("too-few-pixels") || (p.pixels !== undefined && p.pixels < 1)) {
@@ -340,7 +341,7 @@ function fitMethod(method: CalibrationMethod, patches: readonly CalibrationPatch
   const full = fitFull(method, patches, white, linearise, null);
   const warnings: string[] = [];
   const neutralCount = patches.filter((p) => isNeutral(p.referenceLab)).length;
-  if (!full.toneCurve && linearise && method !== "white") {
+  if (!full.toneCurve && linearise) {
     warnings.push(
       `The card has ${neutralCount} grey patch${neutralCount === 1 ? "" : "es"} and the tone curve needs ${TONE_CURVE_MIN_GREYS}: the camera's values were used as if they were sRGB, which a phone's JPEG is not; add greys for accurate colours.`,
     );

@@ -3,6 +3,7 @@ import { regionSpreadDeltaE } from "./region-spread";
 import { ColorInputError } from "./errors";
 import { parseExif, type PhotoExif } from "./exif";
 import { srgbDecode, srgbEncode } from "./srgb";
+import { pixelsPerSampleFromAutocorrelation } from "./uncertainty";
 import type { LinearRgb } from "./types";
 
 export { ColorInputError };
@@ -43,6 +44,11 @@ export type RegionStats = {
   sd?: LinearRgb;
   /** Fraction of the region's pixels with a channel at the lowest or highest code (sampled as for the outlier cut). */
   clippedFraction?: number;
+  /**
+   * Pixels per statistically independent sample, from the region's own autocorrelation
+   * (`pixelsPerSampleFromAutocorrelation`): the mean's uncertainty uses N / this, not N.
+   */
+  pixelsPerSample?: number;
   flags: RegionFlag[];
 };
 
@@ -435,7 +441,8 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
     const loE = Math.max(0, e - step);
     return hiE > loE ? ((srgbDecode(hiE) - srgbDecode(loE)) / (hiE - loE)) * step : 0;
   }) as LinearRgb;
-  return { linearRgb, pixels, rejected, spread, sd, clippedFraction, flags };
+  const pixelsPerSample = pixelsPerSampleFromAutocorrelation(photo, region);
+  return { linearRgb, pixels, rejected, spread, sd, clippedFraction, pixelsPerSample, flags };
 }
 
 /** Measures many regions of the one decoded buffer (never decodes again). */

@@ -85,8 +85,10 @@ export function monotoneSlopes(x: readonly number[], y: readonly number[]): numb
 function evaluateLn(curve: ChannelCurve, t: number): number {
   const { lnCamera: x, lnY: y, slopes: m } = curve;
   const n = x.length;
-  if (t <= x[0]) return y[0] + m[0] * (t - x[0]);
-  if (t >= x[n - 1]) return y[n - 1] + m[n - 1] * (t - x[n - 1]);
+  // A zero end tangent (allowed for monotonicity) would flatten everything beyond the end grey:
+  // the end secant is used there instead.
+  if (t <= x[0]) return y[0] + (m[0] > 0 ? m[0] : (y[1] - y[0]) / (x[1] - x[0])) * (t - x[0]);
+  if (t >= x[n - 1]) return y[n - 1] + (m[n - 1] > 0 ? m[n - 1] : (y[n - 1] - y[n - 2]) / (x[n - 1] - x[n - 2])) * (t - x[n - 1]);
   let i = 0;
   while (i < n - 2 && t > x[i + 1]) i++;
   const h = x[i + 1] - x[i];

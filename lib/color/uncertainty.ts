@@ -251,62 +251,76 @@ export function isTie(a: { deltaE00: number; uncertaintyDeltaE00?: number | null
  * ((1 + ρx)(1 + ρy)) independent ones (G. V. Bayley and J. M. Hammersley, "The 'effective' number of
  * independent observations in an autocorrelated time series", J. R. Stat. Soc. Suppl. 8(2), 184–197,
  * 1946; applied per image axis). Negative correlations count as 0 (never fewer pixels per sample
- * than 1); ρ is capped at 0.95. Works on the region's bounding box (its central 200 × 200 pixels
- * when larger, to bound the cost), pixels at either end of the code range left out.
+ * than 1); ρ is capped at 0.95. Works on the region's box (for an ellipse the rectangle inscribed
+ * in it), its central 96 × 96 pixels when larger (to bound the cost), pixels at either end of the
+ * code range left out.
  */
 export function pixelsPerSampleFromAutocorrelation(
   photo: { width: number; height: number; bitDepth: 8 | 16; data: Uint8Array | Uint16Array },
-  box: { x: number; y: number; w: number; h: number },
+  box: { x: number; y: number; w: number; h: number; shape?: "rect" | "ellipse" },
 ): number {
   const max = photo.bitDepth === 16 ? 65535 : 255;
-  const WINDOW = 200;
+  const WINDOW = 96;
   const cx = box.x + box.w / 2;
   const cy = box.y + box.h / 2;
-  const w = Math.min(box.w, WINDOW);
-  const h = Math.min(box.h, WINDOW);
+  // An ellipse's bounding box holds background in its corners: use the rectangle inscribed in it.
+  const inscribed = box.shape === "ellipse" ? Math.SQRT1_2 : 1;
+  const w = Math.min(box.w * inscribed, WINDOW);
+  const h = Math.min(box.h * inscribed, WINDOW);
   const x0 = Math.max(0, Math.round(cx - w / 2));
   const y0 = Math.max(0, Math.round(cy - h / 2));
   const x1 = Math.min(photo.width, Math.round(cx + w / 2));
   const y1 = Math.min(photo.height, Math.round(cy + h / 2));
   if (x1 - x0 < 3 || y1 - y0 < 3) return 1;
+  const { data, width } = photo;
+  // One pass of raw moments per channel: Σv, Σv² over pixels; Σa, Σb, Σab over horizontal and
+  // vertical neighbour pairs (cov = E[ab] − E[a]E[b]); codes at either end of the range are skipped.
   const rho = [0, 0];
   for (let c = 0; c < 3; c++) {
-    let sum = 0;
     let n = 0;
-    for (let y = y0; y < y1; y++) for (let x = x0; x < x1; x++) {
-      const v = photo.data[(y * photo.width + x) * 3 + c];
-      if (v === 0 || v === max) continue;
-      sum += v;
-      n++;
-    }
-    if (n < 9) return 1;
-    const m = sum / n;
-    let variance = 0;
-    let covX = 0;
-    let nX = 0;
-    let covY = 0;
-    let nY = 0;
-    const at = (x: number, y: number) => photo.data[(y * photo.width + x) * 3 + c];
-    const ok = (v: number) => v !== 0 && v !== max;
+    let s1 = 0;
+    let s2 = 0;
+    let nx = 0;
+    let ax = 0;
+    let bx = 0;
+    let abx = 0;
+    let ny = 0;
+    let ay = 0;
+    let by = 0;
+    let aby = 0;
     for (let y = y0; y < y1; y++) {
+      const row = y * width;
       for (let x = x0; x < x1; x++) {
-        const v = at(x, y);
-        if (!ok(v)) continue;
-        variance += (v - m) ** 2;
-        if (x + 1 < x1 && ok(at(x + 1, y))) {
-          covX += (v - m) * (at(x + 1, y) - m);
-          nX++;
+        const v = data[(row + x) * 3 + c];
+        if (v === 0 || v === max) continue;
+        n++;
+        s1 += v;
+        s2 += v * v;
+        if (x + 1 < x1) {
+          const r = data[(row + x + 1) * 3 + c];
+          if (r !== 0 && r !== max) {
+            nx++;
+            ax += v;
+            bx += r;
+            abx += v * r;
+          }
         }
-        if (y + 1 < y1 && ok(at(x, y + 1))) {
-          covY += (v - m) * (at(x, y + 1) - m);
-          nY++;
+        if (y + 1 < y1) {
+          const d = data[(row + width + x) * 3 + c];
+          if (d !== 0 && d !== max) {
+            ny++;
+            ay += v;
+            by += d;
+            aby += v * d;
+          }
         }
       }
     }
-    variance /= n;
-    if (variance === 0) return 1;
-    rho[0] += nX ? covX / nX / variance / 3 : 0;
-    rho[1] += nY ? covY / nY / variance / 3 : 0;
+    if (n < 9) return 1;
+    const variance = s2 / n - (s1 / n) ** 2;
+    if (!(variance > 0)) return 1;
+    if (nx) rho[0] += (abx / nx - (ax / nx) * (bx / nx)) / variance / 3;
+    if (ny) rho[1] += (aby / ny - (ay / ny) * (by / ny)) / variance / 3;
   }
   const factor = (r: number) => {
     const p = Math.min(0.95, Math.max(0, r));

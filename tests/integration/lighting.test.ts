@@ -74,7 +74,8 @@ beforeAll(async () => {
   warmCardPhotoId = (await storePhoto(db(), objectStore(), { bytes: await cardPhoto((c) => [c[0] * 1.0, c[1] * 0.85, c[2] * 0.6]), originalName: "warm-card.png", uploaderId: PEOPLE.admin.id, limits })).photo.id;
 });
 
-describe("calibration targets", () => {
+// Generous timeouts: fits with leave-one-out run many small solves, and the test machine is shared.
+describe("calibration targets", { timeout: 180_000 }, () => {
   it("an admin creates a target from CSV with a rows × columns layout; line/column errors are named", async () => {
     await actAs("admin");
     const bad = await saveTargetAction(null, form({ name: "Broken card", description: "", source: "", whitePoint: "D65", gridRows: "1", gridColumns: "2", csv: "name,L*,a*,b*,white point\nred,abc,1,2,D65\nblue,40,1,2,D77" }));
@@ -97,7 +98,7 @@ describe("calibration targets", () => {
   });
 });
 
-describe("profile state machine", () => {
+describe("profile state machine", { timeout: 180_000 }, () => {
   it("draft → fitted → approved by an admin only; the bench refuses the draft and accepts the approved profile", async () => {
     const id = await draft("Bench box A");
     await actAs("chemist");
@@ -165,7 +166,7 @@ describe("profile state machine", () => {
   });
 });
 
-describe("re-derivation", () => {
+describe("re-derivation", { timeout: 180_000 }, () => {
   it("after a re-fit, changes exactly the measurements under the profile, after a preview, and audits the old values", async () => {
     const id = await draft("Bench box D");
     await fit(id, cardPhotoId);
@@ -210,7 +211,7 @@ describe("re-derivation", () => {
   });
 });
 
-describe("drift", () => {
+describe("drift", { timeout: 180_000 }, () => {
   it("a bench reference far from the profile's expectation is recorded, flags the measurements and mails the admins", async () => {
     const id = db().select({ id: lightingProfiles.id }).from(lightingProfiles).where(eq(lightingProfiles.name, "Bench box A")).get()!.id;
     await actAs("chemist");
@@ -240,7 +241,7 @@ describe("drift", () => {
   });
 });
 
-describe("accuracy through the app on a camera that is not sRGB", () => {
+describe("accuracy through the app on a camera that is not sRGB", { timeout: 180_000 }, () => {
   // The card and vials are invented smooth spectra; their true Lab come from the CIE tables in
   // tests/fixtures (CIE 018:2019 colour-matching functions, CIE D65/D50), not from lib/color
   // (tests/support/spectral-card.ts). The camera has cross-talk, a warm light, an exposure error and
@@ -320,7 +321,7 @@ describe("accuracy through the app on a camera that is not sRGB", () => {
   }
 });
 
-describe("search ties", () => {
+describe("search ties", { timeout: 180_000 }, () => {
   it("marks a result whose ΔE00 differs from the one above by less than their combined uncertainty", async () => {
     // Two dyes 0.3 ΔE00 apart in distance with ± 0.5 each: a tie (|Δ| < √(0.5² + 0.5²)); a third far away is not.
     db().insert(dyes).values([{ id: "dye_tie_a", code: "TIE-A", name: "Tie A", dyeClass: "azo", synonyms: [] }, { id: "dye_tie_b", code: "TIE-B", name: "Tie B", dyeClass: "azo", synonyms: [] }, { id: "dye_far", code: "FAR-1", name: "Far", dyeClass: "azo", synonyms: [] }]).run();

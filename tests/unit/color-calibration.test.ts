@@ -133,6 +133,21 @@ describe("a non-sRGB camera recovered by linearisation + 3×3", () => {
     expect(mean(vialErrors(misread, shot, "D50"))).toBeGreaterThan(1.5);
   });
 
+  it("under a tungsten light (CIE A, spectral) with D65 references the card's own leave-one-out residuals and the ± ΔE00 reveal the larger error", () => {
+    // Metamerism: a 3×3 cannot map every spectrum seen under A onto its colour under D65. The
+    // calibration must say so rather than claim daylight accuracy.
+    const shot = shoot(SYNTHETIC_CAMERAS.warmPhone, "A");
+    const daylight = fitCalibration(patchesOf(shots.get("warmPhone") as Shot, "D65"));
+    const cal = fitCalibration(patchesOf(shot, "D65"));
+    const errors = vialErrors(cal, shot, "D65");
+    const u = VIALS.map((_, i) =>
+      measureCalibratedColour(shot.vials[i], { calibration: cal, white: "D65", encoding: "png" }).uncertainty.uDeltaE00,
+    );
+    expect(cal.meanLooDeltaE00 as number).toBeGreaterThan(3 * (daylight.meanLooDeltaE00 as number));
+    expect(mean(u)).toBeGreaterThan(0.5 * mean(errors));
+    figures.push(`warmPhone under CIE A, D65 references, matrix-3x3: vials mean ${mean(errors).toFixed(2)} max ${Math.max(...errors).toFixed(2)}, card LOO mean ${cal.meanLooDeltaE00?.toFixed(2)}, vials ± ΔE00 mean ${mean(u).toFixed(2)}`);
+  });
+
   it("picks the method with the lowest mean leave-one-out ΔE00 with 'auto' and reports every method", () => {
     const cal = fitCalibration(patchesOf(shots.get("coolPhone") as Shot, "D65"), { method: "auto" });
     expect(cal.comparison.map((c) => c.method)).toEqual(["white", "matrix-3x3", "root-polynomial-2"]);
@@ -197,6 +212,7 @@ describe("refusals", () => {
     const over = shoot({ ...SYNTHETIC_CAMERAS.warmPhone, exposure: 1.6 }, "D65");
     refused(() => fitCalibration(patchesOf(over, "D65")), "clipped-patch", /clipped/);
     refused(() => fitCalibration(patches.map((p, i) => (i === 2 ? { ...p, flags: ["non-uniform"] } : p))), "non-uniform-patch", /not one even colour/);
+    refused(() => fitCalibration(patches.map((p, i) => (i === 2 ? { ...p, flags: ["much-rejected"] } : p))), "non-uniform-patch", /not one even colour/);
     refused(() => fitCalibration(patches.map((p, i) => (i === 2 ? { ...p, flags: ["too-few-pixels"] } : p))), "empty-patch", /too few usable pixels/);
   });
   it("a singular fit: patches of one hue", () => {

@@ -140,3 +140,17 @@ describe("ties and effective pixel counts", () => {
     expect(effectivePixelCount(10, "jpeg")).toBe(1);
   });
 });
+
+describe("pixels per sample inside measureRegion", () => {
+  it("comes with every region and ignores the background around an ellipse", () => {
+    const { raw } = shot(23, 60);
+    const photo: DecodedPhoto = { width: raw.width, height: raw.height, channels: 3, bitDepth: 8, data: raw.data, format: "png", exif: {} };
+    const [x, y, w, h] = raw.boxes[0];
+    // The ellipse inscribed in the swatch's own box, and one reaching 2 px into the surround.
+    const inside = measureRegion(photo, { shape: "ellipse", x, y, w, h });
+    expect(inside.pixelsPerSample).toBeGreaterThanOrEqual(1);
+    expect(inside.pixelsPerSample).toBeLessThan(1.3);
+    const rect = measureRegion(photo, { shape: "rect", x: x - 2, y: y - 2, w: w + 4, h: h + 4 });
+    expect(rect.pixelsPerSample as number).toBeGreaterThan(2);
+  });
+});

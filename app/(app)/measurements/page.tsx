@@ -8,6 +8,8 @@ import { Notice, PageHeader } from "@/components/ui/card";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { labD65InSrgbGamut, labD65ToHex } from "@/lib/color/display";
+import { listProfiles } from "@/db/queries/lighting";
+import { profileStatus, STATUS_LABELS } from "@/lib/lighting/status";
 
 export const metadata: Metadata = { title: "Measurements" };
 
@@ -25,6 +27,8 @@ export default async function MeasurementsPage({ searchParams }: { searchParams:
     pageSize: params.pageSize,
   });
   const choices = measurementFilterChoices(handle);
+  // Each profile's state now (approved, expired, retired …), said in words beside its name.
+  const profileState = new Map(listProfiles(handle).map(({ profile }) => [profile.id, STATUS_LABELS[profileStatus(profile)].toLowerCase()]));
   const tableRows: TableRow[] = rows.map((r) => ({
     id: r.m.id,
     dye: `${r.dye.code} · ${r.dye.name}`,
@@ -40,7 +44,7 @@ export default async function MeasurementsPage({ searchParams }: { searchParams:
     h: r.hue,
     hex: labD65ToHex([r.m.l, r.m.a, r.m.b]),
     inGamut: labD65InSrgbGamut([r.m.l, r.m.a, r.m.b]),
-    profile: r.profile?.name ?? (r.m.correctionKind === "white-scaling" ? "white card only" : null),
+    profile: r.profile?.name ? `${r.profile.name} (${profileState.get(r.profile.id) ?? "unknown"})` : r.m.correctionKind === "white-scaling" ? "white card only" : null,
     uDeltaE00: r.m.uDeltaE00,
     flags: r.m.flags,
     state: r.m.reviewState,
