@@ -604,3 +604,14 @@ export const auditLog = sqliteTable(
   (t) => [index("audit_entity_idx").on(t.entity, t.entityId), index("audit_at_idx").on(t.at)],
 );
 export type AuditEntry = typeof auditLog.$inferSelect;
+
+// ---------------------------------------------------------------- change counters
+
+/**
+ * One counter per cached read model ("dyes": the dye list with measurement counts), bumped by SQL
+ * triggers (migration 0009) in every transaction that changes what the model reads.
+ */
+export const changeCounters = sqliteTable("change_counters", {
+  name: text("name").primaryKey(),
+  n: integer("n").notNull().default(0),
+});

@@ -8,14 +8,21 @@
  * accepted row from SQLite per query (the first `--brute` queries). Each ratio is labelled with its
  * baseline and percentiles.
  *
+ * Then the server side: the built app (scripts/start.ts) is started on that database and 50 searches
+ * are sent over loopback with an API token; its resident memory (VmRSS) is printed. Skipped with
+ * --no-server or when there is no build (`npm run build`).
+ *
  * Options: --measurements N (default 1e6), --queries N (default 200), --brute N (default 40),
- * --keep (leave the database file).
+ * --keep (leave the database file), --no-server.
  */
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
-import { migrateDatabase, openDatabase } from "../db/connection";
+import { spawn } from "node:child_process";
+import net from "node:net";
+import { databaseFile, migrateDatabase, openDatabase } from "../db/connection";
+import { createApiToken } from "../lib/auth/service";
 import { seedSolvents } from "../db/seed/demo";
 import { searchByColour, conditionCatalogue } from "../db/queries/search";
 import { rng, gaussian } from "../db/seed/demo-model";
@@ -40,7 +47,8 @@ const random = rng(2026);
 const srgbToLab = (r: number, g: number, b: number): Lab => xyzToLab(linearSrgbToXyzD65([srgbDecode(r), srgbDecode(g), srgbDecode(b)]), WHITE_POINTS_2DEG.D65);
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), "solvatlas-bench-"));
-const file = path.join(dir, "bench.db");
+// Named as the server expects it in a DATA_DIR, so the server-side run below can serve this database.
+const file = databaseFile(dir);
 const db = openDatabase(file);
 migrateDatabase(db);
 seedSolvents(db);
@@ -253,6 +261,55 @@ console.log(
     `goal recall 100 %: ${memFound === memExpected && memIdentical === queries.length ? "met" : "NOT met"} (${memIdentical}/${queries.length} identical)`,
   ].join("\n"),
 );
+const { token } = createApiToken(db, { userId: "usr_bench", name: "bench", actorId: null });
 db.$client.close();
+console.log(`in-process RSS after the searches (database, search grid and the brute-force arrays): ${Math.round(process.memoryUsage().rss / 1048576)} MiB`);
+
+async function serverSide(): Promise<void> {
+  if (process.argv.includes("--no-server")) return;
+  if (!fs.existsSync(path.join(process.cwd(), ".next", "BUILD_ID"))) {
+    console.log("server RSS: skipped (no build; run `npm run build` first)");
+    return;
+  }
+  const port = await new Promise<number>((resolve, reject) => {
+    const probe = net.createServer();
+    probe.listen(0, "127.0.0.1", () => {
+      const { port } = probe.address() as net.AddressInfo;
+      probe.close(() => resolve(port));
+    });
+    probe.on("error", reject);
+  });
+  const base = `http://127.0.0.1:${port}`;
+  const server = spawn(process.execPath, ["--import", "tsx", "scripts/start.ts"], { env: { ...process.env, DATA_DIR: dir, PORT: String(port), LOG_LEVEL: "warn" }, stdio: "ignore" });
+  try {
+    const start = Date.now();
+    for (;;) {
+      if (Date.now() - start > 180_000) throw new Error("the server did not start within 180 s");
+      const up = await fetch(`${base}/api/health`).then((r) => r.status === 200, () => false);
+      if (up) break;
+      await new Promise((r) => setTimeout(r, 500));
+    }
+    const rss = () => Math.round(Number(/VmRSS:\s+(\d+)/.exec(fs.readFileSync(`/proc/${server.pid}/status`, "utf8"))![1]) / 1024);
+    const idle = rss();
+    const times: number[] = [];
+    for (const [i, q] of queries.slice(0, 50).entries()) {
+      const f = q.filter;
+      const params = new URLSearchParams({ lab: q.target.map((v) => v.toFixed(2)).join(","), medium: f.medium, acidBase: f.acidBase, limit: String(LIMIT), ...(f.phMax !== undefined ? { phMax: String(f.phMax) } : {}) });
+      const t = performance.now();
+      const res = await fetch(`${base}/api/search?${params}`, { headers: { authorization: `Bearer ${token}` } });
+      if (res.status !== 200) throw new Error(`search ${i} answered ${res.status}: ${(await res.text()).slice(0, 200)}`);
+      await res.arrayBuffer();
+      times.push(performance.now() - t);
+    }
+    console.log(
+      `server RSS at ${inserted.toLocaleString("en")} measurements: ${idle} MiB after start-up, ${rss()} MiB after ${times.length} searches over HTTP (first ${times[0].toFixed(0)} ms, then p50 ${quantile(times.slice(1), 0.5).toFixed(1)} ms)`,
+    );
+  } finally {
+    server.kill("SIGTERM");
+    await new Promise((r) => server.once("exit", r));
+  }
+}
+
+await serverSide().catch((error) => console.log(`server RSS: failed (${(error as Error).message})`));
 if (!process.argv.includes("--keep")) fs.rmSync(dir, { recursive: true, force: true });
 else console.error(`Database kept at ${file}`);

@@ -4,6 +4,7 @@ const TABS = [
   { href: "/people", label: "Accounts" },
   { href: "/people/mailbox", label: "Local mailbox" },
   { href: "/people/audit", label: "Audit log" },
+  { href: "/people/backup", label: "Backups" },
 ];
 
 export function AdminTabs({ current }: { current: string }) {

@@ -24,6 +24,28 @@ export function listDyes(db: Db): DyeSummary[] {
     .map((d) => ({ ...d, measurementCount: byDye.get(d.id)?.n ?? 0, acceptedCount: byDye.get(d.id)?.accepted ?? 0 }));
 }
 
+const dyeListCache = new WeakMap<Db["$client"], { version: number; list: DyeSummary[] }>();
+
+/** The dye-list version (migration 0009): changes whenever a dye, or a measurement's dye or review state, changes. */
+export function dyesVersion(db: Db): number {
+  return Number(db.$client.prepare("SELECT n FROM change_counters WHERE name = 'dyes'").pluck().get() ?? 0);
+}
+
+/**
+ * listDyes() kept in memory per database handle until the dye-list version changes: the counts are a
+ * group-by over every measurement, too costly per API call. The version is read before the list, so a
+ * write in between leaves a newer list under an older version (reloaded next time), never the reverse.
+ * Callers get the same array while nothing changed (the text-search index is cached on it); do not mutate it.
+ */
+export function listDyesCached(db: Db): readonly DyeSummary[] {
+  const version = dyesVersion(db);
+  const hit = dyeListCache.get(db.$client);
+  if (hit && hit.version === version) return hit.list;
+  const list = listDyes(db);
+  dyeListCache.set(db.$client, { version, list });
+  return list;
+}
+
 export function findDyeByCode(db: Db, { code }: { code: string }): Dye | undefined {
   return db.select().from(dyes).where(eq(dyes.code, code)).get();
 }

@@ -5,7 +5,7 @@
  * that was not completely written.
  */
 import { randomUUID } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { and, desc, eq, lt, or } from "drizzle-orm";
 import type { PipelineResult, ReferenceInput } from "../../lib/bench/pipeline";
 import { ColorInputError, type DecodedPhoto, type RegionSpec } from "../../lib/color/regions";
 import { env } from "../../lib/config/env";
@@ -96,6 +96,30 @@ export async function storePhoto(
 
 export function getPhoto(db: Db, id: string): Photo | undefined {
   return db.select().from(photos).where(eq(photos.id, id)).get();
+}
+
+/** Where a page of photos ends: the last photo's upload time and id (newest first, id breaks ties). */
+export type PhotoCursor = { createdAt: number; id: string };
+
+/**
+ * One page of photos, newest first, with their lighting profile. Keyset paging on (created_at, id):
+ * photos uploaded while someone pages arrive before the first page and never shift later pages.
+ */
+export function listPhotosPage(db: Db, { limit, after }: { limit: number; after: PhotoCursor | null }) {
+  const rows = db
+    .select({ photo: photos, profile: { id: lightingProfiles.id, name: lightingProfiles.name } })
+    .from(photos)
+    .leftJoin(lightingProfiles, eq(photos.lightingProfileId, lightingProfiles.id))
+    .where(after ? or(lt(photos.createdAt, new Date(after.createdAt)), and(eq(photos.createdAt, new Date(after.createdAt)), lt(photos.id, after.id))) : undefined)
+    .orderBy(desc(photos.createdAt), desc(photos.id))
+    .limit(limit + 1)
+    .all();
+  const page = rows.slice(0, limit);
+  const last = page[page.length - 1];
+  return {
+    rows: page.map((r) => ({ photo: r.photo, profile: r.profile?.id ? r.profile : null })),
+    next: rows.length > limit && last ? ({ createdAt: last.photo.createdAt.getTime(), id: last.photo.id } satisfies PhotoCursor) : null,
+  };
 }
 
 /**

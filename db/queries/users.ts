@@ -136,11 +136,23 @@ export function listApiTokens(db: Db, { userId }: { userId: string }) {
     .all();
 }
 
-export function findActiveToken(db: Db, { tokenHash }: { tokenHash: string }) {
+function activeTokenQuery(db: Db) {
   return db
     .select({ token: apiTokens, user: users })
     .from(apiTokens)
     .innerJoin(users, eq(apiTokens.userId, users.id))
-    .where(and(eq(apiTokens.tokenHash, tokenHash), isNull(apiTokens.revokedAt)))
-    .get();
+    .where(and(eq(apiTokens.tokenHash, sql.placeholder("tokenHash")), isNull(apiTokens.revokedAt)))
+    .prepare();
+}
+
+// Every token-authenticated API call runs this lookup: prepared once per database handle, since
+// building the query each time cost more than running it (bench:load).
+const activeTokenQueries = new WeakMap<Db["$client"], ReturnType<typeof activeTokenQuery>>();
+
+export function findActiveToken(db: Db, { tokenHash }: { tokenHash: string }) {
+  // Inside a transaction there is no $client to key the cache on: prepare for this call only.
+  if (!db.$client) return activeTokenQuery(db).get({ tokenHash });
+  let query = activeTokenQueries.get(db.$client);
+  if (!query) activeTokenQueries.set(db.$client, (query = activeTokenQuery(db)));
+  return query.get({ tokenHash });
 }

@@ -23,7 +23,7 @@ import { AppError } from "@/lib/errors";
 import { luciaFor } from "./lucia";
 import { dummyPasswordHash, hashPassword, verifyPassword } from "./password";
 import { ACCOUNT_POLICY, ADDRESS_POLICY, remainingWait, THROTTLE_WINDOW_MS } from "./throttle";
-import { newApiToken, newId, newSecret, sha256Hex } from "./tokens";
+import { lastUsedNeedsWrite, newApiToken, newId, newSecret, sha256Hex } from "./tokens";
 
 export { THROTTLE_WINDOW_MS };
 export const INVITATION_TTL_MS = 7 * 24 * 3600 * 1000;
@@ -104,7 +104,8 @@ export function authenticateApiToken(db: Db, token: string): AuthUser | null {
   if (!found) return null;
   if (found.token.expiresAt && found.token.expiresAt.getTime() <= Date.now()) return null;
   if (!isActive(found.user)) return null;
-  db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, found.token.id)).run();
+  const now = new Date();
+  if (lastUsedNeedsWrite(found.token.lastUsedAt, now)) db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, found.token.id)).run();
   return toPublicUser(found.user);
 }
 

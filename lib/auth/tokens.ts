@@ -19,3 +19,14 @@ export function newApiToken(): { token: string; prefix: string; hash: string } {
 export function newId(prefix: string): string {
   return `${prefix}_${randomBytes(10).toString("base64url")}`;
 }
+
+/**
+ * `last_used_at` is shown as "last used" on the Account page, to the minute at best. Writing it on
+ * every call made each token-authenticated read a database write (a write lock per request); it is
+ * written only when the stored time is older than this.
+ */
+export const TOKEN_LAST_USED_RESOLUTION_MS = 60_000;
+
+export function lastUsedNeedsWrite(lastUsedAt: Date | null, now: Date): boolean {
+  return !lastUsedAt || now.getTime() - lastUsedAt.getTime() >= TOKEN_LAST_USED_RESOLUTION_MS;
+}

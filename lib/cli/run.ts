@@ -1,4 +1,5 @@
 import { parseArgs } from "node:util";
+import { backupCommand, restoreCommand } from "./backup-commands";
 import { calibrateCommand } from "./calibration-commands";
 import { measureCommand, pkaCommand, spectrumCommand } from "./color-commands";
 import { CliError } from "./errors";
@@ -6,7 +7,8 @@ import { fitCommand } from "./fit-command";
 
 export { CliError };
 
-const COMMAND_LIST = "measure <image> --roi x,y,w,h, calibrate <image> --patch x,y,w,h=L,a,b, spectrum <csv>, pka <csv>, fit <csv> [--model kamlet-taft|et30|permittivity] or token create --email <user> --name <label>";
+const COMMAND_LIST =
+  "measure <image> --roi x,y,w,h, calibrate <image> --patch x,y,w,h=L,a,b, spectrum <csv>, pka <csv>, fit <csv> [--model kamlet-taft|et30|permittivity], token create --email <user> --name <label>, backup <folder> or restore <folder> [--replace]";
 
 type Command = (args: string[]) => Promise<unknown>;
 
@@ -42,7 +44,16 @@ const tokenCommand: Command = async (args) => {
   }
 };
 
-export const COMMANDS: Record<string, Command> = { measure: measureCommand, calibrate: calibrateCommand, spectrum: spectrumCommand, pka: pkaCommand, fit: fitCommand, token: tokenCommand };
+export const COMMANDS: Record<string, Command> = {
+  measure: measureCommand,
+  calibrate: calibrateCommand,
+  spectrum: spectrumCommand,
+  pka: pkaCommand,
+  fit: fitCommand,
+  token: tokenCommand,
+  backup: backupCommand,
+  restore: restoreCommand,
+};
 
 export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;

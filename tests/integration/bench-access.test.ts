@@ -43,7 +43,7 @@ const ROUTES: RouteCase[] = [
       return uploadPhoto(new Request("http://localhost:3000/api/photos", { method: "POST", body: f, headers: h }));
     },
   },
-  { name: "GET /api/photos", allowed: ["admin", "chemist", "formulator"], call: (h) => listPhotos(new Request("http://localhost:3000/api/photos", { headers: h })) },
+  { name: "GET /api/photos", allowed: ["admin", "chemist"], call: (h) => listPhotos(new Request("http://localhost:3000/api/photos", { headers: h })) },
   {
     name: "GET /api/photos/[id]/image",
     allowed: ["admin", "chemist", "formulator"],

@@ -2,17 +2,19 @@
  * POST /api/photos through the real route handler, database and local photo store (DATA_DIR/objects):
  * who may upload, what is refused and why, and that a refusal stores nothing.
  */
+import { spawn } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { eq, sql } from "drizzle-orm";
 import sharp from "sharp";
+import { sha256OfBytes as sha256 } from "@/lib/storage/driver";
 import { POST as uploadPhoto } from "@/app/api/photos/route";
 import { GET as photoImage } from "@/app/api/photos/[id]/image/route";
 import { db } from "@/db/client";
 import { auditLog, photos } from "@/db/schema";
 import { dataDir } from "@/lib/config/env";
-import { buildWorld, tokenFor } from "../support/world";
+import { buildWorld, PEOPLE, tokenFor } from "../support/world";
 import { cmykJpeg, greyJpeg, png16, pngBomb, rackPhoto, rotatedJpeg, smallJpeg, SVG, ZIP_TAIL } from "../support/photos";
 
 const objectsDir = () => path.join(dataDir(), "objects");
@@ -201,5 +203,31 @@ describe("POST /api/photos", () => {
       for (const key of [row.storageKey, row.thumbKey!, row.displayKey!]) expect(fs.existsSync(path.join(objectsDir(), key))).toBe(true);
     }
     expect(storedFiles().filter((f) => f.endsWith(".tmp"))).toEqual([]);
+  });
+
+  it("kill -9 during uploads leaves no row without its files, and the database intact", { timeout: 120_000 }, async () => {
+    const before = photoCount();
+    // Another process uploading four at a time into the same DATA_DIR, killed without warning mid-stream.
+    const child = spawn(process.execPath, ["--import", "tsx", path.join(process.cwd(), "tests/support/upload-loop.ts"), dataDir(), PEOPLE.chemist.id], {
+      env: { ...process.env, NODE_NO_WARNINGS: "1", UPLOAD_LOOP_START: "7000" },
+      stdio: ["ignore", "pipe", "inherit"],
+    });
+    let stored = 0;
+    await new Promise<void>((resolve, reject) => {
+      child.stdout!.on("data", (chunk: Buffer) => {
+        stored += chunk.toString().split("\n").filter(Boolean).length;
+        if (stored >= 12) resolve();
+      });
+      child.on("exit", (code) => reject(new Error(`the upload loop exited early (${code})`)));
+    });
+    child.kill("SIGKILL");
+    await new Promise((r) => child.once("exit", r));
+    expect(photoCount()).toBeGreaterThanOrEqual(before + 12);
+    expect(db().$client.pragma("integrity_check", { simple: true })).toBe("ok");
+    for (const row of db().select().from(photos).all()) {
+      for (const key of [row.storageKey, row.thumbKey!, row.displayKey!]) expect(fs.existsSync(path.join(objectsDir(), key)), key).toBe(true);
+      // Complete files: an original still hashes to its row's sha256.
+      expect(sha256(fs.readFileSync(path.join(objectsDir(), row.storageKey)))).toBe(row.sha256);
+    }
   });
 });

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { db } from "@/db/client";
-import { listDyes } from "@/db/queries/dyes";
+import { listDyesCached } from "@/db/queries/dyes";
 import { apiRoute } from "@/lib/auth/guard";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { searchDyesByText } from "@/lib/search/text";
@@ -11,7 +11,7 @@ const query = z.object({
 });
 
 export const GET = apiRoute({ access: ANY_ROLE, query }, async ({ query }) => {
-  const all = listDyes(db());
+  const all = listDyesCached(db());
   const hits = searchDyesByText(all, query.q, query.limit);
   return {
     dyes: hits.map((d) => ({

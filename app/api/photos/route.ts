@@ -1,8 +1,7 @@
 import { db } from "@/db/client";
-import { storePhoto } from "@/db/queries/photos";
-import { listRecentPhotos } from "@/db/queries/bench";
+import { listPhotosPage, storePhoto, type PhotoCursor } from "@/db/queries/photos";
 import { apiRoute } from "@/lib/auth/guard";
-import { ANY_ROLE, BENCH_ROLES } from "@/lib/auth/roles";
+import { BENCH_ROLES } from "@/lib/auth/roles";
 import { AppError, isAppError } from "@/lib/errors";
 import { readLimited } from "@/lib/net/limited-body";
 import { objectStore } from "@/lib/storage";
@@ -48,7 +47,35 @@ export const POST = apiRoute({ access: BENCH_ROLES }, async ({ req, user }) => {
   return Response.json({ photo: photoJson(photo), duplicate }, { status: duplicate ? 200 : 201 });
 });
 
-/** Recent photos, newest first. */
-export const GET = apiRoute({ access: ANY_ROLE, query: z.object({ limit: z.coerce.number().int().min(1).max(200).default(50) }) }, async ({ query }) => {
-  return { photos: listRecentPhotos(db(), { limit: query.limit }).map((r) => ({ ...photoJson(r.photo), measurementCount: r.count })) };
+const CURSOR_HELP = "cursor: use the nextCursor value of the previous page unchanged, or leave it out for the first page.";
+
+/** Cursors are opaque to callers: base64url of the last photo's upload time and id. */
+function encodeCursor(cursor: PhotoCursor): string {
+  return Buffer.from(JSON.stringify([cursor.createdAt, cursor.id])).toString("base64url");
+}
+
+function decodeCursor(text: string): PhotoCursor | null {
+  try {
+    const value = JSON.parse(Buffer.from(text, "base64url").toString("utf8"));
+    if (Array.isArray(value) && value.length === 2 && Number.isSafeInteger(value[0]) && typeof value[1] === "string" && value[1].length <= 100) return { createdAt: value[0], id: value[1] };
+  } catch {
+    /* refused below */
+  }
+  return null;
+}
+
+const listQuery = z.object({
+  limit: z.coerce.number({ error: "limit must be a whole number from 1 to 200" }).int("limit must be a whole number from 1 to 200").min(1, "limit must be a whole number from 1 to 200").max(200, "limit must be a whole number from 1 to 200").default(50),
+  cursor: z.string().max(400, CURSOR_HELP).optional(),
+});
+
+/** GET /api/photos?limit=&cursor=: photos newest first, one page at a time; chemists and admins. */
+export const GET = apiRoute({ access: BENCH_ROLES, query: listQuery }, async ({ query }) => {
+  const after = query.cursor ? decodeCursor(query.cursor) : null;
+  if (query.cursor && !after) throw new AppError("invalid_input", CURSOR_HELP, { cursor: ["Not a cursor from this API."] });
+  const { rows, next } = listPhotosPage(db(), { limit: query.limit, after });
+  return {
+    photos: rows.map(({ photo, profile }) => ({ ...photoJson(photo), size: photo.byteSize, created: photo.createdAt.toISOString(), profile })),
+    nextCursor: next ? encodeCursor(next) : null,
+  };
 });
