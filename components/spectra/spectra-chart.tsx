@@ -59,7 +59,7 @@ export function SpectraChart({ spectra }: { spectra: ChartSpectrum[] }) {
           <LineChart data={rows} margin={{ top: 8, right: 12, bottom: 20, left: 4 }}>
             <CartesianGrid strokeDasharray="3 3" stroke="#e3e6ec" />
             <XAxis dataKey="nm" type="number" domain={["dataMin", "dataMax"]} label={{ value: "wavelength (nm)", position: "insideBottom", offset: -10 }} />
-            <YAxis label={{ value: "absorbance (as measured)", angle: -90, position: "insideLeft", offset: 12 }} />
+            <YAxis domain={[(min: number) => Math.min(0, Math.floor(min * 20) / 20), "auto"]} label={{ value: "absorbance (as measured)", angle: -90, position: "insideLeft", offset: 12 }} />
             <Tooltip formatter={(v) => (typeof v === "number" ? v.toFixed(3) : String(v))} labelFormatter={(nm) => `${nm} nm`} />
             <Legend verticalAlign="top" height={24} />
             {spectra.map((s, i) => (
