@@ -69,7 +69,8 @@ export function SpectraChart({ spectra }: { spectra: ChartSpectrum[] }) {
           </LineChart>
         </ResponsiveContainer>
       </figure>
-      <table className="mt-3 w-full text-left text-sm">
+      <div className="mt-3 overflow-x-auto">
+      <table className="w-full min-w-[36rem] text-left text-sm">
         <thead className="text-xs text-ink-soft">
           <tr>
             <th className="py-1 pr-2">Colour ({illuminant})</th>
@@ -95,6 +96,7 @@ export function SpectraChart({ spectra }: { spectra: ChartSpectrum[] }) {
           ))}
         </tbody>
       </table>
+      </div>
     </div>
   );
 }
