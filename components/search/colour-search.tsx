@@ -12,7 +12,7 @@ import { COLOUR_WORDS } from "@/lib/search/colour-words";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
 
-type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number; replicates?: number; spreadDeltaE00?: number };
+type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number; replicates?: number; spreadDeltaE00?: number; uncertaintyDeltaE00?: number | null; tieWithPrevious?: boolean };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
 
 const TARGET_KINDS = [
@@ -183,7 +183,15 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                     mean of {r.replicates ?? r.measurements} replicate{(r.replicates ?? r.measurements) === 1 ? "" : "s"}
                     {r.spreadDeltaE00 !== undefined && (r.replicates ?? 0) > 1 && <span className="block">spread ΔE00 {r.spreadDeltaE00.toFixed(1)}</span>}
                   </span>
-                  <span className="w-24 text-right font-semibold tabular-nums">ΔE00 {r.deltaE00.toFixed(1)}</span>
+                  <span className="w-24 text-right font-semibold tabular-nums">
+                    ΔE00 {r.deltaE00.toFixed(1)}
+                    {r.uncertaintyDeltaE00 != null && <span className="block text-xs font-normal text-ink-soft">± {r.uncertaintyDeltaE00.toFixed(1)}</span>}
+                    {r.tieWithPrevious && (
+                      <span className="block text-xs font-normal text-warn" data-testid="tie-mark" title="Differs from the result above by less than their combined uncertainty">
+                        ≈ tie with the one above
+                      </span>
+                    )}
+                  </span>
                 </li>
               ))}
             </ol>

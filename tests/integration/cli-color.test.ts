@@ -93,7 +93,7 @@ describe("cli measure", () => {
     expect(Object.keys(out)).toEqual(["measurements"]);
     expect(out.measurements).toHaveLength(2);
     const [m] = out.measurements;
-    expect(Object.keys(m).sort()).toEqual(["flags", "hex", "lab", "lch", "pixels", "rejected", "roi", "spread"]);
+    expect(Object.keys(m).sort()).toEqual(["flags", "hex", "lab", "lch", "pixels", "rejected", "roi", "spread", "uncertaintyDeltaE00", "uncertaintyIncludesCalibration", "uncertaintyLab"]);
     expect(m.spread).toBe(0);
     expect(m.roi).toEqual([130, 10, 100, 100]);
     expect(m.pixels).toBe(10000);
