@@ -375,6 +375,31 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
       }
     }
 
+    // Indicator dyes: spectra of the acid and the base form in water (the conditions of their acid/base vials).
+    const water = solventByName.get("Water")!;
+    for (const d of dyeList) {
+      if (d.pKa === undefined) continue;
+      for (const [acidBase, pH, additive] of [["acid", 1.5, "0.03 M HCl"], ["base", 12.5, "0.03 M NaOH"]] as const) {
+        const cond = conditionRows.get(`${water.id}|${acidBase}|${pH}|${additive}`);
+        if (!cond) continue;
+        const s = demoSpectrum(d, { alpha: water.ktAlpha ?? 0, beta: water.ktBeta ?? 0, piStar: water.ktPiStar ?? 0 }, pH);
+        const points = s.wavelengths.map((w, i) => [w, Math.round((s.values[i] + 0.002 * gaussian(random)) * 1e4) / 1e4] as [number, number]);
+        tx.insert(spectra)
+          .values({
+            id: `sp_demo_${d.code.toLowerCase()}_water_${acidBase}`,
+            dyeId: `dye_${d.code.toLowerCase()}`,
+            conditionId: cond.id!,
+            points,
+            lambdaMaxNm: lambdaMax({ wavelengths: points.map((p) => p[0]), values: points.map((p) => p[1]) }),
+            concentrationUmolL: 20,
+            pathLengthMm: 10,
+            instrument: "Demo UV-Vis, 1 cm quartz cell",
+            createdBy: chemist.id,
+          })
+          .run();
+      }
+    }
+
     tx.insert(shortlists)
       .values({ id: "sl_demo_1", ownerId: formulator.id, name: "Solvent-sensing ink, first look", notes: "Violet in dipolar aprotic media, clearly different in alcohols." })
       .run();

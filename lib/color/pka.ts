@@ -364,3 +364,28 @@ export function daviesCorrectedPka(apparentPka: number, ionicStrengthMolL: numbe
 export function parsePhSeriesCsv(text: string): PhPoint[] {
   return parseNumericCsv(text, ["pH", "L", "a", "b"], "pH series").map(([pH, L, a, b]) => ({ pH, lab: [L, a, b] }));
 }
+
+/**
+ * The base fraction a vial's colour corresponds to on the fitted model's path (the f in 0–1 whose model
+ * colour is closest in ΔE00), for plotting measured vials against the fitted curve f(pH).
+ */
+export function apparentBaseFraction(model: TwoFormModel, lab: Lab): number {
+  let best = 0;
+  let bestD = Infinity;
+  for (let k = 0; k <= 100; k++) {
+    const d = deltaE00(model.labAt(k / 100), lab);
+    if (d < bestD) {
+      bestD = d;
+      best = k / 100;
+    }
+  }
+  let lo = Math.max(0, best - 0.01);
+  let hi = Math.min(1, best + 0.01);
+  for (let i = 0; i < 30; i++) {
+    const m1 = lo + (hi - lo) / 3;
+    const m2 = hi - (hi - lo) / 3;
+    if (deltaE00(model.labAt(m1), lab) < deltaE00(model.labAt(m2), lab)) hi = m2;
+    else lo = m1;
+  }
+  return (lo + hi) / 2;
+}

@@ -109,7 +109,7 @@ describe("GET /api/search", () => {
         });
       }
     }
-  });
+  }, 120_000); // 24 searches and 24 brute-force scans; slow on a loaded 2-core machine
 
   it("gives each dye once and matches the contract's shape", async () => {
     const { body } = await call("hex=7a3fa0&medium=aprotic&limit=50");

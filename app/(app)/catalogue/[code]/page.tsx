@@ -6,6 +6,8 @@ import { db } from "@/db/client";
 import { dyeMeasurements, findDyeByCode } from "@/db/queries/dyes";
 import { inArray } from "drizzle-orm";
 import { AbPlane, type PlanePoint } from "@/components/catalogue/ab-plane";
+import { TitrationSection } from "@/components/acid-base/titration-section";
+import { SpectraSection } from "@/components/spectra/spectra-section";
 import { DyeEditForm } from "@/components/catalogue/dye-edit-form";
 import { AddToShortlistForm, CreateShortlistForm } from "@/components/shortlists/shortlist-forms";
 import { ButtonLink } from "@/components/ui/button";
@@ -197,6 +199,8 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             ))}
           </ul>
         </Card>
+        <TitrationSection db={handle} dyeId={dye.id} />
+        <SpectraSection db={handle} dyeId={dye.id} />
         <Card title="Measurements" className="lg:col-span-2">
           <div className="max-h-96 overflow-auto">
             <table className="w-full text-left text-sm">

@@ -1,0 +1,30 @@
+import { Card } from "@/components/ui/card";
+import { spectraForDye } from "@/db/queries/acid-base";
+import type { Db } from "@/db/connection";
+import { SpectraChart } from "./spectra-chart";
+
+/** The dye page's spectra: overlays across solvents, λmax, colour by Beer–Lambert under a chosen light. */
+export function SpectraSection({ db, dyeId }: { db: Db; dyeId: string }) {
+  const list = spectraForDye(db, { dyeId });
+  if (list.length === 0) return null;
+  const spectra = list.map((s) => ({
+    id: s.id,
+    label: `${s.solvent}${s.acidBase !== "neutral" ? `, ${s.acidBase}` : ""}${s.pH !== null ? ` pH ${s.pH}` : ""}`,
+    points: s.points,
+    concentrationUmolL: s.concentrationUmolL,
+    pathLengthMm: s.pathLengthMm,
+  }));
+  const measured = list[0];
+  return (
+    <Card title={`Absorption spectra (${list.length})`} className="lg:col-span-3">
+      <SpectraChart spectra={spectra} />
+      <p className="mt-3 text-xs text-ink-soft">
+        Measured {measured.concentrationUmolL !== null ? `at ${measured.concentrationUmolL} µmol/L` : "at an unrecorded concentration"}
+        {measured.pathLengthMm !== null ? `, ${measured.pathLengthMm} mm path` : ""} ({measured.instrument || "instrument not recorded"}). λmax is the maximum of the
+        longest-wavelength band in the visible (380–780 nm), the band E_T(30)-type scales use, not the strongest band; E_T = 28591/λmax kcal/mol (Reichardt 1994).
+        Colours: CIE 015 summation at 1 nm, CIE 1931 2° observer, CIELAB relative to the chosen illuminant&apos;s white, absorbance scaled by Beer–Lambert to the
+        concentration × path length given. UV–visible work: shield UV sources and follow your lab&apos;s safety officer and local regulations.
+      </p>
+    </Card>
+  );
+}

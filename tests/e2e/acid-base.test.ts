@@ -1,0 +1,51 @@
+/**
+ * An indicator dye's page on the demo, in Chromium: the titration curve of its pH series, its pKa with
+ * an uncertainty, and its absorption spectra with λmax.
+ */
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import type { BrowserContext } from "playwright-core";
+import { launchBrowser, watchConsole } from "./browser";
+import { SignInPage } from "./pages/sign-in-page";
+
+const base = inject("baseUrl");
+let browser: BrowserContext;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("an indicator dye's page", () => {
+  it("shows the titration curve, the pKa ± its uncertainty and the spectra with λmax", async () => {
+    const page = await browser.newPage();
+    const errors = watchConsole(page);
+    await new SignInPage(page, base).signIn("chemist@demo.test");
+    // KB-SP-205 is a demo sulfonephthalein with a 13-vial universal-buffer series and spectra.
+    await page.goto(`${base}/catalogue/KB-SP-205`);
+    await page.getByRole("heading", { name: "pKa and titration curve" }).waitFor();
+    const pka = page.getByTestId("pka-value").first();
+    await expect(pka.innerText()).resolves.toMatch(/^pKa \d+\.\d\d ± \d+\.\d\d$/);
+    const curve = page.getByTestId("titration-curve").first();
+    await curve.waitFor();
+    // The fitted line and one dot per vial are drawn.
+    expect(await curve.locator("svg path").count()).toBeGreaterThan(0);
+    expect(await curve.locator("circle").count()).toBeGreaterThanOrEqual(5);
+    await expect(page.getByText(/Apparent pKa in Water/).first().innerText()).resolves.toMatch(/ionic strength/);
+
+    await page.getByRole("heading", { name: /Absorption spectra/ }).waitFor();
+    const chart = page.getByTestId("spectra-chart");
+    await chart.waitFor();
+    expect(await chart.locator("svg path").count()).toBeGreaterThan(0);
+    const rows = page.getByTestId("spectrum-row");
+    expect(await rows.count()).toBeGreaterThanOrEqual(2);
+    await expect(rows.first().innerText()).resolves.toMatch(/\d{3}\.\d/);
+    // Beer–Lambert: a longer path darkens the colour shown.
+    const before = await rows.first().locator("span").first().getAttribute("style");
+    await page.getByLabel("Path length (mm)").fill("40");
+    await expect.poll(async () => rows.first().locator("span").first().getAttribute("style")).not.toBe(before);
+    expect(errors).toEqual([]);
+    await page.close();
+  }, 120_000);
+});
