@@ -12,11 +12,13 @@ import {
   measurements,
   photos,
   rackTemplates,
+  solventPanels,
   solvents,
   users,
   type AcidBase,
   type CorrectionKind,
   type NewMeasurement,
+  type PanelEntry,
   type Region,
   type ReferenceUsed,
   type TemplateRegion,
@@ -103,37 +105,89 @@ export function profileForPipeline(db: Db, id: string | null): ProfileForPipelin
   return { id: p.id, name: p.name, correction: correctionFromArray(p.correctionKind, p.correction), validFrom: p.validFrom, validUntil: p.validUntil };
 }
 
-/** The condition row for these values, made if no identical one exists yet. */
-function conditionFor(tx: Tx, actorId: string, c: { solventId: string; acidBase: AcidBase; ph: number | null; concentrationUmolL: number | null }): string {
-  const existing = tx
+/** Every field of a condition the bench records; numbers in the units of `conditions`. */
+export type ConditionInput = {
+  solventId: string;
+  acidBase: AcidBase;
+  ph: number | null;
+  concentrationUmolL: number | null;
+  additive?: string;
+  additiveConcentrationMolL?: number | null;
+  temperatureC?: number | null;
+  pathLengthMm?: number | null;
+  secondSolventId?: string | null;
+  secondSolventMoleFraction?: number | null;
+};
+
+function normalizeCondition(c: ConditionInput) {
+  return {
+    solventId: c.solventId,
+    acidBase: c.acidBase,
+    ph: c.ph,
+    concentrationUmolL: c.concentrationUmolL,
+    additive: c.additive?.trim() ?? "",
+    additiveConcentrationMolL: c.additiveConcentrationMolL ?? null,
+    temperatureC: c.temperatureC ?? null,
+    pathLengthMm: c.pathLengthMm ?? null,
+    secondSolventId: c.secondSolventId || null,
+    secondSolventMoleFraction: c.secondSolventId ? (c.secondSolventMoleFraction ?? null) : null,
+  };
+}
+
+const sameValue = <T,>(column: Parameters<typeof eq>[0], v: T | null) => (v === null ? isNull(column) : eq(column, v));
+
+/** The id of the condition with exactly these values (every recorded field), or undefined; creates nothing. */
+export function findCondition(db: Db | Tx, input: ConditionInput): string | undefined {
+  const c = normalizeCondition(input);
+  return db
     .select({ id: conditions.id })
     .from(conditions)
     .where(
       and(
         eq(conditions.solventId, c.solventId),
         eq(conditions.acidBase, c.acidBase),
-        c.ph === null ? isNull(conditions.ph) : eq(conditions.ph, c.ph),
-        c.concentrationUmolL === null ? isNull(conditions.concentrationUmolL) : eq(conditions.concentrationUmolL, c.concentrationUmolL),
-        eq(conditions.additive, ""),
-        isNull(conditions.pathLengthMm),
-        isNull(conditions.temperatureC),
+        sameValue(conditions.ph, c.ph),
+        sameValue(conditions.concentrationUmolL, c.concentrationUmolL),
+        eq(conditions.additive, c.additive),
+        sameValue(conditions.additiveConcentrationMolL, c.additiveConcentrationMolL),
+        sameValue(conditions.pathLengthMm, c.pathLengthMm),
+        sameValue(conditions.temperatureC, c.temperatureC),
+        sameValue(conditions.secondSolventId, c.secondSolventId),
+        sameValue(conditions.secondSolventMoleFraction, c.secondSolventMoleFraction),
+        isNull(conditions.ionicStrengthMolL),
       ),
     )
-    .get();
-  if (existing) return existing.id;
+    .get()?.id;
+}
+
+/** The condition row for these values, made if no identical one exists yet. */
+export function conditionFor(tx: Tx, actorId: string, input: ConditionInput): string {
+  const existing = findCondition(tx, input);
+  if (existing) return existing;
+  const c = normalizeCondition(input);
+  if (c.secondSolventId && !tx.select({ id: solvents.id }).from(solvents).where(eq(solvents.id, c.secondSolventId)).get()) {
+    throw new AppError("invalid_input", "The second solvent of the blend is not in the solvent table; pick it from the list.", { secondSolventId: ["Unknown solvent."] });
+  }
   const id = `cond_${randomUUID()}`;
   tx.insert(conditions).values({ id, ...c }).run();
   recordAudit(tx, { actorId, action: "condition.create", entity: "condition", entityId: id, after: c });
   return id;
 }
 
-export type MeasurementToSave = {
+/** Accepted colours of one dye in one condition (the earlier replicates a new colour is checked against), oldest first. */
+export function acceptedReplicates(db: Db | Tx, { dyeId, conditionId, excludeIds = [] }: { dyeId: string; conditionId: string; excludeIds?: string[] }) {
+  return db
+    .select({ id: measurements.id, l: measurements.l, a: measurements.a, b: measurements.b, uDeltaE00: measurements.uDeltaE00, photoId: measurements.photoId, createdAt: measurements.createdAt })
+    .from(measurements)
+    .where(and(eq(measurements.dyeId, dyeId), eq(measurements.conditionId, conditionId), eq(measurements.reviewState, "accepted")))
+    .orderBy(measurements.createdAt)
+    .all()
+    .filter((r) => !excludeIds.includes(r.id));
+}
+
+export type MeasurementToSave = ConditionInput & {
   region: Region;
   dyeId: string;
-  solventId: string;
-  acidBase: AcidBase;
-  ph: number | null;
-  concentrationUmolL: number | null;
   rawLinearRgb: [number, number, number];
   xyz: [number, number, number];
   lab: [number, number, number];
@@ -142,6 +196,8 @@ export type MeasurementToSave = {
   spread: number;
   flags: string[];
   flagReason: string | null;
+  /** Standard uncertainties of L*, a*, b* and the combined ± ΔE00, when the pipeline gives them. */
+  uncertainty?: { lab: [number, number, number]; deltaE00: number } | null;
 };
 
 /**
@@ -207,7 +263,7 @@ export function saveMeasurements(
         photoId: photo.id,
         region: v.region,
         dyeId: v.dyeId,
-        conditionId: conditionFor(tx, input.actorId, { solventId: v.solventId, acidBase: v.acidBase, ph: v.ph, concentrationUmolL: v.concentrationUmolL }),
+        conditionId: conditionFor(tx, input.actorId, v),
         lightingProfileId: input.lightingProfileId,
         correctionKind: input.correction.kind,
         correction: input.correction.values,
@@ -226,6 +282,10 @@ export function saveMeasurements(
         pixelCount: v.pixels,
         rejectedCount: v.rejected,
         spread: v.spread,
+        uL: v.uncertainty?.lab[0] ?? null,
+        uA: v.uncertainty?.lab[1] ?? null,
+        uB: v.uncertainty?.lab[2] ?? null,
+        uDeltaE00: v.uncertainty?.deltaE00 ?? null,
         flags: v.flags,
         flagReason: v.flags.length ? v.flagReason : null,
         reviewState: "pending",
@@ -288,4 +348,66 @@ export function deleteRackTemplate(db: Db, { actorId, id }: { actorId: string; i
     tx.delete(rackTemplates).where(eq(rackTemplates.id, id)).run();
     recordAudit(tx, { actorId, action: "rack-template.delete", entity: "rack_template", entityId: id, before: { name: existing.name, regions: existing.regions } });
   });
+}
+
+// ---------------------------------------------------------------- solvent panels
+
+export function listSolventPanels(db: Db) {
+  return db.select().from(solventPanels).orderBy(solventPanels.name).all();
+}
+
+/** Saves a panel under a name; a panel saved again under the same name replaces the old one. */
+export function saveSolventPanel(db: Db, { actorId, name, entries }: { actorId: string; name: string; entries: PanelEntry[] }) {
+  return db.transaction((tx) => {
+    for (const [i, e] of entries.entries()) {
+      for (const sid of [e.solventId, e.secondSolventId].filter((x): x is string => !!x)) {
+        if (!tx.select({ id: solvents.id }).from(solvents).where(eq(solvents.id, sid)).get()) {
+          throw new AppError("invalid_input", `Place ${i + 1} of the panel names a solvent that is not in the solvent table; pick it from the list.`);
+        }
+      }
+    }
+    const existing = tx.select().from(solventPanels).where(eq(solventPanels.name, name)).get();
+    if (existing) {
+      tx.update(solventPanels).set({ entries, updatedAt: new Date() }).where(eq(solventPanels.id, existing.id)).run();
+      recordAudit(tx, { actorId, action: "solvent-panel.update", entity: "solvent_panel", entityId: existing.id, before: { entries: existing.entries }, after: { entries } });
+      return existing.id;
+    }
+    const id = `sp_${randomUUID()}`;
+    tx.insert(solventPanels).values({ id, name, entries, createdBy: actorId }).run();
+    recordAudit(tx, { actorId, action: "solvent-panel.create", entity: "solvent_panel", entityId: id, after: { name, entries } });
+    return id;
+  });
+}
+
+export function deleteSolventPanel(db: Db, { actorId, id }: { actorId: string; id: string }) {
+  db.transaction((tx) => {
+    const existing = tx.select().from(solventPanels).where(eq(solventPanels.id, id)).get();
+    if (!existing) throw new AppError("not_found", "That panel no longer exists.");
+    tx.delete(solventPanels).where(eq(solventPanels.id, id)).run();
+    recordAudit(tx, { actorId, action: "solvent-panel.delete", entity: "solvent_panel", entityId: id, before: { name: existing.name, entries: existing.entries } });
+  });
+}
+
+/** Earlier accepted colours of a dye in the condition with exactly these values (none when no such condition exists yet). */
+export function earlierReplicates(db: Db, { dyeId, condition, excludeIds }: { dyeId: string; condition: ConditionInput; excludeIds?: string[] }) {
+  const conditionId = findCondition(db, condition);
+  return conditionId ? acceptedReplicates(db, { dyeId, conditionId, excludeIds }) : [];
+}
+
+/** For each measurement, the accepted colours of the same dye and condition other than itself. */
+export function earlierForMeasurements(db: Db, rows: { id: string; dyeId: string; conditionId: string }[]) {
+  const byKey = new Map<string, ReturnType<typeof acceptedReplicates>>();
+  const out = new Map<string, [number, number, number][]>();
+  for (const r of rows) {
+    const key = `${r.dyeId}|${r.conditionId}`;
+    if (!byKey.has(key)) byKey.set(key, acceptedReplicates(db, { dyeId: r.dyeId, conditionId: r.conditionId }));
+    out.set(
+      r.id,
+      byKey
+        .get(key)!
+        .filter((e) => e.id !== r.id)
+        .map((e) => [e.l, e.a, e.b]),
+    );
+  }
+  return out;
 }
