@@ -374,6 +374,8 @@ export type PanelEntry = {
   solventId: string;
   acidBase: AcidBase;
   ph: number | null;
+  /** Dye concentration, µmol/L (absent in panels saved before it was recorded). */
+  concentrationUmolL?: number | null;
   additive: string;
   additiveConcentrationMolL: number | null;
   temperatureC: number | null;

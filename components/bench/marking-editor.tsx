@@ -39,9 +39,9 @@ type Mark = {
 };
 
 /** The condition fields of a vial, copied as a group (panels, duplicates). */
-const CONDITION_KEYS = ["solventId", "acidBase", "ph", "additive", "addConc", "temp", "path", "solvent2", "x2"] as const;
+const CONDITION_KEYS = ["solventId", "acidBase", "ph", "conc", "additive", "addConc", "temp", "path", "solvent2", "x2"] as const;
 type ConditionPart = Pick<Mark, (typeof CONDITION_KEYS)[number]>;
-const NEUTRAL: ConditionPart = { solventId: "", acidBase: "neutral", ph: "", additive: "", addConc: "", temp: "", path: "", solvent2: "", x2: "" };
+const NEUTRAL: ConditionPart = { solventId: "", acidBase: "neutral", ph: "", conc: "", additive: "", addConc: "", temp: "", path: "", solvent2: "", x2: "" };
 const conditionOf = (m: Mark): ConditionPart => Object.fromEntries(CONDITION_KEYS.map((k) => [k, m[k]])) as ConditionPart;
 
 type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[]; uncertainty?: { deltaE00: number } | null };
@@ -53,7 +53,7 @@ export type SolventOption = { id: string; name: string; medium: "protic" | "dipo
 export type ProfileOption = { id: string; name: string; validNow: boolean; approved: boolean };
 export type TemplateOption = { id: string; name: string; regions: { shape: Shape; x: number; y: number; w: number; h: number; role: Role; label: string }[] };
 export type PatchOption = { label: string; lab: [number, number, number] };
-export type PanelOption = { id: string; name: string; entries: { solventId: string; acidBase: "acid" | "neutral" | "base"; ph: number | null; additive: string; additiveConcentrationMolL: number | null; temperatureC: number | null; pathLengthMm: number | null; secondSolventId: string | null; secondSolventMoleFraction: number | null }[] };
+export type PanelOption = { id: string; name: string; entries: { solventId: string; acidBase: "acid" | "neutral" | "base"; ph: number | null; concentrationUmolL?: number | null; additive: string; additiveConcentrationMolL: number | null; temperatureC: number | null; pathLengthMm: number | null; secondSolventId: string | null; secondSolventMoleFraction: number | null }[] };
 
 const MEDIUM_LABEL = { protic: "protic", "dipolar-aprotic": "dipolar aprotic", nonpolar: "non-polar" } as const;
 const ZOOMS = [0.5, 0.75, 1, 1.5, 2, 3, 4];
@@ -155,8 +155,7 @@ export function MarkingEditor(props: {
       ...clampBox(box),
       label: role === "vial" ? `Vial ${sameRole + 1}` : `Reference ${sameRole + 1}`,
       dyeId: sameDye || base?.dyeId || "",
-      ...(from ? conditionOf(from) : { ...NEUTRAL, acidBase: base?.acidBase ?? "neutral", ph: base?.ph ?? "" }),
-      conc: base?.conc ?? "",
+      ...(from ? conditionOf(from) : { ...NEUTRAL, acidBase: base?.acidBase ?? "neutral", ph: base?.ph ?? "", conc: base?.conc ?? "" }),
       flagReason: "",
       refL: from?.refL ?? "",
       refA: from?.refA ?? "",
@@ -438,6 +437,7 @@ export function MarkingEditor(props: {
           solventId: e.solventId,
           acidBase: e.acidBase,
           ph: numText(e.ph),
+          conc: numText(e.concentrationUmolL ?? null),
           additive: e.additive,
           addConc: numText(e.additiveConcentrationMolL),
           temp: numText(e.temperatureC),
@@ -461,7 +461,7 @@ export function MarkingEditor(props: {
     name: panelName,
     entries: [...vials]
       .sort((a, b) => a.x - b.x || a.y - b.y)
-      .map((v) => ({ solventId: v.solventId, acidBase: v.acidBase, ph: parseNum(v.ph), ...conditionPayload(v) })),
+      .map((v) => ({ solventId: v.solventId, acidBase: v.acidBase, ph: parseNum(v.ph), concentrationUmolL: parseNum(v.conc), ...conditionPayload(v) })),
   });
 
   // ------------------------------------------------------------ saving

@@ -2,7 +2,11 @@ import { randomUUID } from "node:crypto";
 import { and, desc, eq, isNull, sql } from "drizzle-orm";
 import { correctionFromArray } from "../../lib/color/correction";
 import type { ProfileForPipeline } from "../../lib/bench/pipeline";
+import { instrumentColourToD65 } from "../../lib/bench/instrument";
+import { checkReplicate, replicateFlags } from "../../lib/bench/replicates";
 import { AppError } from "../../lib/errors";
+import { matchSolvent } from "../../lib/solvents/match";
+import type { InstrumentMeasurement } from "../../lib/validation/instrument";
 import type { Db } from "../connection";
 import {
   calibrationTargets,
@@ -410,4 +414,134 @@ export function earlierForMeasurements(db: Db, rows: { id: string; dyeId: string
     );
   }
   return out;
+}
+
+// ---------------------------------------------------------------- colours measured with an instrument
+
+export type InstrumentColourToSave = {
+  dyeId: string;
+  condition: ConditionInput;
+  /** CIELAB D65 (already adapted when measured under D50), XYZ with Y of the white = 100, linear sRGB equivalent. */
+  lab: [number, number, number];
+  xyz: [number, number, number];
+  linearRgb: [number, number, number];
+  /** As sent, before adaptation, for the audit log. */
+  sent: { lab: [number, number, number]; whitePoint: string };
+  instrument: string;
+  uncertaintyDeltaE00: number | null;
+  flags: string[];
+  flagReason: string | null;
+};
+
+/**
+ * Saves colours measured with an instrument in one transaction, pending review like photographed
+ * ones, each with its condition (reused when identical) and an audit entry. Any failure saves nothing.
+ */
+export function saveInstrumentMeasurements(db: Db, { actorId, items }: { actorId: string; items: InstrumentColourToSave[] }): string[] {
+  return db.transaction((tx) => {
+    const ids: string[] = [];
+    for (const [i, v] of items.entries()) {
+      if (v.flags.length > 0 && !v.flagReason) {
+        throw new AppError("invalid_input", `Measurement ${i + 1} is flagged (${v.flags.join(", ")}); send flagReason saying why it should be kept, or measure again.`, { [`${i}.flagReason`]: ["Give a reason to keep a flagged measurement."] });
+      }
+      const id = `ms_${randomUUID()}`;
+      tx.insert(measurements)
+        .values({
+          id,
+          photoId: null,
+          region: null,
+          dyeId: v.dyeId,
+          conditionId: conditionFor(tx, actorId, v.condition),
+          lightingProfileId: null,
+          correctionKind: null,
+          correction: null,
+          referencePatches: null,
+          rawR: v.linearRgb[0],
+          rawG: v.linearRgb[1],
+          rawB: v.linearRgb[2],
+          x: v.xyz[0],
+          y: v.xyz[1],
+          z: v.xyz[2],
+          l: v.lab[0],
+          a: v.lab[1],
+          b: v.lab[2],
+          illuminant: "D65",
+          observer: "CIE 1931 2°",
+          pixelCount: 0,
+          rejectedCount: 0,
+          spread: 0,
+          uDeltaE00: v.uncertaintyDeltaE00,
+          flags: v.flags,
+          flagReason: v.flags.length ? v.flagReason : null,
+          instrument: v.instrument,
+          reviewState: "pending",
+          createdBy: actorId,
+        })
+        .run();
+      recordAudit(tx, {
+        actorId,
+        action: "measurement.create",
+        entity: "measurement",
+        entityId: id,
+        after: { dyeId: v.dyeId, lab: v.lab, sent: v.sent, instrument: v.instrument, flags: v.flags, flagReason: v.flagReason, uncertaintyDeltaE00: v.uncertaintyDeltaE00 },
+      });
+      ids.push(id);
+    }
+    return ids;
+  });
+}
+
+/**
+ * Checks colours measured with an instrument against the catalogue and the solvent table and brings
+ * them to D65 (lib/bench/instrument.ts); adds the replicate and lightness flags. One result per input,
+ * each either ready to save or with its problems named by field.
+ */
+export function prepareInstrumentMeasurements(db: Db, inputs: InstrumentMeasurement[]) {
+  const solventRows = db.select({ id: solvents.id, name: solvents.name, synonyms: solvents.synonyms }).from(solvents).all();
+  const dyeRows = db.select({ id: dyes.id, code: dyes.code }).from(dyes).all();
+  return inputs.map((v): { ok: true; item: InstrumentColourToSave } | { ok: false; errors: { field: string; message: string }[] } => {
+    const errors: { field: string; message: string }[] = [];
+    const q = v.dye.trim().toLowerCase();
+    const dye = dyeRows.find((d) => d.id === v.dye.trim() || d.code.toLowerCase() === q);
+    if (!dye) errors.push({ field: "dye", message: `No dye has the code or id “${v.dye}”; add it to the catalogue first.` });
+    const solvent = matchSolvent(solventRows, v.condition.solvent);
+    if (!solvent) errors.push({ field: "solvent", message: `“${v.condition.solvent}” is not in the solvent table; use a name or synonym from it, or ask an admin to add it.` });
+    const second = v.condition.secondSolvent ? matchSolvent(solventRows, v.condition.secondSolvent) : null;
+    if (v.condition.secondSolvent && !second) errors.push({ field: "secondSolvent", message: `“${v.condition.secondSolvent}” is not in the solvent table.` });
+    if (second && !(v.condition.secondSolventMoleFraction !== null && v.condition.secondSolventMoleFraction > 0 && v.condition.secondSolventMoleFraction < 1)) {
+      errors.push({ field: "secondSolventMoleFraction", message: "Give the second solvent's mole fraction, between 0 and 1." });
+    }
+    if (v.condition.additiveConcentrationMolL !== null && !v.condition.additive) errors.push({ field: "additive", message: "Name the acid or base whose amount you gave (e.g. HCl)." });
+    if (errors.length || !dye || !solvent) return { ok: false, errors };
+    const colour = instrumentColourToD65(v.lab, v.whitePoint);
+    const condition: ConditionInput = {
+      solventId: solvent.id,
+      acidBase: v.condition.acidBase,
+      ph: v.condition.pH,
+      concentrationUmolL: v.condition.concentrationUmolL,
+      additive: v.condition.additive,
+      additiveConcentrationMolL: v.condition.additiveConcentrationMolL,
+      temperatureC: v.condition.temperatureC,
+      pathLengthMm: v.condition.pathLengthMm,
+      secondSolventId: second?.id ?? null,
+      secondSolventMoleFraction: second ? v.condition.secondSolventMoleFraction : null,
+    };
+    const earlier = earlierReplicates(db, { dyeId: dye.id, condition });
+    const verdict = checkReplicate(colour.lab, earlier.map((e) => [e.l, e.a, e.b]), v.uncertaintyDeltaE00 ?? null);
+    return {
+      ok: true,
+      item: {
+        dyeId: dye.id,
+        condition,
+        lab: colour.lab,
+        xyz: colour.xyz,
+        linearRgb: colour.linearRgb,
+        sent: { lab: v.lab, whitePoint: v.whitePoint },
+        instrument: v.instrument,
+        uncertaintyDeltaE00: v.uncertaintyDeltaE00 ?? null,
+        flags: replicateFlags(colour.lab, verdict),
+        flagReason: v.flagReason || null,
+      },
+    };
+  });
 }

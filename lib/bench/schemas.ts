@@ -48,6 +48,7 @@ export const conditionFieldsSchema = z
     solventId: z.string({ error: "Choose the solvent in this vial." }).min(1, { error: "Choose the solvent in this vial." }).max(100),
     acidBase: z.enum(["acid", "neutral", "base"], { error: "Choose acid, neutral or base." }),
     ph: optionalNumber(-2, 16, "pH"),
+    concentrationUmolL: optionalNumber(0.000001, 1e6, "The concentration (µmol/L)"),
     additive: z.string().trim().max(200, { error: "Name the acid or base in at most 200 characters." }).default(""),
     additiveConcentrationMolL: optionalNumber(0, 20, "The amount of acid or base (mol/L)"),
     temperatureC: optionalNumber(-100, 250, "The temperature (°C)"),
@@ -72,7 +73,6 @@ export const vialSchema = z.intersection(
   z.object({
     region: regionSchema,
     dyeId: z.string({ error: "Choose the dye in this vial." }).min(1, { error: "Choose the dye in this vial." }).max(100),
-    concentrationUmolL: optionalNumber(0.000001, 1e6, "The concentration (µmol/L)"),
     flagReason: z.string().trim().max(1000).default(""),
   }),
 );
@@ -91,7 +91,6 @@ export const replicateCheckSchema = z.object({
         z.object({
           key: z.string().max(64),
           dyeId: z.string().min(1).max(100),
-          concentrationUmolL: optionalNumber(0.000001, 1e6, "The concentration (µmol/L)"),
           lab: z.tuple([z.number().finite(), z.number().finite(), z.number().finite()]),
           uncertaintyDeltaE00: z.number().finite().nonnegative().nullable().optional(),
         }),
