@@ -73,6 +73,19 @@ const FLAG_TEXT: Record<string, string> = {
 let serial = 0;
 const newKey = () => `m${Date.now().toString(36)}${(serial++).toString(36)}`;
 const fmt = (v: number, d = 1) => (Number.isFinite(v) ? v.toFixed(d) : "—");
+/** Short names for the flags column; the full sentence is in FLAG_TEXT, shown under the row. */
+const FLAG_SHORT: Record<string, string> = {
+  "too-few-pixels": "few pixels",
+  "much-rejected": "rejected px",
+  "non-uniform": "not uniform",
+  "near-clipping": "near limit",
+  "out-of-srgb-gamut": "outside sRGB",
+  uncorrected: "uncorrected",
+  "reference-drift": "light drift",
+  "profile-not-valid-then": "profile date",
+  "disagrees-with-replicates": "≠ replicates",
+  "lightness-above-100": "L* > 100",
+};
 const parseNum = (s: string): number | null => (s.trim() === "" ? null : Number(s.replace(",", ".")));
 const numText = (v: number | null) => (v === null ? "" : String(v));
 /** Shown to two decimals; the stored value stays exact (refExact) until the person edits the field. */
@@ -583,7 +596,7 @@ export function MarkingEditor(props: {
       </p>
       <div className="hidden space-y-3 md:block">
         <SafetyNotice solvents={inUse} />
-        <div className="grid items-start gap-4 lg:grid-cols-[minmax(0,5fr)_minmax(0,7fr)]">
+        <div className="grid items-start gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
           {/* The photo column stays in view while the table beside it scrolls. */}
           <div className="space-y-2 lg:sticky lg:top-20" data-testid="photo-column">
             <div className="flex flex-wrap items-end gap-2 rounded-lg border border-line bg-white p-2">
@@ -790,7 +803,7 @@ export function MarkingEditor(props: {
                 )}
               </p>
               <div className="overflow-x-auto">
-                <table className="w-full min-w-[44rem] text-sm" data-testid="rack-table">
+                <table className="w-full min-w-[42rem] text-sm" data-testid="rack-table">
                   <caption className="sr-only">One row per vial, left to right: its region, dye, solvent, condition, measured colour, uncertainty and flags.</caption>
                   <thead className="bg-paper/60 text-left text-xs text-ink-soft">
                     <tr>
@@ -818,7 +831,7 @@ export function MarkingEditor(props: {
                     const rep = replicates[m.key];
                     const flags = flagsOf(m);
                     const isSel = m.key === selected;
-                    const open = openRow === m.key || flags.length > 0;
+                    const open = openRow === m.key;
                     return (
                       <tbody key={m.key} data-testid="vial-row" data-label={m.label} data-flags={flags.join(" ")} onFocusCapture={() => setSelected(m.key)} className={`border-t border-line ${isSel ? "bg-accent-soft/40" : ""}`}>
                         <tr className="align-top">
@@ -855,13 +868,12 @@ export function MarkingEditor(props: {
                           </td>
                           <td className="px-2 py-1.5" data-testid="live-colour">
                             {r?.ok ? (
-                              <div className="flex items-start gap-2">
-                                <span role="img" aria-label={`Measured colour of ${m.label} (screen approximation)`} className="h-9 w-9 shrink-0 rounded border border-black/10" style={{ backgroundColor: r.colour.hex }} />
-                                <span className="text-xs tabular-nums" data-testid="live-lab">
-                                  L* {fmt(r.colour.lab[0])} a* {fmt(r.colour.lab[1])} b* {fmt(r.colour.lab[2])}
-                                  <span className="block text-ink-soft">
-                                    C* {fmt(r.colour.lch[1])} h° {fmt(r.colour.lch[2], 0)} · {r.colour.pixels} px
-                                  </span>
+                              <div className="flex items-start gap-1.5">
+                                <span role="img" aria-label={`Measured colour of ${m.label} (screen approximation)`} className="h-8 w-8 shrink-0 rounded border border-black/10" style={{ backgroundColor: r.colour.hex }} />
+                                <span className="whitespace-nowrap text-xs leading-4 tabular-nums" data-testid="live-lab" title={`C* ${fmt(r.colour.lch[1])} h° ${fmt(r.colour.lch[2], 0)} · ${r.colour.pixels} px, ${r.colour.rejected} rejected`}>
+                                  L* {fmt(r.colour.lab[0])}
+                                  <br />
+                                  a* {fmt(r.colour.lab[1])} b* {fmt(r.colour.lab[2])}
                                 </span>
                               </div>
                             ) : r ? (
@@ -877,10 +889,10 @@ export function MarkingEditor(props: {
                             {flags.length === 0 ? (
                               <span className="text-xs text-ink-soft">{r?.ok ? "none" : ""}</span>
                             ) : (
-                              <ul className="flex flex-col gap-0.5" aria-label={`Quality flags of ${m.label}`}>
+                              <ul className="flex flex-wrap gap-0.5" aria-label={`Quality flags of ${m.label}`}>
                                 {flags.map((f) => (
-                                  <li key={f} className="rounded bg-amber-50 px-1.5 py-0.5 text-xs font-medium text-warn" data-testid="vial-flag" data-flag={f}>
-                                    {FLAG_TEXT[f] ?? f}
+                                  <li key={f} title={FLAG_TEXT[f] ?? f} className="whitespace-nowrap rounded bg-amber-50 px-1 text-xs font-medium text-warn" data-testid="vial-flag" data-flag={f}>
+                                    ⚠ {FLAG_SHORT[f] ?? f}
                                   </li>
                                 ))}
                               </ul>
@@ -932,8 +944,15 @@ export function MarkingEditor(props: {
                                   </button>
                                 </div>
                               </div>
+                            </td>
+                          </tr>
+                        )}
+                        {(flags.length > 0 || (rep && rep.earlier.length > 0)) && (
+                          <tr>
+                            <td colSpan={7} className="px-2 pb-2">
+                              {flags.length > 0 && <p className="text-xs text-warn">{m.label}: {flags.map((f) => FLAG_TEXT[f] ?? f).join("; ")}.</p>}
                               {rep && rep.earlier.length > 0 && (
-                                <div className="mt-2 flex flex-wrap items-center gap-2 text-xs" data-testid="replicate-check">
+                                <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs" data-testid="replicate-check">
                                   <span className={rep.verdict?.disagrees ? "font-semibold text-warn" : "text-ink-soft"}>
                                     {rep.verdict?.disagrees ? "Disagrees with" : "Agrees with"} {rep.earlier.length} earlier accepted colour{rep.earlier.length === 1 ? "" : "s"} of this dye and condition: ΔE00{" "}
                                     {fmt(rep.verdict!.deltaE00, 1)} from their mean, limit {fmt(rep.verdict!.limitDeltaE00, 1)} (3 × combined spread; common practice)
@@ -945,11 +964,11 @@ export function MarkingEditor(props: {
                                 </div>
                               )}
                               {flags.length > 0 && (
-                                <div className="mt-2">
-                                  <label htmlFor={`reason-${m.key}`} className="block text-xs font-semibold">
-                                    Why keep this flagged measurement? ({m.label})
+                                <div className="mt-1 flex items-center gap-2">
+                                  <label htmlFor={`reason-${m.key}`} className="shrink-0 text-xs font-semibold">
+                                    Why keep {m.label}?
                                   </label>
-                                  <input id={`reason-${m.key}`} value={m.flagReason} onChange={(e) => update(m.key, { flagReason: e.target.value })} className={INPUT} />
+                                  <input id={`reason-${m.key}`} aria-label={`Why keep this flagged measurement? (${m.label})`} value={m.flagReason} onChange={(e) => update(m.key, { flagReason: e.target.value })} className={`${INPUT} min-h-8`} />
                                   {fieldErr(vi, "flagReason") && <p className="text-xs text-bad">{fieldErr(vi, "flagReason")}</p>}
                                 </div>
                               )}
@@ -1020,10 +1039,11 @@ export function MarkingEditor(props: {
             <form action={saveAction} className="sticky bottom-2 z-10 space-y-2 rounded-lg border border-line bg-white p-3 shadow-md" data-testid="save-bar">
               <input type="hidden" name="payload" value={payload} />
               {problems.length > 0 && (
-                <ul className="max-h-28 list-disc space-y-0.5 overflow-auto pl-5 text-sm text-ink-soft" aria-label="Before saving">
-                  {problems.map((p, i) => (
+                <ul className="list-disc pl-5 text-xs text-ink-soft" aria-label="Before saving">
+                  {problems.slice(0, 2).map((p, i) => (
                     <li key={i}>{p}</li>
                   ))}
+                  {problems.length > 2 && <li>and {problems.length - 2} more: see the rows above.</li>}
                 </ul>
               )}
               <button disabled={saving || problems.length > 0 || !measuredAll} className="min-h-11 w-full rounded-md bg-accent px-4 text-base font-semibold text-white disabled:opacity-40">
