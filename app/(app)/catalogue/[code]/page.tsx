@@ -7,6 +7,7 @@ import { dyeMeasurements, findDyeByCode } from "@/db/queries/dyes";
 import { inArray } from "drizzle-orm";
 import { AbPlane, type PlanePoint } from "@/components/catalogue/ab-plane";
 import { DyeEditForm } from "@/components/catalogue/dye-edit-form";
+import { ReplicateGroups } from "@/components/bench/replicate-groups";
 import { AddToShortlistForm, CreateShortlistForm } from "@/components/shortlists/shortlist-forms";
 import { ButtonLink } from "@/components/ui/button";
 import { listShortlists } from "@/db/queries/shortlists";
@@ -191,6 +192,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             ))}
           </ul>
         </Card>
+        <ReplicateGroups rows={accepted} />
         <Card title="Measurements" className="lg:col-span-2">
           <div className="max-h-96 overflow-auto">
             <table className="w-full text-left text-sm">
