@@ -87,3 +87,31 @@ export function changeDye(db: Db, { actorId, id, changes }: { actorId: string; i
   }
   return updateDye(db, { actorId, id, changes });
 }
+
+/** Adds several dyes in one transaction (CSV import): all or nothing, one audit entry each. */
+export function addDyes(db: Db, { actorId, list }: { actorId: string; list: Omit<NewDye, "id" | "createdBy">[] }): number {
+  return db.transaction((tx) => {
+    for (const dye of list) {
+      if (tx.select({ id: dyes.id }).from(dyes).where(sql`lower(${dyes.code}) = lower(${dye.code})`).get()) {
+        throw new AppError("conflict", `A dye with the code ${dye.code} is already in the catalogue; nothing was imported.`);
+      }
+      const id = `dye_${randomUUID()}`;
+      tx.insert(dyes).values({ ...dye, id, createdBy: actorId }).run();
+      recordAudit(tx, { actorId, action: "dye.create", entity: "dye", entityId: id, after: { ...dye, imported: true } });
+    }
+    return list.length;
+  });
+}
+
+/** Which of these codes are already in the catalogue (any letter case). */
+export function existingDyeCodes(db: Db, codes: string[]): Set<string> {
+  const wanted = new Set(codes.map((c) => c.toLowerCase()));
+  return new Set(
+    db
+      .select({ code: dyes.code })
+      .from(dyes)
+      .all()
+      .map((d) => d.code.toLowerCase())
+      .filter((c) => wanted.has(c)),
+  );
+}
