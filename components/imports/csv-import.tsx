@@ -2,7 +2,7 @@
 
 import { useActionState, useState } from "react";
 import { importCsvAction } from "@/app/actions/imports";
-import { DYE_COLUMNS, MEASUREMENT_COLUMNS } from "@/lib/import/csv";
+import { DYE_COLUMNS, MEASUREMENT_COLUMNS } from "@/lib/import/columns";
 
 type Summary = { rows: number; good: number; problems: { line: number; column: string; message: string }[]; moreProblems: number; preview: Record<string, unknown>[]; imported?: number };
 

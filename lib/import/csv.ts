@@ -11,28 +11,9 @@ import { instrumentMeasurementSchema, type InstrumentMeasurement } from "../vali
 export type RowProblem = { line: number; column: string; message: string };
 export type ParsedRow<T> = { line: number; value: T | null; problems: RowProblem[] };
 
-export const DYE_COLUMNS = ["code", "name", "class", "cas_number", "molar_mass", "synonyms", "notes", "hazards"] as const;
-export const MEASUREMENT_COLUMNS = [
-  "dye",
-  "solvent",
-  "L",
-  "a",
-  "b",
-  "white_point",
-  "observer",
-  "instrument",
-  "acid_base",
-  "pH",
-  "concentration_umol_l",
-  "additive",
-  "additive_mol_l",
-  "temperature_c",
-  "path_length_mm",
-  "second_solvent",
-  "second_solvent_x",
-  "u_delta_e00",
-  "flag_reason",
-] as const;
+import { DYE_COLUMNS, MEASUREMENT_COLUMNS } from "./columns";
+
+export { DYE_COLUMNS, MEASUREMENT_COLUMNS };
 const REQUIRED = { dyes: ["code", "name", "class"], measurements: ["dye", "solvent", "L", "a", "b", "white_point", "instrument"] } as const;
 
 export type ImportKind = keyof typeof REQUIRED;
