@@ -7,10 +7,10 @@ import { FormMessage } from "@/components/ui/form-status";
 /** "Accept all from this photo": only after the reviewer ticks that they checked every region; never their own. */
 export function AcceptPhoto({ photoId, theirs, own }: { photoId: string; theirs: number; own: number }) {
   const [state, action, pending] = useActionState(acceptPhotoAction, null);
+  if (state?.ok) return <FormMessage state={state} />;
   if (theirs === 0) {
     return <p className="text-sm text-ink-soft">{own > 0 ? `The ${own} waiting from this photo are your own: another chemist or an admin reviews them.` : "Nothing from this photo is waiting for review."}</p>;
   }
-  if (state?.ok) return <FormMessage state={state} />;
   return (
     <form action={action} className="space-y-2 rounded-lg border border-line bg-white p-3" data-testid="accept-photo">
       <input type="hidden" name="photoId" value={photoId} />
