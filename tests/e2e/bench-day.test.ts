@@ -77,7 +77,6 @@ it("a chemist marks an eight-vial rack with a saved panel and one dye, a disagre
   const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "solvatlas-rack8-")), "rack8-e2e.png");
   fs.writeFileSync(file, await rack8(colours));
 
-  if (process.env.E2E_TRACE) { console.log("step", 'await page.goto(`${base}/bench', new Date().toISOString()); await page.screenshot({ path: "/tmp/bd/e2e-step.png" }); }
   await page.goto(`${base}/bench`);
   await page.locator('[data-testid="photo-dropzone"][data-ready="true"]').waitFor();
   await page.getByTestId("photo-input").setInputFiles(file);
@@ -87,7 +86,6 @@ it("a chemist marks an eight-vial rack with a saved panel and one dye, a disagre
   await page.waitForURL(/\/bench\/photos\/ph_/);
   const photoId = page.url().split("/").pop()!;
 
-  if (process.env.E2E_TRACE) { console.log("step", 'const marking = new MarkingPag', new Date().toISOString()); await page.screenshot({ path: "/tmp/bd/e2e-step.png" }); }
   const marking = new MarkingPage(page, { width: RACK8.w, height: RACK8.h });
   await marking.canvas().waitFor();
   await marking.chooseNewRegion("Vial", "Rectangle");
@@ -104,7 +102,6 @@ it("a chemist marks an eight-vial rack with a saved panel and one dye, a disagre
   await page.getByLabel("Known a* of Reference 1").fill(wl[1].toFixed(3));
   await page.getByLabel("Known b* of Reference 1").fill(wl[2].toFixed(3));
 
-  if (process.env.E2E_TRACE) { console.log("step", '// One step each', new Date().toISOString()); await page.screenshot({ path: "/tmp/bd/e2e-step.png" }); }
   // One step each: the saved panel, then the same dye for every vial.
   await page.getByLabel("Solvent panel (left to right)").selectOption({ label: "Polarity ladder, 8 vials (8 solvents)" });
   await page.getByRole("button", { name: "Apply panel" }).click();
@@ -114,7 +111,6 @@ it("a chemist marks an eight-vial rack with a saved panel and one dye, a disagre
     await expect.poll(async () => select.evaluate((s: HTMLSelectElement) => s.selectedOptions[0]?.textContent ?? "")).toMatch(new RegExp(`^${LADDER[i]} — `));
   }
 
-  if (process.env.E2E_TRACE) { console.log("step", '// The wrong vial is flagged l', new Date().toISOString()); await page.screenshot({ path: "/tmp/bd/e2e-step.png" }); }
   // The wrong vial is flagged live, the others agree with their earlier replicates.
   const rows = page.getByTestId("vial-row");
   await expect.poll(() => marking.row(`Vial ${WRONG + 1}`).getAttribute("data-flags"), { timeout: 20_000 }).toMatch(/disagrees-with-replicates/);
@@ -123,7 +119,6 @@ it("a chemist marks an eight-vial rack with a saved panel and one dye, a disagre
   const flaggedOnBench = (await disagreeing()).length;
   await expect(marking.row(`Vial ${WRONG + 1}`).getByTestId("replicate-check").innerText()).resolves.toMatch(/Disagrees with \d+ earlier accepted colour/);
 
-  if (process.env.E2E_TRACE) { console.log("step", '// Every flagged vial', new Date().toISOString()); await page.screenshot({ path: "/tmp/bd/e2e-step.png" }); }
   // Every flagged vial needs its reason; then the rack saves in one go.
   for (let i = 0; i < 8; i++) {
     const reason = page.getByLabel(`Why keep this flagged measurement? (Vial ${i + 1})`);
@@ -133,7 +128,6 @@ it("a chemist marks an eight-vial rack with a saved panel and one dye, a disagre
   await page.getByRole("status").filter({ hasText: "Saved 8 measurements" }).waitFor({ timeout: 30_000 });
   await chemist.signOut();
 
-  if (process.env.E2E_TRACE) { console.log("step", '// The reviewer:', new Date().toISOString()); await page.screenshot({ path: "/tmp/bd/e2e-step.png" }); }
   // The reviewer: the regions on the photo, the flag with the earlier colours, accept all.
   const admin = new SignInPage(page, base);
   await admin.signIn("admin@demo.test");
