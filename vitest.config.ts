@@ -26,6 +26,8 @@ export default defineConfig({
           setupFiles: ["tests/support/integration-setup.ts"],
           pool: "forks",
           testTimeout: 30_000,
+          // Set-up hooks build worlds, photos and servers: generous on a shared 2-core machine.
+          hookTimeout: 60_000,
         },
       },
       {

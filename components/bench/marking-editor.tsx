@@ -44,7 +44,7 @@ type ConditionPart = Pick<Mark, (typeof CONDITION_KEYS)[number]>;
 const NEUTRAL: ConditionPart = { solventId: "", acidBase: "neutral", ph: "", conc: "", additive: "", addConc: "", temp: "", path: "", solvent2: "", x2: "" };
 const conditionOf = (m: Mark): ConditionPart => Object.fromEntries(CONDITION_KEYS.map((k) => [k, m[k]])) as ConditionPart;
 
-type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[]; uncertainty?: { deltaE00: number } | null };
+type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[]; uncertainty?: { uDeltaE00: number } | null };
 type Replicate = { flags: string[]; earlier: { id: string; lab: number[]; hex: string }[]; verdict: { deltaE00: number; limitDeltaE00: number; disagrees: boolean; spreadDeltaE00: number; n: number } | null };
 type RefResult = { region: { x: number; y: number }; correctedLab: number[]; profileLab: number[]; driftDeltaE00: number; flags: string[] };
 type Live = { vials: Record<string, { ok: true; colour: Colour } | { ok: false; error: string }>; references: Record<string, RefResult>; correction?: string; photoFlags: string[]; error?: string; busy: boolean };
@@ -407,7 +407,7 @@ export function MarkingEditor(props: {
     .filter((v) => v.dyeId && v.solventId && live.vials[v.key]?.ok)
     .map((v) => {
       const r = live.vials[v.key] as { ok: true; colour: Colour };
-      return { key: v.key, dyeId: v.dyeId, solventId: v.solventId, acidBase: v.acidBase, ph: parseNum(v.ph), concentrationUmolL: parseNum(v.conc), ...conditionPayload(v), lab: r.colour.lab, uncertaintyDeltaE00: r.colour.uncertainty?.deltaE00 ?? null };
+      return { key: v.key, dyeId: v.dyeId, solventId: v.solventId, acidBase: v.acidBase, ph: parseNum(v.ph), concentrationUmolL: parseNum(v.conc), ...conditionPayload(v), lab: r.colour.lab, uncertaintyDeltaE00: r.colour.uncertainty?.uDeltaE00 ?? null };
     })
     .filter((v) => [v.ph, v.concentrationUmolL, v.additiveConcentrationMolL, v.temperatureC, v.pathLengthMm, v.secondSolventMoleFraction].every((n) => n === null || Number.isFinite(n)));
   const replicateKey = JSON.stringify(replicateInputs);
@@ -796,6 +796,11 @@ export function MarkingEditor(props: {
                     ? "No light correction: choose a profile or mark a white/grey reference of known Lab."
                     : `Correction: ${profileId ? "profile" : ""}${profileId && refInputs.length ? " + " : ""}${refInputs.length ? "in-photo reference scaling" : ""} (${live.correction}).`}
                 </span>
+                {live.photoFlags.includes("white-card-only") && (
+                  <span className="block text-warn" data-testid="white-card-only">
+                    White card only: no lighting profile stands behind these colours; expect a few ΔE00 (practitioner estimate).
+                  </span>
+                )}
                 {live.error && (
                   <span role="alert" className="block text-bad">
                     {live.error}
@@ -883,7 +888,7 @@ export function MarkingEditor(props: {
                             )}
                           </td>
                           <td className="px-2 py-1.5 text-xs tabular-nums" data-testid="live-uncertainty">
-                            {r?.ok && r.colour.uncertainty ? `± ${fmt(r.colour.uncertainty.deltaE00, 2)}` : "—"}
+                            {r?.ok && r.colour.uncertainty ? `± ${fmt(r.colour.uncertainty.uDeltaE00, 2)}` : "—"}
                           </td>
                           <td className="px-2 py-1.5">
                             {flags.length === 0 ? (

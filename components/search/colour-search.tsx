@@ -12,7 +12,7 @@ import { COLOUR_WORDS } from "@/lib/search/colour-words";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
 
-type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number };
+type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number; replicates?: number; spreadDeltaE00?: number; uncertaintyDeltaE00?: number | null; tieWithPrevious?: boolean };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
 
 const TARGET_KINDS = [
@@ -179,16 +179,25 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                     <p className="text-ink-soft">{describeCondition(r.condition)}</p>
                   </div>
                   <Badge tone={r.predicted ? "warn" : "ok"}>{r.predicted ? "predicted" : "measured"}</Badge>
-                  <span className="w-28 text-ink-soft">
-                    {r.measurements} measurement{r.measurements === 1 ? "" : "s"}
+                  <span className="w-36 text-ink-soft" title="The colour is the mean CIELAB of the accepted replicates; spread is their RMS ΔE00 from that mean.">
+                    mean of {r.replicates ?? r.measurements} replicate{(r.replicates ?? r.measurements) === 1 ? "" : "s"}
+                    {r.spreadDeltaE00 !== undefined && (r.replicates ?? 0) > 1 && <span className="block">spread ΔE00 {r.spreadDeltaE00.toFixed(1)}</span>}
                   </span>
-                  <span className="w-24 text-right font-semibold tabular-nums">ΔE00 {r.deltaE00.toFixed(1)}</span>
+                  <span className="w-24 text-right font-semibold tabular-nums">
+                    ΔE00 {r.deltaE00.toFixed(1)}
+                    {r.uncertaintyDeltaE00 != null && <span className="block text-xs font-normal text-ink-soft">± {r.uncertaintyDeltaE00.toFixed(1)}</span>}
+                    {r.tieWithPrevious && (
+                      <span className="block text-xs font-normal text-warn" data-testid="tie-mark" title="Differs from the result above by less than their combined uncertainty">
+                        ≈ tie with the one above
+                      </span>
+                    )}
+                  </span>
                 </li>
               ))}
             </ol>
           )}
           <p className="mt-3 text-xs text-ink-soft">
-            Swatches are screen approximations of the measured CIELAB (D65) values; decide on the numbers. ΔE00 ≈ 1 is about a just-noticeable difference.
+            Each dye's colour in a condition (solvent, acid/base, pH) is the mean CIELAB (D65) of its accepted replicates there. Swatches are screen approximations; decide on the numbers. ΔE00 ≈ 1 is about a just-noticeable difference.
           </p>
         </Card>
       )}

@@ -12,6 +12,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/bench", label: "Bench", roles: BENCH, hint: "Rack photos and measurements" },
   { href: "/measurements", label: "Measurements", roles: ALL, hint: "Every measured colour: filter, sort, export" },
   { href: "/search", label: "Search", roles: ALL, hint: "Find a dye by colour and condition" },
+  { href: "/tune", label: "Tune", roles: ALL, hint: "Which solvent or blend gives a wanted colour" },
   { href: "/compare", label: "Compare", roles: ALL, hint: "Dyes side by side across conditions" },
   { href: "/solvents", label: "Solvents", roles: ALL, hint: "Solvent parameters with sources" },
   { href: "/lighting", label: "Lighting", roles: ALL, hint: "Lighting profiles and calibration targets" },

@@ -1,7 +1,9 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { db } from "@/db/client";
-import { listLightingProfiles, listRecentPhotos } from "@/db/queries/bench";
+import { listRecentPhotos } from "@/db/queries/bench";
+import { benchProfiles } from "@/db/queries/lighting";
+import { AccuracyNotes } from "@/components/lighting/accuracy-notes";
 import { PhotoUploader } from "@/components/bench/photo-uploader";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNotice } from "@/components/ui/safety";
@@ -17,7 +19,8 @@ export default async function BenchPage() {
   if (!allowed) return <Refused user={user} allowed={BENCH_ROLES} area="The bench" />;
   const handle = db();
   const photos = listRecentPhotos(handle, { limit: 40 });
-  const profiles = listLightingProfiles(handle).map(({ profile }) => ({ id: profile.id, name: profile.name }));
+  // Only approved profiles inside their validity window can be chosen (the server refuses the others too).
+  const profiles = benchProfiles(handle);
   return (
     <>
       <PageHeader
@@ -29,8 +32,9 @@ export default async function BenchPage() {
           </Link>
         }
       />
-      <div className="mb-4">
+      <div className="mb-4 grid gap-4 lg:grid-cols-2">
         <SafetyNotice />
+        <AccuracyNotes />
       </div>
       <Card title="Upload rack photos" className="mb-4">
         <PhotoUploader maxBytes={photoLimits().maxBytes} profiles={profiles} />
