@@ -447,6 +447,8 @@ export const measurements = sqliteTable(
     uB: real("u_b"),
     uDeltaE00: real("u_delta_e00"),
     flags: text("flags", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),
+    /** The instrument of a colour measured without a photo (write API, imports); null for photos. */
+    instrument: text("instrument"),
     flagReason: text("flag_reason"),
     reviewState: text("review_state", { enum: REVIEW_STATES }).notNull().default("pending"),
     reviewedBy: text("reviewed_by").references(() => users.id),
@@ -481,6 +483,37 @@ export const rackTemplates = sqliteTable("rack_templates", {
   updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
 });
 export type RackTemplate = typeof rackTemplates.$inferSelect;
+
+/**
+ * One vial's place in a saved solvent panel: the solvent and every condition field the bench records.
+ * Numbers in the units of `conditions` (pH, mol/L, °C, mm, mole fraction).
+ */
+export type PanelEntry = {
+  solventId: string;
+  acidBase: AcidBase;
+  ph: number | null;
+  /** Dye concentration, µmol/L (absent in panels saved before it was recorded). */
+  concentrationUmolL?: number | null;
+  additive: string;
+  additiveConcentrationMolL: number | null;
+  temperatureC: number | null;
+  pathLengthMm: number | null;
+  secondSolventId: string | null;
+  secondSolventMoleFraction: number | null;
+};
+
+/** A saved solvent panel, applied to a rack's vials from left to right (migration 0010). */
+export const solventPanels = sqliteTable("solvent_panels", {
+  id: text("id").primaryKey(),
+  name: text("name").notNull().unique(),
+  entries: text("entries", { mode: "json" }).$type<PanelEntry[]>().notNull(),
+  createdBy: text("created_by")
+    .notNull()
+    .references(() => users.id),
+  createdAt: createdAt(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+});
+export type SolventPanel = typeof solventPanels.$inferSelect;
 
 export const spectra = sqliteTable(
   "spectra",

@@ -3,14 +3,15 @@
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { db } from "@/db/client";
-import { deleteRackTemplate, saveMeasurements, saveRackTemplate } from "@/db/queries/bench";
+import { deleteRackTemplate, deleteSolventPanel, earlierReplicates, saveMeasurements, saveRackTemplate, saveSolventPanel } from "@/db/queries/bench";
 import { getPhoto, measureOnPhoto } from "@/db/queries/photos";
 import { adminEmails, getProfile, recordPhotoChecks, recordPhotoDrift, standardOrRefuse } from "@/db/queries/lighting";
 import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
 import { send } from "@/lib/mail";
 import { formAction, parseInput } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
-import { saveRequestSchema, templateSchema } from "@/lib/bench/schemas";
+import { checkReplicate, replicateFlags } from "@/lib/bench/replicates";
+import { panelSchema, saveRequestSchema, templateSchema } from "@/lib/bench/schemas";
 import { AppError } from "@/lib/errors";
 import { objectStore } from "@/lib/storage";
 import { photoLimits } from "@/lib/storage/limits";
@@ -79,6 +80,10 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
     references: result.references.map((r) => ({ region: r.region, lab: r.lab, rawLinearRgb: r.rawLinearRgb, label: r.label })),
     vials: input.vials.map((v, i) => {
       const c = (result.vials[i] as Extract<(typeof result.vials)[number], { ok: true }>).colour;
+      // The replicate check runs again here on the colour just measured, against what is accepted now.
+      const earlier = earlierReplicates(handle, { dyeId: v.dyeId, condition: v });
+      const verdict = checkReplicate(c.lab, earlier.map((e) => [e.l, e.a, e.b]), c.uncertainty?.uDeltaE00 ?? null);
+      const flags = [...c.flags, ...replicateFlags(c.lab, verdict).filter((f) => !c.flags.includes(f))];
       return {
         region: v.region,
         dyeId: v.dyeId,
@@ -86,13 +91,19 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
         acidBase: v.acidBase,
         ph: v.ph,
         concentrationUmolL: v.concentrationUmolL,
+        additive: v.additive,
+        additiveConcentrationMolL: v.additiveConcentrationMolL,
+        temperatureC: v.temperatureC,
+        pathLengthMm: v.pathLengthMm,
+        secondSolventId: v.secondSolventId,
+        secondSolventMoleFraction: v.secondSolventMoleFraction,
         rawLinearRgb: c.rawLinearRgb,
         xyz: c.xyz,
         lab: c.lab,
         pixels: c.pixels,
         rejected: c.rejected,
         spread: c.spread,
-        flags: c.flags,
+        flags,
         flagReason: v.flagReason || null,
         uncertainty: c.uncertainty,
       };
@@ -125,4 +136,17 @@ export const deleteTemplateAction = formAction({ access: BENCH_ROLES, schema: z.
   deleteRackTemplate(db(), { actorId: user.id, actorRole: user.role, id });
   revalidatePath("/bench", "layout");
   return { ok: true, message: "Layout deleted." };
+});
+
+export const savePanelAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
+  const input = parseInput(panelSchema, parseJson(payload));
+  const id = saveSolventPanel(db(), { actorId: user.id, name: input.name, entries: input.entries });
+  revalidatePath("/bench", "layout");
+  return { ok: true, message: `Panel “${input.name}” saved with ${input.entries.length} solvent${input.entries.length === 1 ? "" : "s"}.`, data: { id } };
+});
+
+export const deletePanelAction = formAction({ access: BENCH_ROLES, schema: z.object({ id: z.string().min(1, { error: "Choose a panel first." }).max(100) }) }, async ({ id }, { user }) => {
+  deleteSolventPanel(db(), { actorId: user.id, id });
+  revalidatePath("/bench", "layout");
+  return { ok: true, message: "Panel deleted." };
 });

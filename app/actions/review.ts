@@ -3,7 +3,7 @@
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { db } from "@/db/client";
-import { decideMeasurement, reviewNotice } from "@/db/queries/review";
+import { acceptPhoto, decideMeasurement, reviewNotice } from "@/db/queries/review";
 import { formAction } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
 import { appUrl } from "@/lib/config/env";
@@ -53,4 +53,23 @@ export const reviewAction = formAction({ access: BENCH_ROLES, schema: decisionSc
   revalidatePath("/review");
   revalidatePath("/measurements");
   return { ok: true, message: input.decision === "accepted" ? "Accepted. The chemist has been told." : "Rejected with your note. The chemist has been told." };
+});
+
+const acceptPhotoSchema = z.object({
+  photoId: z.string().min(1).max(100),
+  checked: z.literal("yes", { error: "Tick that you have checked every region on the photo before accepting them all." }),
+  note: z.string().trim().max(2000).default(""),
+});
+
+/** Accepts every waiting measurement of one photo after the reviewer says they checked the regions; never the reviewer's own. */
+export const acceptPhotoAction = formAction({ access: BENCH_ROLES, schema: acceptPhotoSchema }, async (input, { user }) => {
+  const result = acceptPhoto(db(), { reviewer: user, photoId: input.photoId, note: input.note });
+  for (const m of result.accepted) await notifyAuthor(m.id, user.id, "accepted", input.note);
+  revalidatePath("/review");
+  revalidatePath("/measurements");
+  const n = result.accepted.length;
+  return {
+    ok: true,
+    message: `Accepted ${n} measurement${n === 1 ? "" : "s"} from this photo.${result.skippedOwn ? ` ${result.skippedOwn} of your own stay${result.skippedOwn === 1 ? "s" : ""} for another reviewer.` : ""}`,
+  };
 });

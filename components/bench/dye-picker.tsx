@@ -5,7 +5,7 @@ import { useId, useMemo, useState } from "react";
 export type DyeOption = { id: string; code: string; name: string; synonyms: string[]; dyeClass: string };
 
 /** A searchable dye picker: type part of a code, name or synonym, then pick with the arrow keys and Enter, or a click. */
-export function DyePicker({ dyes, value, onChange, label }: { dyes: DyeOption[]; value: string; onChange: (id: string) => void; label: string }) {
+export function DyePicker({ dyes, value, onChange, label, hideLabel = false }: { dyes: DyeOption[]; value: string; onChange: (id: string) => void; label: string; hideLabel?: boolean }) {
   const id = useId();
   const chosen = dyes.find((d) => d.id === value);
   const [text, setText] = useState("");
@@ -27,7 +27,7 @@ export function DyePicker({ dyes, value, onChange, label }: { dyes: DyeOption[];
 
   return (
     <div className="relative space-y-1">
-      <label htmlFor={id} className="block text-xs font-semibold uppercase tracking-wide text-ink-soft">
+      <label htmlFor={id} className={hideLabel ? "sr-only" : "block text-xs font-semibold text-ink-soft"}>
         {label}
       </label>
       <input
@@ -62,11 +62,25 @@ export function DyePicker({ dyes, value, onChange, label }: { dyes: DyeOption[];
             pick(matches[active]);
           } else if (e.key === "Escape") setOpen(false);
         }}
-        className="min-h-11 w-full rounded-lg border border-line bg-white px-3 text-sm focus:border-accent focus:outline-none"
+        className="min-h-10 w-full rounded-md border border-line bg-white px-2 text-sm focus:border-accent focus:outline-none"
       />
       {open && (
         <ul id={`${id}-list`} role="listbox" aria-label={`${label}: matching dyes`} className="absolute z-20 mt-1 max-h-72 w-full overflow-auto rounded-lg border border-line bg-white shadow-lg">
-          {matches.length === 0 && <li className="px-3 py-2 text-sm text-ink-soft">No dye matches “{text}”. Add it in the catalogue first.</li>}
+          {matches.length === 0 && (
+            <li className="px-3 py-2 text-sm text-ink-soft">
+              No dye matches “{text}”.{" "}
+              <a
+                href={`/catalogue/new?name=${encodeURIComponent(text.trim())}`}
+                target="_blank"
+                rel="noopener"
+                onMouseDown={(e) => e.preventDefault()}
+                className="font-semibold text-accent underline"
+              >
+                Add it to the catalogue
+              </a>{" "}
+              (opens in a new tab; come back and type its code).
+            </li>
+          )}
           {matches.map((d, i) => (
             <li
               key={d.id}

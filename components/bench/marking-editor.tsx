@@ -3,7 +3,7 @@
 import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useActionState, useEffect, useMemo, useRef, useState } from "react";
-import { deleteTemplateAction, saveMeasurementsAction, saveTemplateAction } from "@/app/actions/bench";
+import { deletePanelAction, deleteTemplateAction, saveMeasurementsAction, savePanelAction, saveTemplateAction } from "@/app/actions/bench";
 import { SafetyNotice } from "@/components/ui/safety";
 import { DyePicker, type DyeOption } from "./dye-picker";
 
@@ -24,13 +24,28 @@ type Mark = {
   acidBase: "acid" | "neutral" | "base";
   ph: string;
   conc: string;
+  additive: string;
+  addConc: string;
+  temp: string;
+  path: string;
+  solvent2: string;
+  x2: string;
   flagReason: string;
   refL: string;
   refA: string;
   refB: string;
+  /** Full-precision values filled from a calibration target; used while the fields still show them rounded. */
+  refExact: [number, number, number] | null;
 };
 
-type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[]; uncertainty?: { uDeltaE00: number } };
+/** The condition fields of a vial, copied as a group (panels, duplicates). */
+const CONDITION_KEYS = ["solventId", "acidBase", "ph", "conc", "additive", "addConc", "temp", "path", "solvent2", "x2"] as const;
+type ConditionPart = Pick<Mark, (typeof CONDITION_KEYS)[number]>;
+const NEUTRAL: ConditionPart = { solventId: "", acidBase: "neutral", ph: "", conc: "", additive: "", addConc: "", temp: "", path: "", solvent2: "", x2: "" };
+const conditionOf = (m: Mark): ConditionPart => Object.fromEntries(CONDITION_KEYS.map((k) => [k, m[k]])) as ConditionPart;
+
+type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[]; uncertainty?: { uDeltaE00: number } | null };
+type Replicate = { flags: string[]; earlier: { id: string; lab: number[]; hex: string }[]; verdict: { deltaE00: number; limitDeltaE00: number; disagrees: boolean; spreadDeltaE00: number; n: number } | null };
 type RefResult = { region: { x: number; y: number }; correctedLab: number[]; profileLab: number[]; driftDeltaE00: number; flags: string[] };
 type Live = { vials: Record<string, { ok: true; colour: Colour } | { ok: false; error: string }>; references: Record<string, RefResult>; correction?: string; photoFlags: string[]; error?: string; busy: boolean };
 
@@ -38,6 +53,7 @@ export type SolventOption = { id: string; name: string; medium: "protic" | "dipo
 export type ProfileOption = { id: string; name: string; validNow: boolean; approved: boolean };
 export type TemplateOption = { id: string; name: string; regions: { shape: Shape; x: number; y: number; w: number; h: number; role: Role; label: string }[] };
 export type PatchOption = { label: string; lab: [number, number, number] };
+export type PanelOption = { id: string; name: string; entries: { solventId: string; acidBase: "acid" | "neutral" | "base"; ph: number | null; concentrationUmolL?: number | null; additive: string; additiveConcentrationMolL: number | null; temperatureC: number | null; pathLengthMm: number | null; secondSolventId: string | null; secondSolventMoleFraction: number | null }[] };
 
 const MEDIUM_LABEL = { protic: "protic", "dipolar-aprotic": "dipolar aprotic", nonpolar: "non-polar" } as const;
 const ZOOMS = [0.5, 0.75, 1, 1.5, 2, 3, 4];
@@ -50,12 +66,30 @@ const FLAG_TEXT: Record<string, string> = {
   uncorrected: "no light correction (no profile, no reference)",
   "reference-drift": "the light differs from the profile",
   "profile-not-valid-then": "profile not valid on the photo's date",
+  "disagrees-with-replicates": "far from the earlier accepted colours of this dye and condition",
+  "lightness-above-100": "L* above 100: lighter than the reference white",
 };
 
 let serial = 0;
 const newKey = () => `m${Date.now().toString(36)}${(serial++).toString(36)}`;
 const fmt = (v: number, d = 1) => (Number.isFinite(v) ? v.toFixed(d) : "—");
+/** Short names for the flags column; the full sentence is in FLAG_TEXT, shown under the row. */
+const FLAG_SHORT: Record<string, string> = {
+  "too-few-pixels": "few pixels",
+  "much-rejected": "rejected px",
+  "non-uniform": "not uniform",
+  "near-clipping": "near limit",
+  "out-of-srgb-gamut": "outside sRGB",
+  uncorrected: "uncorrected",
+  "reference-drift": "light drift",
+  "profile-not-valid-then": "profile date",
+  "disagrees-with-replicates": "≠ replicates",
+  "lightness-above-100": "L* > 100",
+};
 const parseNum = (s: string): number | null => (s.trim() === "" ? null : Number(s.replace(",", ".")));
+const numText = (v: number | null) => (v === null ? "" : String(v));
+/** Shown to two decimals; the stored value stays exact (refExact) until the person edits the field. */
+const REF_DIGITS = 2;
 
 export function MarkingEditor(props: {
   photo: { id: string; width: number; height: number; name: string; lightingProfileId: string | null };
@@ -65,6 +99,7 @@ export function MarkingEditor(props: {
   profiles: ProfileOption[];
   templates: TemplateOption[];
   patches: PatchOption[];
+  panels: PanelOption[];
 }) {
   const { photo } = props;
   const W = photo.width;
@@ -81,6 +116,11 @@ export function MarkingEditor(props: {
   const [note, setNote] = useState<string | null>(null);
   const [templateName, setTemplateName] = useState("");
   const [templateChoice, setTemplateChoice] = useState(props.templates[0]?.id ?? "");
+  const [panelChoice, setPanelChoice] = useState(props.panels[0]?.id ?? "");
+  const [panelName, setPanelName] = useState("");
+  const [sameDye, setSameDye] = useState("");
+  const [openRow, setOpenRow] = useState<string | null>(null);
+  const [replicates, setReplicates] = useState<Record<string, Replicate>>({});
   const svgRef = useRef<SVGSVGElement>(null);
   const wrapRef = useRef<HTMLDivElement>(null);
   // At 100 % the whole photo fits the space beside the region list (and 72 % of the window's height).
@@ -101,6 +141,8 @@ export function MarkingEditor(props: {
   const [saveState, saveAction, saving] = useActionState(saveMeasurementsAction, null);
   const [tplState, tplAction, tplSaving] = useActionState(saveTemplateAction, null);
   const [delState, delAction] = useActionState(deleteTemplateAction, null);
+  const [panelState, panelAction, panelSaving] = useActionState(savePanelAction, null);
+  const [panelDelState, panelDelAction] = useActionState(deletePanelAction, null);
 
   const scale = (fit * zoom) / W; // CSS px per photo px
   const handle = 18 / scale;
@@ -125,15 +167,13 @@ export function MarkingEditor(props: {
       shape,
       ...clampBox(box),
       label: role === "vial" ? `Vial ${sameRole + 1}` : `Reference ${sameRole + 1}`,
-      dyeId: base?.dyeId ?? "",
-      solventId: from?.solventId ?? "",
-      acidBase: base?.acidBase ?? "neutral",
-      ph: base?.ph ?? "",
-      conc: base?.conc ?? "",
+      dyeId: sameDye || base?.dyeId || "",
+      ...(from ? conditionOf(from) : { ...NEUTRAL, acidBase: base?.acidBase ?? "neutral", ph: base?.ph ?? "", conc: base?.conc ?? "" }),
       flagReason: "",
       refL: from?.refL ?? "",
       refA: from?.refA ?? "",
       refB: from?.refB ?? "",
+      refExact: from?.refExact ?? null,
     };
   }
 
@@ -146,12 +186,15 @@ export function MarkingEditor(props: {
 
   const onPointerDown = (e: React.PointerEvent<SVGSVGElement>) => {
     if (e.button !== 0) return;
+    // No page scroll, text selection or touch panning may start from a press on the photo: the region
+    // must land where the pointer is. Focusing without scrolling keeps the photo where it was.
+    e.preventDefault();
     const target = e.target as Element;
     const key = target.getAttribute("data-key");
     const h = target.getAttribute("data-handle");
     const p = toPhoto(e);
     svgRef.current!.setPointerCapture(e.pointerId);
-    svgRef.current!.focus();
+    svgRef.current!.focus({ preventScroll: true });
     if (key) {
       const m = marks.find((x) => x.key === key)!;
       setSelected(key);
@@ -298,8 +341,10 @@ export function MarkingEditor(props: {
 
   // ------------------------------------------------------------ live measurement
 
+  const refLab = (r: Mark): (number | null)[] =>
+    (["refL", "refA", "refB"] as const).map((f, i) => (r.refExact && r[f] === r.refExact[i].toFixed(REF_DIGITS) ? r.refExact[i] : parseNum(r[f])));
   const refInputs = refs
-    .map((r) => ({ key: r.key, lab: [parseNum(r.refL), parseNum(r.refA), parseNum(r.refB)] as (number | null)[], region: { shape: r.shape, x: r.x, y: r.y, w: r.w, h: r.h }, label: r.label }))
+    .map((r) => ({ key: r.key, lab: refLab(r), region: { shape: r.shape, x: r.x, y: r.y, w: r.w, h: r.h }, label: r.label }))
     .filter((r) => r.lab.every((v) => v !== null && Number.isFinite(v)));
   const geometry = JSON.stringify([profileId, vials.map((m) => [m.key, m.shape, m.x, m.y, m.w, m.h]), refInputs]);
 
@@ -348,8 +393,98 @@ export function MarkingEditor(props: {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [geometry, photo.id]);
 
+  // ------------------------------------------------------------ replicates (live)
+
+  const conditionPayload = (v: ConditionPart) => ({
+    additive: v.additive.trim(),
+    additiveConcentrationMolL: parseNum(v.addConc),
+    temperatureC: parseNum(v.temp),
+    pathLengthMm: parseNum(v.path),
+    secondSolventId: v.solvent2 || null,
+    secondSolventMoleFraction: v.solvent2 ? parseNum(v.x2) : null,
+  });
+  const replicateInputs = vials
+    .filter((v) => v.dyeId && v.solventId && live.vials[v.key]?.ok)
+    .map((v) => {
+      const r = live.vials[v.key] as { ok: true; colour: Colour };
+      return { key: v.key, dyeId: v.dyeId, solventId: v.solventId, acidBase: v.acidBase, ph: parseNum(v.ph), concentrationUmolL: parseNum(v.conc), ...conditionPayload(v), lab: r.colour.lab, uncertaintyDeltaE00: r.colour.uncertainty?.uDeltaE00 ?? null };
+    })
+    .filter((v) => [v.ph, v.concentrationUmolL, v.additiveConcentrationMolL, v.temperatureC, v.pathLengthMm, v.secondSolventMoleFraction].every((n) => n === null || Number.isFinite(n)));
+  const replicateKey = JSON.stringify(replicateInputs);
+
+  useEffect(() => {
+    if (replicateInputs.length === 0) {
+      setReplicates({});
+      return;
+    }
+    const controller = new AbortController();
+    const timer = setTimeout(async () => {
+      try {
+        const res = await fetch("/api/bench/replicates", { method: "POST", headers: { "content-type": "application/json" }, signal: controller.signal, body: JSON.stringify({ vials: replicateInputs }) });
+        if (!res.ok) return; // The check is advisory while marking; saving runs it again and refuses what it must.
+        const body = (await res.json()) as { vials: ({ key: string } & Replicate)[] };
+        setReplicates(Object.fromEntries(body.vials.map((v) => [v.key, v])));
+      } catch {
+        /* aborted or offline: the save runs the check again */
+      }
+    }, 250);
+    return () => {
+      clearTimeout(timer);
+      controller.abort();
+    };
+    // replicateKey captures every input of the check.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [replicateKey]);
+
+  // ------------------------------------------------------------ panels
+
+  function applyPanel(id: string) {
+    const panel = props.panels.find((p) => p.id === id);
+    if (!panel) return;
+    if (vials.length === 0) return setNote("Mark the vials first; the panel then fills them from left to right.");
+    const order = [...vials].sort((a, b) => a.x - b.x || a.y - b.y);
+    const byKey = new Map(
+      order.slice(0, panel.entries.length).map((v, i) => {
+        const e = panel.entries[i];
+        const part: ConditionPart = {
+          solventId: e.solventId,
+          acidBase: e.acidBase,
+          ph: numText(e.ph),
+          conc: numText(e.concentrationUmolL ?? null),
+          additive: e.additive,
+          addConc: numText(e.additiveConcentrationMolL),
+          temp: numText(e.temperatureC),
+          path: numText(e.pathLengthMm),
+          solvent2: e.secondSolventId ?? "",
+          x2: numText(e.secondSolventMoleFraction),
+        };
+        return [v.key, part];
+      }),
+    );
+    setMarks((all) => all.map((m) => (byKey.has(m.key) ? { ...m, ...byKey.get(m.key)! } : m)));
+    const n = Math.min(order.length, panel.entries.length);
+    setNote(
+      `Applied the panel “${panel.name}” to ${n} vial${n === 1 ? "" : "s"} from left to right.` +
+        (order.length > panel.entries.length ? ` ${order.length - panel.entries.length} vial${order.length - panel.entries.length === 1 ? " is" : "s are"} right of the panel's last place: give ${order.length - panel.entries.length === 1 ? "it" : "them"} a solvent.` : "") +
+        (order.length < panel.entries.length ? ` The panel has ${panel.entries.length} places; the last ${panel.entries.length - order.length} found no vial.` : ""),
+    );
+  }
+
+  const panelPayload = JSON.stringify({
+    name: panelName,
+    entries: [...vials]
+      .sort((a, b) => a.x - b.x || a.y - b.y)
+      .map((v) => ({ solventId: v.solventId, acidBase: v.acidBase, ph: parseNum(v.ph), concentrationUmolL: parseNum(v.conc), ...conditionPayload(v) })),
+  });
+
   // ------------------------------------------------------------ saving
 
+  const flagsOf = (v: Mark): string[] => {
+    const r = live.vials[v.key];
+    if (!r?.ok) return [];
+    const extra = replicates[v.key]?.flags ?? [];
+    return [...r.colour.flags, ...extra.filter((f) => !r.colour.flags.includes(f))];
+  };
   const problems: string[] = [];
   if (vials.length === 0) problems.push("Mark at least one vial.");
   for (const r of refs) if (!refInputs.some((x) => x.key === r.key)) problems.push(`${r.label} needs its known L*, a*, b* (from the tile's certificate).`);
@@ -360,9 +495,21 @@ export function MarkingEditor(props: {
     if (ph !== null && !(ph >= -2 && ph <= 16)) problems.push(`${v.label}: pH must be between −2 and 16.`);
     const c = parseNum(v.conc);
     if (c !== null && !(c > 0)) problems.push(`${v.label}: the concentration must be a positive number of µmol/L.`);
+    const t = parseNum(v.temp);
+    if (t !== null && !(t >= -100 && t <= 250)) problems.push(`${v.label}: the temperature must be between −100 and 250 °C.`);
+    const pl = parseNum(v.path);
+    if (pl !== null && !(pl > 0 && pl <= 1000)) problems.push(`${v.label}: the path length must be a positive number of mm.`);
+    const ac = parseNum(v.addConc);
+    if (ac !== null && !(ac >= 0 && ac <= 20)) problems.push(`${v.label}: the amount of acid or base must be between 0 and 20 mol/L.`);
+    if (ac !== null && !v.additive.trim()) problems.push(`${v.label}: name the acid or base whose amount you gave (e.g. HCl).`);
+    if (v.solvent2) {
+      const x = parseNum(v.x2);
+      if (x === null || !(x > 0 && x < 1)) problems.push(`${v.label}: give the second solvent's mole fraction, between 0 and 1.`);
+      if (v.solvent2 === v.solventId) problems.push(`${v.label}: the second solvent must differ from the first.`);
+    }
     const r = live.vials[v.key];
     if (r && !r.ok) problems.push(`${v.label}: ${r.error}`);
-    if (r?.ok && r.colour.flags.length > 0 && !v.flagReason.trim()) problems.push(`${v.label} is flagged; say why it should be kept, or re-mark it.`);
+    if (r?.ok && flagsOf(v).length > 0 && !v.flagReason.trim()) problems.push(`${v.label} is flagged; say why it should be kept, or re-mark it.`);
   }
   const measuredAll = vials.every((v) => live.vials[v.key]?.ok) && !live.busy;
 
@@ -377,6 +524,7 @@ export function MarkingEditor(props: {
       acidBase: v.acidBase,
       ph: parseNum(v.ph),
       concentrationUmolL: parseNum(v.conc),
+      ...conditionPayload(v),
       flagReason: v.flagReason,
     })),
   });
@@ -395,8 +543,8 @@ export function MarkingEditor(props: {
     }
   }, [saveState, router]);
   useEffect(() => {
-    if (tplState?.ok || delState?.ok) router.refresh();
-  }, [tplState, delState, router]);
+    if (tplState?.ok || delState?.ok || panelState?.ok || panelDelState?.ok) router.refresh();
+  }, [tplState, delState, panelState, panelDelState, router]);
 
   const inUse = useMemo(() => {
     const ids = new Set(vials.map((v) => v.solventId).filter(Boolean));
@@ -406,305 +554,474 @@ export function MarkingEditor(props: {
   const byMedium = (["protic", "dipolar-aprotic", "nonpolar"] as const).map((m) => ({ medium: m, list: props.solvents.filter((s) => s.medium === m) }));
   const fieldErr = (i: number, f: string) => (saveState && !saveState.ok ? saveState.fieldErrors?.[`vials.${i}.${f}`]?.join(" ") : undefined);
 
+  const solventName = (id: string) => props.solvents.find((s) => s.id === id)?.name ?? "";
+  const solventOptions = (placeholder: string) => (
+    <>
+      <option value="">{placeholder}</option>
+      {byMedium.map((g) => (
+        <optgroup key={g.medium} label={MEDIUM_LABEL[g.medium]}>
+          {g.list.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.name} — {MEDIUM_LABEL[s.medium]}
+            </option>
+          ))}
+        </optgroup>
+      ))}
+    </>
+  );
+  const conditionSummary = (v: Mark) =>
+    [
+      v.acidBase,
+      v.ph.trim() && `pH ${v.ph}`,
+      v.additive.trim() && `${v.additive}${v.addConc.trim() ? ` ${v.addConc} mol/L` : ""}`,
+      v.temp.trim() && `${v.temp} °C`,
+      v.path.trim() && `${v.path} mm`,
+      v.solvent2 && `+ ${solventName(v.solvent2)} x₂ ${v.x2 || "?"}`,
+      v.conc.trim() && `${v.conc} µmol/L`,
+    ]
+      .filter(Boolean)
+      .join(", ");
+  const INPUT = "min-h-10 w-full rounded-md border border-line bg-white px-2 text-sm";
+  const SMALL_LABEL = "block text-xs font-semibold text-ink-soft";
+  const BUTTON = "min-h-10 rounded-md border border-line bg-white px-3 text-sm font-semibold disabled:opacity-40";
+  const orderedVials = [...vials].sort((a, b) => a.x - b.x || a.y - b.y);
+
   // ------------------------------------------------------------ render
 
   return (
-    <div className="space-y-4">
-      <SafetyNotice solvents={inUse} />
-      <div className="flex flex-wrap items-end gap-3 rounded-xl border border-line bg-white p-3">
-        <div className="space-y-1">
-          <label htmlFor="profile" className="block text-xs font-semibold uppercase tracking-wide text-ink-soft">
-            Lighting profile of this photo
-          </label>
-          <select id="profile" value={profileId} onChange={(e) => setProfileId(e.target.value)} className="min-h-11 rounded-lg border border-line bg-white px-2 text-sm">
-            <option value="">None (reference only)</option>
-            {props.profiles.map((p) => (
-              <option key={p.id} value={p.id}>
-                {p.name}
-                {p.approved ? "" : " (not approved)"}
-                {p.validNow ? "" : " (expired)"}
-              </option>
-            ))}
-          </select>
-        </div>
-        <fieldset className="flex items-center gap-1">
-          <legend className="text-xs font-semibold uppercase tracking-wide text-ink-soft">New region</legend>
-          {(["vial", "reference"] as const).map((r) => (
-            <button key={r} type="button" aria-pressed={newRole === r} onClick={() => setNewRole(r)} className={`min-h-11 rounded-lg border px-3 text-sm font-semibold ${newRole === r ? "border-accent bg-accent-soft text-accent" : "border-line"}`}>
-              {r === "vial" ? "Vial" : "Reference"}
-            </button>
-          ))}
-          {(["rect", "ellipse"] as const).map((s) => (
-            <button key={s} type="button" aria-pressed={newShape === s} onClick={() => setNewShape(s)} className={`min-h-11 rounded-lg border px-3 text-sm font-semibold ${newShape === s ? "border-accent bg-accent-soft text-accent" : "border-line"}`}>
-              {s === "rect" ? "Rectangle" : "Ellipse"}
-            </button>
-          ))}
-        </fieldset>
-        <div className="flex items-center gap-1">
-          <button type="button" onClick={() => setZoom((z) => ZOOMS[Math.max(ZOOMS.indexOf(z) - 1, 0)])} className="min-h-11 min-w-11 rounded-lg border border-line text-lg font-bold" aria-label="Zoom out">
-            −
-          </button>
-          <span className="w-14 text-center text-sm tabular-nums" aria-live="polite">
-            {Math.round(zoom * 100)} %
-          </span>
-          <button type="button" onClick={() => setZoom((z) => ZOOMS[Math.min(ZOOMS.indexOf(z) + 1, ZOOMS.length - 1)])} className="min-h-11 min-w-11 rounded-lg border border-line text-lg font-bold" aria-label="Zoom in">
-            +
-          </button>
-        </div>
-        <div className="flex items-center gap-1">
-          <button
-            type="button"
-            onClick={() => {
-              const m = addMark({ x: W * 0.45, y: H * 0.35, w: Math.max(8, W * 0.08), h: Math.max(8, H * 0.3) }, newRole, newShape);
-              setMarks((all) => [...all, m]);
-              setSelected(m.key);
-              svgRef.current?.focus();
-            }}
-            className="min-h-11 rounded-lg border border-line px-3 text-sm font-semibold"
-          >
-            Add a region
-          </button>
-          <button type="button" onClick={() => duplicateAlongRack()} disabled={marks.length === 0} className="min-h-11 rounded-lg border border-line px-3 text-sm font-semibold disabled:opacity-40">
-            Duplicate along the rack
-          </button>
-          <label htmlFor="dup-count" className="sr-only">
-            How many copies
-          </label>
-          <select id="dup-count" value={dupCount} onChange={(e) => setDupCount(Number(e.target.value))} className="min-h-11 rounded-lg border border-line px-2 text-sm">
-            {[1, 2, 3, 4, 5, 6, 7, 8, 11].map((n) => (
-              <option key={n} value={n}>
-                ×{n}
-              </option>
-            ))}
-          </select>
-          <button type="button" onClick={renumber} disabled={vials.length < 2} className="min-h-11 rounded-lg border border-line px-3 text-sm font-semibold disabled:opacity-40">
-            Number left to right
-          </button>
-        </div>
-      </div>
-      {note && (
-        <p role="status" className="text-sm text-ink-soft">
-          {note}
-        </p>
-      )}
-
-      <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_26rem]">
-        <div>
-          <div ref={wrapRef} className="max-h-[75vh] overflow-auto rounded-xl border border-line bg-[#1b1f27]">
-            <div className="relative" style={{ width: fit * zoom, height: fit * zoom * (H / W) }}>
-              {/* eslint-disable-next-line @next/next/no-img-element */}
-              <img src={props.displayUrl} alt={`Rack photo ${photo.name}`} draggable={false} className="absolute inset-0 h-full w-full select-none" />
-              <svg
-                ref={svgRef}
-                data-testid="marking-canvas"
-                data-ready={ready ? "true" : undefined}
-                viewBox={`0 0 ${W} ${H}`}
-                preserveAspectRatio="none"
-                className="absolute inset-0 h-full w-full cursor-crosshair touch-none focus:outline-none focus-visible:ring-4 focus-visible:ring-accent/50"
-                tabIndex={0}
-                role="application"
-                aria-label="Photo: drag on it to mark a region. Arrow keys move the selected region (Shift: 10 px, Alt: resize); D duplicates it along the rack; E switches rectangle/ellipse; R switches vial/reference; N and P select the next or previous region; Delete removes it; + and − zoom."
-                onPointerDown={onPointerDown}
-                onPointerMove={onPointerMove}
-                onPointerUp={onPointerUp}
-                onPointerCancel={onPointerUp}
-                onKeyDown={onKeyDown}
-              >
-                {marks.map((m) => {
-                  const isSel = m.key === selected;
-                  const r = live.vials[m.key];
-                  const colour = m.role === "reference" ? "#ffffff" : r && r.ok && r.colour.flags.length ? "#f59e0b" : "#5eead4";
-                  const common = { "data-key": m.key, fill: isSel ? "rgba(255,255,255,0.12)" : "rgba(255,255,255,0.02)", stroke: colour, strokeWidth: isSel ? 3 : 2, vectorEffect: "non-scaling-stroke" as const, strokeDasharray: m.role === "reference" ? "6 4" : undefined, className: "cursor-move" };
-                  return (
-                    <g key={m.key} data-testid="region" data-label={m.label}>
-                      {m.shape === "rect" ? <rect x={m.x} y={m.y} width={m.w} height={m.h} {...common} /> : <ellipse cx={m.x + m.w / 2} cy={m.y + m.h / 2} rx={m.w / 2} ry={m.h / 2} {...common} />}
-                      <text x={m.x + 2 / scale} y={m.y - 6 / scale} fontSize={13 / scale} fill={colour} stroke="#111827" strokeWidth={3} paintOrder="stroke" vectorEffect="non-scaling-stroke" style={{ pointerEvents: "none", fontWeight: 600 }}>
-                        {m.label}
-                      </text>
-                      {isSel &&
-                        (["nw", "ne", "sw", "se"] as const).map((hd) => (
-                          <rect
-                            key={hd}
-                            data-key={m.key}
-                            data-handle={hd}
-                            x={(hd.includes("w") ? m.x : m.x + m.w) - handle / 2}
-                            y={(hd.includes("n") ? m.y : m.y + m.h) - handle / 2}
-                            width={handle}
-                            height={handle}
-                            fill="#ffffff"
-                            stroke="#5b2a86"
-                            strokeWidth={2}
-                            vectorEffect="non-scaling-stroke"
-                            className={hd === "nw" || hd === "se" ? "cursor-nwse-resize" : "cursor-nesw-resize"}
-                          />
-                        ))}
-                    </g>
-                  );
-                })}
-              </svg>
-            </div>
-          </div>
-          <p className="mt-2 text-xs text-ink-soft">
-            {W}×{H} px after EXIF orientation. Drag on the photo to mark; drag a region to move it; drag a corner to resize. With the photo focused: arrows move (Shift ×10, Alt resizes), D duplicates along
-            the rack, E ellipse/rectangle, R vial/reference, N/P next/previous, Delete removes, +/− zoom. Colours on screen are approximations; the numbers are the measurement.
-          </p>
-
-          <div className="mt-4 grid gap-3 rounded-xl border border-line bg-white p-4 2xl:grid-cols-2">
-            <div className="space-y-2">
-              <label htmlFor="template-choice" className="block text-sm font-semibold">
-                Rack layouts
-              </label>
-              <div className="flex gap-2">
-                <select id="template-choice" value={templateChoice} onChange={(e) => setTemplateChoice(e.target.value)} className="min-h-11 flex-1 rounded-lg border border-line px-2 text-sm">
-                  {props.templates.length === 0 && <option value="">No saved layouts yet</option>}
-                  {props.templates.map((t) => (
-                    <option key={t.id} value={t.id}>
-                      {t.name} ({t.regions.length} regions)
+    <div className="space-y-3">
+      <p className="rounded-lg border border-line bg-white p-4 text-sm md:hidden" data-testid="editor-needs-width">
+        Marking a rack needs a screen at least 768 px wide: each vial&apos;s region is drawn on the photo and checked against its row in the table beside it, and on a phone the regions
+        are too small to place within a few pixels. Open this page on a tablet or a computer; the review queue and the measurements work on a phone.
+      </p>
+      <div className="hidden space-y-3 md:block">
+        <SafetyNotice solvents={inUse} />
+        <div className="grid items-start gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
+          {/* The photo column stays in view while the table beside it scrolls. */}
+          <div className="space-y-2 lg:sticky lg:top-20" data-testid="photo-column">
+            <div className="flex flex-wrap items-end gap-2 rounded-lg border border-line bg-white p-2">
+              <div>
+                <label htmlFor="profile" className={SMALL_LABEL}>
+                  Lighting profile of this photo
+                </label>
+                <select id="profile" value={profileId} onChange={(e) => setProfileId(e.target.value)} className={`${INPUT} w-auto`}>
+                  <option value="">None (reference only)</option>
+                  {props.profiles.map((p) => (
+                    <option key={p.id} value={p.id}>
+                      {p.name}
+                      {p.approved ? "" : " (not approved)"}
+                      {p.validNow ? "" : " (expired)"}
                     </option>
                   ))}
                 </select>
-                <button type="button" disabled={!templateChoice} onClick={() => applyTemplate(templateChoice)} className="min-h-11 rounded-lg border border-line px-3 text-sm font-semibold disabled:opacity-40">
-                  Apply
-                </button>
-                <form action={delAction}>
-                  <input type="hidden" name="id" value={templateChoice} />
-                  <button disabled={!templateChoice} className="min-h-11 rounded-lg border border-bad/40 px-3 text-sm font-semibold text-bad disabled:opacity-40">
-                    Delete
+              </div>
+              <fieldset className="flex items-center gap-1">
+                <legend className={SMALL_LABEL}>New region</legend>
+                {(["vial", "reference"] as const).map((r) => (
+                  <button key={r} type="button" aria-pressed={newRole === r} onClick={() => setNewRole(r)} className={`${BUTTON} ${newRole === r ? "border-accent bg-accent-soft text-accent" : ""}`}>
+                    {r === "vial" ? "Vial" : "Reference"}
                   </button>
-                </form>
-              </div>
-              {delState && !delState.ok && <p className="text-sm text-bad">{delState.message}</p>}
-            </div>
-            <form action={tplAction} className="space-y-2">
-              <label htmlFor="template-name" className="block text-sm font-semibold">
-                Save these regions as a layout
-              </label>
-              <div className="flex gap-2">
-                <input id="template-name" value={templateName} onChange={(e) => setTemplateName(e.target.value)} placeholder="e.g. 8-vial rack, light box North" className="min-h-11 flex-1 rounded-lg border border-line px-3 text-sm" />
-                <input type="hidden" name="payload" value={templatePayload} />
-                <button disabled={tplSaving || marks.length === 0 || !templateName.trim()} className="min-h-11 rounded-lg border border-line px-3 text-sm font-semibold disabled:opacity-40">
-                  Save layout
+                ))}
+                {(["rect", "ellipse"] as const).map((s) => (
+                  <button key={s} type="button" aria-pressed={newShape === s} onClick={() => setNewShape(s)} className={`${BUTTON} ${newShape === s ? "border-accent bg-accent-soft text-accent" : ""}`}>
+                    {s === "rect" ? "Rectangle" : "Ellipse"}
+                  </button>
+                ))}
+              </fieldset>
+              <div className="flex items-center gap-1">
+                <button type="button" onClick={() => setZoom((z) => ZOOMS[Math.max(ZOOMS.indexOf(z) - 1, 0)])} className={`${BUTTON} min-w-10 px-0 text-lg`} aria-label="Zoom out">
+                  −
+                </button>
+                <span className="w-12 text-center text-sm tabular-nums" aria-live="polite">
+                  {Math.round(zoom * 100)} %
+                </span>
+                <button type="button" onClick={() => setZoom((z) => ZOOMS[Math.min(ZOOMS.indexOf(z) + 1, ZOOMS.length - 1)])} className={`${BUTTON} min-w-10 px-0 text-lg`} aria-label="Zoom in">
+                  +
                 </button>
               </div>
-              {tplState && <p className={`text-sm ${tplState.ok ? "text-ok" : "text-bad"}`}>{tplState.message}</p>}
-            </form>
-          </div>
-        </div>
-
-        <div className="space-y-3">
-          <div className="rounded-xl border border-line bg-white p-3 text-sm" aria-live="polite">
-            <p className="font-semibold">
-              {vials.length} vial{vials.length === 1 ? "" : "s"}, {refs.length} reference{refs.length === 1 ? "" : "s"}
-              {live.busy ? " · measuring…" : ""}
-            </p>
-            <p className="text-ink-soft">
-              {live.correction === "none" || !live.correction
-                ? "No light correction: choose a profile or mark a white/grey reference of known Lab."
-                : `Correction: ${profileId ? "profile" : ""}${profileId && refInputs.length ? " + " : ""}${refInputs.length ? "in-photo reference scaling" : ""} (${live.correction}).`}
-            </p>
-            {live.photoFlags.includes("white-card-only") && (
-              <p className="text-warn" data-testid="white-card-only">White card only: no lighting profile stands behind these colours; expect a few ΔE00 (practitioner estimate).</p>
-            )}
-            {live.error && (
-              <p role="alert" className="mt-1 text-bad">
-                {live.error}
+            </div>
+            <div ref={wrapRef} className="max-h-[62vh] overflow-auto overscroll-contain rounded-lg border border-line bg-[#1b1f27]">
+              <div className="relative" style={{ width: fit * zoom, height: fit * zoom * (H / W) }}>
+                {/* eslint-disable-next-line @next/next/no-img-element */}
+                <img src={props.displayUrl} alt={`Rack photo ${photo.name}`} draggable={false} className="absolute inset-0 h-full w-full select-none" />
+                <svg
+                  ref={svgRef}
+                  data-testid="marking-canvas"
+                  data-ready={ready ? "true" : undefined}
+                  viewBox={`0 0 ${W} ${H}`}
+                  preserveAspectRatio="none"
+                  className="absolute inset-0 h-full w-full cursor-crosshair touch-none select-none focus:outline-none focus-visible:ring-4 focus-visible:ring-accent/50"
+                  style={{ touchAction: "none" }}
+                  tabIndex={0}
+                  role="application"
+                  aria-label="Photo: drag on it to mark a region. Arrow keys move the selected region (Shift: 10 px, Alt: resize); D duplicates it along the rack; E switches rectangle/ellipse; R switches vial/reference; N and P select the next or previous region; Delete removes it; + and − zoom."
+                  onPointerDown={onPointerDown}
+                  onPointerMove={onPointerMove}
+                  onPointerUp={onPointerUp}
+                  onPointerCancel={onPointerUp}
+                  onKeyDown={onKeyDown}
+                >
+                  {marks.map((m) => {
+                    const isSel = m.key === selected;
+                    const flagged = m.role === "vial" && flagsOf(m).length > 0;
+                    const colour = m.role === "reference" ? "#ffffff" : flagged ? "#f59e0b" : "#5eead4";
+                    const common = { "data-key": m.key, fill: isSel ? "rgba(255,255,255,0.12)" : "rgba(255,255,255,0.02)", stroke: colour, strokeWidth: isSel ? 3 : 2, vectorEffect: "non-scaling-stroke" as const, strokeDasharray: m.role === "reference" ? "6 4" : undefined, className: "cursor-move" };
+                    // Labels sit above the region, or inside it when the region touches the photo's top edge;
+                    // near the right edge they end at the region's right side, so none is cut off.
+                    const fontSize = 13 / scale;
+                    const above = m.y - 6 / scale - fontSize > 0;
+                    const rightAligned = m.x + (m.label.length * 7.5) / scale > W;
+                    return (
+                      <g key={m.key} data-testid="region" data-label={m.label}>
+                        {m.shape === "rect" ? <rect x={m.x} y={m.y} width={m.w} height={m.h} {...common} /> : <ellipse cx={m.x + m.w / 2} cy={m.y + m.h / 2} rx={m.w / 2} ry={m.h / 2} {...common} />}
+                        <text
+                          data-testid="region-label"
+                          x={rightAligned ? m.x + m.w - 2 / scale : m.x + 2 / scale}
+                          y={above ? m.y - 6 / scale : m.y + fontSize + 4 / scale}
+                          textAnchor={rightAligned ? "end" : "start"}
+                          fontSize={fontSize}
+                          fill={colour}
+                          stroke="#111827"
+                          strokeWidth={3}
+                          paintOrder="stroke"
+                          vectorEffect="non-scaling-stroke"
+                          style={{ pointerEvents: "none", fontWeight: 600 }}
+                        >
+                          {m.label}
+                        </text>
+                        {isSel &&
+                          (["nw", "ne", "sw", "se"] as const).map((hd) => (
+                            <rect
+                              key={hd}
+                              data-key={m.key}
+                              data-handle={hd}
+                              x={(hd.includes("w") ? m.x : m.x + m.w) - handle / 2}
+                              y={(hd.includes("n") ? m.y : m.y + m.h) - handle / 2}
+                              width={handle}
+                              height={handle}
+                              fill="#ffffff"
+                              stroke="#5b2a86"
+                              strokeWidth={2}
+                              vectorEffect="non-scaling-stroke"
+                              className={hd === "nw" || hd === "se" ? "cursor-nwse-resize" : "cursor-nesw-resize"}
+                            />
+                          ))}
+                      </g>
+                    );
+                  })}
+                </svg>
+              </div>
+            </div>
+            <div className="flex flex-wrap items-center gap-1">
+              <button
+                type="button"
+                onClick={() => {
+                  const m = addMark({ x: W * 0.45, y: H * 0.35, w: Math.max(8, W * 0.08), h: Math.max(8, H * 0.3) }, newRole, newShape);
+                  setMarks((all) => [...all, m]);
+                  setSelected(m.key);
+                  svgRef.current?.focus({ preventScroll: true });
+                }}
+                className={BUTTON}
+              >
+                Add a region
+              </button>
+              <button type="button" onClick={() => duplicateAlongRack()} disabled={marks.length === 0} className={BUTTON}>
+                Duplicate along the rack
+              </button>
+              <label htmlFor="dup-count" className="sr-only">
+                How many copies
+              </label>
+              <select id="dup-count" value={dupCount} onChange={(e) => setDupCount(Number(e.target.value))} className={`${INPUT} w-auto`}>
+                {[1, 2, 3, 4, 5, 6, 7, 8, 11].map((n) => (
+                  <option key={n} value={n}>
+                    ×{n}
+                  </option>
+                ))}
+              </select>
+              <button type="button" onClick={renumber} disabled={vials.length < 2} className={BUTTON}>
+                Number left to right
+              </button>
+            </div>
+            {note && (
+              <p role="status" className="text-sm text-ink-soft">
+                {note}
               </p>
             )}
+            <p className="text-xs text-ink-soft">
+              {W}×{H} px after EXIF orientation. Drag on the photo to mark; drag a region to move it, a corner to resize. With the photo focused: arrows move (Shift ×10, Alt
+              resizes), D duplicates along the rack, E ellipse/rectangle, R vial/reference, N/P next/previous, Delete removes, +/− zoom. Swatches are screen approximations; the numbers
+              are the measurement.
+            </p>
           </div>
 
-          <ol className="space-y-2" aria-label="Regions">
-            {marks.map((m) => {
-              const vi = vials.indexOf(m);
-              const r = live.vials[m.key];
-              const ref = live.references[m.key];
-              const isSel = m.key === selected;
-              return (
-                <li
-                  key={m.key}
-                  data-testid="region-card"
-                  data-label={m.label}
-                  onFocusCapture={() => setSelected(m.key)}
-                  className={`rounded-xl border bg-white p-3 ${isSel ? "border-accent ring-2 ring-accent/20" : "border-line"}`}
-                >
-                  <div className="mb-2 flex items-center justify-between gap-2">
-                    <button type="button" onClick={() => setSelected(m.key)} className="min-h-11 text-left font-semibold">
-                      {m.label} <span className="text-xs font-normal text-ink-soft">({m.role === "vial" ? "vial" : "reference"}, {m.shape === "rect" ? "rectangle" : "ellipse"}, {m.w}×{m.h} px)</span>
-                    </button>
-                    <div className="flex gap-1">
-                      <button type="button" onClick={() => update(m.key, { role: m.role === "vial" ? "reference" : "vial" })} className="min-h-11 rounded-lg border border-line px-2 text-xs font-semibold">
-                        {m.role === "vial" ? "Make reference" : "Make vial"}
-                      </button>
-                      <button type="button" aria-label={`Remove ${m.label}`} onClick={() => setMarks((all) => all.filter((x) => x.key !== m.key))} className="min-h-11 min-w-11 rounded-lg border border-bad/40 text-bad">
-                        ✕
-                      </button>
-                    </div>
-                  </div>
+          <div className="min-w-0 space-y-3">
+            <section aria-label="Whole rack" className="grid gap-3 rounded-lg border border-line bg-white p-3 xl:grid-cols-2">
+              <div>
+                <label htmlFor="panel-choice" className={SMALL_LABEL}>
+                  Solvent panel (left to right)
+                </label>
+                <div className="flex gap-1">
+                  <select id="panel-choice" value={panelChoice} onChange={(e) => setPanelChoice(e.target.value)} className={INPUT}>
+                    {props.panels.length === 0 && <option value="">No saved panels yet</option>}
+                    {props.panels.map((p) => (
+                      <option key={p.id} value={p.id}>
+                        {p.name} ({p.entries.length} solvents)
+                      </option>
+                    ))}
+                  </select>
+                  <button type="button" disabled={!panelChoice || vials.length === 0} onClick={() => applyPanel(panelChoice)} className={BUTTON}>
+                    Apply panel
+                  </button>
+                </div>
+              </div>
+              <DyePicker
+                dyes={props.dyes}
+                value={sameDye}
+                onChange={(id) => {
+                  setSameDye(id);
+                  setMarks((all) => all.map((x) => (x.role === "vial" ? { ...x, dyeId: id } : x)));
+                }}
+                label="Same dye for every vial"
+              />
+            </section>
 
-                  {m.role === "vial" ? (
-                    <div className="grid grid-cols-2 gap-2">
-                      <div className="col-span-2">
-                        <DyePicker dyes={props.dyes} value={m.dyeId} onChange={(id) => update(m.key, { dyeId: id })} label={`Dye in ${m.label}`} />
-                        {m.dyeId && vials.length > 1 && (
-                          <button type="button" onClick={() => setMarks((all) => all.map((x) => (x.role === "vial" ? { ...x, dyeId: m.dyeId } : x)))} className="mt-1 min-h-11 text-xs font-semibold text-accent">
-                            Same dye in every vial
-                          </button>
+            <div className="rounded-lg border border-line bg-white" aria-live="polite">
+              <p className="border-b border-line px-3 py-2 text-sm">
+                <strong>
+                  {vials.length} vial{vials.length === 1 ? "" : "s"}, {refs.length} reference{refs.length === 1 ? "" : "s"}
+                </strong>
+                {live.busy ? " · measuring…" : ""} ·{" "}
+                <span className="text-ink-soft">
+                  {live.correction === "none" || !live.correction
+                    ? "No light correction: choose a profile or mark a white/grey reference of known Lab."
+                    : `Correction: ${profileId ? "profile" : ""}${profileId && refInputs.length ? " + " : ""}${refInputs.length ? "in-photo reference scaling" : ""} (${live.correction}).`}
+                </span>
+                {live.photoFlags.includes("white-card-only") && (
+                  <span className="block text-warn" data-testid="white-card-only">
+                    White card only: no lighting profile stands behind these colours; expect a few ΔE00 (practitioner estimate).
+                  </span>
+                )}
+                {live.error && (
+                  <span role="alert" className="block text-bad">
+                    {live.error}
+                  </span>
+                )}
+              </p>
+              <div className="overflow-x-auto">
+                <table className="w-full min-w-[42rem] text-sm" data-testid="rack-table">
+                  <caption className="sr-only">One row per vial, left to right: its region, dye, solvent, condition, measured colour, uncertainty and flags.</caption>
+                  <thead className="bg-paper/60 text-left text-xs text-ink-soft">
+                    <tr>
+                      <th scope="col" className="px-2 py-1.5">Vial</th>
+                      <th scope="col" className="px-2 py-1.5">Dye</th>
+                      <th scope="col" className="px-2 py-1.5">Solvent</th>
+                      <th scope="col" className="px-2 py-1.5">Condition</th>
+                      <th scope="col" className="px-2 py-1.5">Colour (CIELAB D65)</th>
+                      <th scope="col" className="px-2 py-1.5">± ΔE00</th>
+                      <th scope="col" className="px-2 py-1.5">Flags</th>
+                    </tr>
+                  </thead>
+                  {orderedVials.length === 0 && (
+                    <tbody>
+                      <tr>
+                        <td colSpan={7} className="px-3 py-4 text-ink-soft">
+                          Drag on the photo inside each vial, or apply a saved rack layout below.
+                        </td>
+                      </tr>
+                    </tbody>
+                  )}
+                  {orderedVials.map((m) => {
+                    const vi = vials.indexOf(m);
+                    const r = live.vials[m.key];
+                    const rep = replicates[m.key];
+                    const flags = flagsOf(m);
+                    const isSel = m.key === selected;
+                    const open = openRow === m.key;
+                    return (
+                      <tbody key={m.key} data-testid="vial-row" data-label={m.label} data-flags={flags.join(" ")} onFocusCapture={() => setSelected(m.key)} className={`border-t border-line ${isSel ? "bg-accent-soft/40" : ""}`}>
+                        <tr className="align-top">
+                          <td className="px-2 py-1.5">
+                            <button type="button" onClick={() => setSelected(m.key)} className="min-h-10 text-left font-semibold" aria-label={`Select ${m.label} on the photo`}>
+                              {m.label}
+                            </button>
+                            <span className="block text-xs text-ink-soft tabular-nums">
+                              {m.shape === "rect" ? "rect." : "ellipse"} {m.w}×{m.h} px
+                            </span>
+                            <button type="button" aria-label={`Remove ${m.label}`} onClick={() => setMarks((all) => all.filter((x) => x.key !== m.key))} className="text-xs font-semibold text-bad underline">
+                              remove
+                            </button>
+                          </td>
+                          <td className="min-w-40 px-2 py-1.5">
+                            <DyePicker dyes={props.dyes} value={m.dyeId} onChange={(id) => update(m.key, { dyeId: id })} label={`Dye in ${m.label}`} hideLabel />
+                            {fieldErr(vi, "dyeId") && <p className="text-xs text-bad">{fieldErr(vi, "dyeId")}</p>}
+                          </td>
+                          <td className="min-w-40 px-2 py-1.5">
+                            <select aria-label={`Solvent in ${m.label}`} value={m.solventId} onChange={(e) => update(m.key, { solventId: e.target.value })} className={INPUT}>
+                              {solventOptions("Choose the solvent")}
+                            </select>
+                            {fieldErr(vi, "solventId") && <p className="text-xs text-bad">{fieldErr(vi, "solventId")}</p>}
+                          </td>
+                          <td className="px-2 py-1.5">
+                            <select aria-label={`Acid or base in ${m.label}`} value={m.acidBase} onChange={(e) => update(m.key, { acidBase: e.target.value as Mark["acidBase"] })} className={INPUT}>
+                              <option value="acid">acid</option>
+                              <option value="neutral">neutral</option>
+                              <option value="base">base</option>
+                            </select>
+                            <button type="button" aria-expanded={open} aria-controls={`more-${m.key}`} onClick={() => setOpenRow(openRow === m.key ? null : m.key)} className="mt-0.5 block text-left text-xs font-semibold text-accent underline">
+                              {conditionSummary(m) === m.acidBase ? "pH, additive, T, blend…" : conditionSummary(m).replace(`${m.acidBase}, `, "")}
+                            </button>
+                          </td>
+                          <td className="px-2 py-1.5" data-testid="live-colour">
+                            {r?.ok ? (
+                              <div className="flex items-start gap-1.5">
+                                <span role="img" aria-label={`Measured colour of ${m.label} (screen approximation)`} className="h-8 w-8 shrink-0 rounded border border-black/10" style={{ backgroundColor: r.colour.hex }} />
+                                <span className="whitespace-nowrap text-xs leading-4 tabular-nums" data-testid="live-lab" title={`C* ${fmt(r.colour.lch[1])} h° ${fmt(r.colour.lch[2], 0)} · ${r.colour.pixels} px, ${r.colour.rejected} rejected`}>
+                                  L* {fmt(r.colour.lab[0])}
+                                  <br />
+                                  a* {fmt(r.colour.lab[1])} b* {fmt(r.colour.lab[2])}
+                                </span>
+                              </div>
+                            ) : r ? (
+                              <p className="text-xs text-bad">{r.error}</p>
+                            ) : (
+                              <span className="text-xs text-ink-soft">{live.busy ? "measuring…" : "—"}</span>
+                            )}
+                          </td>
+                          <td className="px-2 py-1.5 text-xs tabular-nums" data-testid="live-uncertainty">
+                            {r?.ok && r.colour.uncertainty ? `± ${fmt(r.colour.uncertainty.uDeltaE00, 2)}` : "—"}
+                          </td>
+                          <td className="px-2 py-1.5">
+                            {flags.length === 0 ? (
+                              <span className="text-xs text-ink-soft">{r?.ok ? "none" : ""}</span>
+                            ) : (
+                              <ul className="flex flex-wrap gap-0.5" aria-label={`Quality flags of ${m.label}`}>
+                                {flags.map((f) => (
+                                  <li key={f} title={FLAG_TEXT[f] ?? f} className="whitespace-nowrap rounded bg-amber-50 px-1 text-xs font-medium text-warn" data-testid="vial-flag" data-flag={f}>
+                                    ⚠ {FLAG_SHORT[f] ?? f}
+                                  </li>
+                                ))}
+                              </ul>
+                            )}
+                          </td>
+                        </tr>
+                        {open && (
+                          <tr id={`more-${m.key}`}>
+                            <td colSpan={7} className="px-2 pb-2">
+                              <div className="grid grid-cols-2 gap-2 rounded-md bg-paper/60 p-2 sm:grid-cols-4">
+                                {(
+                                  [
+                                    ["ph", "pH", "e.g. 7.4"],
+                                    ["additive", "Acid or base added", "e.g. HCl"],
+                                    ["addConc", "Its amount, mol/L", "e.g. 0.03"],
+                                    ["temp", "Temperature, °C", "e.g. 23"],
+                                    ["path", "Path length, mm", "e.g. 10"],
+                                    ["conc", "Dye, µmol/L", "e.g. 20"],
+                                  ] as const
+                                ).map(([f, label, hint]) => (
+                                  <div key={f}>
+                                    <label htmlFor={`${f}-${m.key}`} className={SMALL_LABEL}>
+                                      {label}
+                                    </label>
+                                    <input id={`${f}-${m.key}`} aria-label={`${label} in ${m.label}`} inputMode={f === "additive" ? "text" : "decimal"} placeholder={hint} value={m[f]} onChange={(e) => update(m.key, { [f]: e.target.value })} className={INPUT} />
+                                  </div>
+                                ))}
+                                <div className="col-span-2">
+                                  <label htmlFor={`s2-${m.key}`} className={SMALL_LABEL}>
+                                    Second solvent (blend)
+                                  </label>
+                                  <select id={`s2-${m.key}`} value={m.solvent2} onChange={(e) => update(m.key, { solvent2: e.target.value })} className={INPUT}>
+                                    {solventOptions("None (neat solvent)")}
+                                  </select>
+                                </div>
+                                <div>
+                                  <label htmlFor={`x2-${m.key}`} className={SMALL_LABEL}>
+                                    Its mole fraction x₂
+                                  </label>
+                                  <input id={`x2-${m.key}`} inputMode="decimal" placeholder="0–1" disabled={!m.solvent2} value={m.x2} onChange={(e) => update(m.key, { x2: e.target.value })} className={INPUT} />
+                                </div>
+                                <div className="flex items-end">
+                                  <button
+                                    type="button"
+                                    onClick={() => setMarks((all) => all.map((x) => (x.role === "vial" && x.key !== m.key ? { ...x, ...conditionOf(m), solventId: x.solventId } : x)))}
+                                    className="text-xs font-semibold text-accent underline"
+                                  >
+                                    Same condition in every vial (solvents kept)
+                                  </button>
+                                </div>
+                              </div>
+                            </td>
+                          </tr>
                         )}
+                        {(flags.length > 0 || (rep && rep.earlier.length > 0)) && (
+                          <tr>
+                            <td colSpan={7} className="px-2 pb-2">
+                              {flags.length > 0 && <p className="text-xs text-warn">{m.label}: {flags.map((f) => FLAG_TEXT[f] ?? f).join("; ")}.</p>}
+                              {rep && rep.earlier.length > 0 && (
+                                <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs" data-testid="replicate-check">
+                                  <span className={rep.verdict?.disagrees ? "font-semibold text-warn" : "text-ink-soft"}>
+                                    {rep.verdict?.disagrees ? "Disagrees with" : "Agrees with"} {rep.earlier.length} earlier accepted colour{rep.earlier.length === 1 ? "" : "s"} of this dye and condition: ΔE00{" "}
+                                    {fmt(rep.verdict!.deltaE00, 1)} from their mean, limit {fmt(rep.verdict!.limitDeltaE00, 1)} (3 × combined spread; common practice)
+                                  </span>
+                                  {rep.earlier.slice(-8).map((e) => (
+                                    <span key={e.id} role="img" aria-label={`Earlier accepted: L* ${fmt(e.lab[0])} a* ${fmt(e.lab[1])} b* ${fmt(e.lab[2])}`} title={`L* ${fmt(e.lab[0])} a* ${fmt(e.lab[1])} b* ${fmt(e.lab[2])}`} className="h-6 w-6 rounded border border-black/10" style={{ backgroundColor: e.hex }} />
+                                  ))}
+                                  {r?.ok && <span role="img" aria-label={`This vial: L* ${fmt(r.colour.lab[0])}`} className="h-6 w-6 rounded border-2 border-ink" style={{ backgroundColor: r.colour.hex }} />}
+                                </div>
+                              )}
+                              {flags.length > 0 && (
+                                <div className="mt-1 flex items-center gap-2">
+                                  <label htmlFor={`reason-${m.key}`} className="shrink-0 text-xs font-semibold">
+                                    Why keep {m.label}?
+                                  </label>
+                                  <input id={`reason-${m.key}`} aria-label={`Why keep this flagged measurement? (${m.label})`} value={m.flagReason} onChange={(e) => update(m.key, { flagReason: e.target.value })} className={`${INPUT} min-h-8`} />
+                                  {fieldErr(vi, "flagReason") && <p className="text-xs text-bad">{fieldErr(vi, "flagReason")}</p>}
+                                </div>
+                              )}
+                            </td>
+                          </tr>
+                        )}
+                      </tbody>
+                    );
+                  })}
+                </table>
+              </div>
+            </div>
+
+            {refs.length > 0 && (
+              <section aria-label="References" className="space-y-2 rounded-lg border border-line bg-white p-3">
+                <h2 className="text-sm font-semibold">References: white or grey patches of known CIELAB (D65) in this photo, from the tile&apos;s certificate</h2>
+                {refs.map((m) => {
+                  const ref = live.references[m.key];
+                  return (
+                    <div key={m.key} data-testid="region-card" data-label={m.label} onFocusCapture={() => setSelected(m.key)} className="grid items-end gap-2 border-t border-line pt-2 sm:grid-cols-[auto_1fr_1fr_1fr_auto]">
+                      <p className="text-sm font-semibold">{m.label}</p>
+                      {(["refL", "refA", "refB"] as const).map((f, i) => (
+                        <div key={f}>
+                          <label htmlFor={`${f}-${m.key}`} className={SMALL_LABEL}>
+                            Known {["L*", "a*", "b*"][i]} of {m.label}
+                          </label>
+                          <input id={`${f}-${m.key}`} inputMode="decimal" value={m[f]} onChange={(e) => update(m.key, { [f]: e.target.value })} className={INPUT} />
+                        </div>
+                      ))}
+                      <div className="flex gap-1">
+                        <button type="button" onClick={() => update(m.key, { role: "vial" })} className={BUTTON}>
+                          Make vial
+                        </button>
+                        <button type="button" aria-label={`Remove ${m.label}`} onClick={() => setMarks((all) => all.filter((x) => x.key !== m.key))} className={`${BUTTON} text-bad`}>
+                          ✕
+                        </button>
                       </div>
-                      <div className="col-span-2 space-y-1">
-                        <label htmlFor={`solvent-${m.key}`} className="block text-xs font-semibold uppercase tracking-wide text-ink-soft">
-                          Solvent in {m.label}
-                        </label>
-                        <select id={`solvent-${m.key}`} value={m.solventId} onChange={(e) => update(m.key, { solventId: e.target.value })} className="min-h-11 w-full rounded-lg border border-line px-2 text-sm">
-                          <option value="">Choose the solvent</option>
-                          {byMedium.map((g) => (
-                            <optgroup key={g.medium} label={MEDIUM_LABEL[g.medium]}>
-                              {g.list.map((s) => (
-                                <option key={s.id} value={s.id}>
-                                  {s.name} — {MEDIUM_LABEL[s.medium]}
-                                </option>
-                              ))}
-                            </optgroup>
-                          ))}
-                        </select>
-                        {fieldErr(vi, "solventId") && <p className="text-xs text-bad">{fieldErr(vi, "solventId")}</p>}
-                      </div>
-                      <div className="space-y-1">
-                        <label htmlFor={`ab-${m.key}`} className="block text-xs font-semibold uppercase tracking-wide text-ink-soft">
-                          Condition
-                        </label>
-                        <select id={`ab-${m.key}`} value={m.acidBase} onChange={(e) => update(m.key, { acidBase: e.target.value as Mark["acidBase"] })} className="min-h-11 w-full rounded-lg border border-line px-2 text-sm">
-                          <option value="acid">acid</option>
-                          <option value="neutral">neutral</option>
-                          <option value="base">base</option>
-                        </select>
-                      </div>
-                      <div className="space-y-1">
-                        <label htmlFor={`ph-${m.key}`} className="block text-xs font-semibold uppercase tracking-wide text-ink-soft">
-                          pH (optional)
-                        </label>
-                        <input id={`ph-${m.key}`} inputMode="decimal" value={m.ph} onChange={(e) => update(m.key, { ph: e.target.value })} className="min-h-11 w-full rounded-lg border border-line px-2 text-sm" />
-                      </div>
-                      <div className="col-span-2 space-y-1">
-                        <label htmlFor={`conc-${m.key}`} className="block text-xs font-semibold uppercase tracking-wide text-ink-soft">
-                          Dye concentration, <span className="normal-case">µmol/L</span> (optional)
-                        </label>
-                        <input id={`conc-${m.key}`} inputMode="decimal" value={m.conc} onChange={(e) => update(m.key, { conc: e.target.value })} className="min-h-11 w-full rounded-lg border border-line px-2 text-sm" />
-                      </div>
-                    </div>
-                  ) : (
-                    <div className="space-y-2">
-                      <p className="text-xs text-ink-soft">A white or grey patch of known CIELAB (D65) in this photo; its values come from the tile&apos;s certificate.</p>
                       {props.patches.length > 0 && (
                         <select
                           aria-label={`Fill ${m.label} from a calibration target`}
                           value=""
                           onChange={(e) => {
                             const p = props.patches[Number(e.target.value)];
-                            if (p) update(m.key, { refL: String(p.lab[0]), refA: String(p.lab[1]), refB: String(p.lab[2]) });
+                            if (p) update(m.key, { refL: p.lab[0].toFixed(REF_DIGITS), refA: p.lab[1].toFixed(REF_DIGITS), refB: p.lab[2].toFixed(REF_DIGITS), refExact: p.lab });
                           }}
-                          className="min-h-11 w-full rounded-lg border border-line px-2 text-sm"
+                          className={`${INPUT} sm:col-span-5`}
                         >
-                          <option value="">Fill from a calibration target…</option>
+                          <option value="">Fill from a calibration target (full precision kept)…</option>
                           {props.patches.map((p, i) => (
                             <option key={i} value={i}>
                               {p.label}
@@ -712,86 +1029,103 @@ export function MarkingEditor(props: {
                           ))}
                         </select>
                       )}
-                      <div className="grid grid-cols-3 gap-2">
-                        {(["refL", "refA", "refB"] as const).map((f, i) => (
-                          <div key={f} className="space-y-1">
-                            <label htmlFor={`${f}-${m.key}`} className="block text-xs font-semibold text-ink-soft">
-                              Known {["L*", "a*", "b*"][i]} of {m.label}
-                            </label>
-                            <input id={`${f}-${m.key}`} inputMode="decimal" value={m[f]} onChange={(e) => update(m.key, { [f]: e.target.value })} className="min-h-11 w-full rounded-lg border border-line px-2 text-sm" />
-                          </div>
-                        ))}
-                      </div>
                       {ref && (
-                        <p className="text-xs text-ink-soft" data-testid="reference-result">
+                        <p className="text-xs text-ink-soft sm:col-span-5" data-testid="reference-result">
                           Seen through the profile: L* {fmt(ref.profileLab[0])} a* {fmt(ref.profileLab[1])} b* {fmt(ref.profileLab[2])} (ΔE00 {fmt(ref.driftDeltaE00, 2)} from its known value)
                           {ref.flags.length ? ` · ${ref.flags.map((f) => FLAG_TEXT[f] ?? f).join(", ")}` : ""}
                         </p>
                       )}
                     </div>
-                  )}
-
-                  {m.role === "vial" && r && (
-                    <div className="mt-3 rounded-lg bg-paper/60 p-2" data-testid="live-colour">
-                      {r.ok ? (
-                        <div className="flex items-start gap-3">
-                          <span role="img" aria-label={`Measured colour of ${m.label}`} className="h-14 w-14 shrink-0 rounded-md border border-black/10" style={{ backgroundColor: r.colour.hex }} />
-                          <div className="text-xs tabular-nums">
-                            <p className="font-semibold" data-testid="live-lab">
-                              L* {fmt(r.colour.lab[0])} a* {fmt(r.colour.lab[1])} b* {fmt(r.colour.lab[2])}
-                              {r.colour.uncertainty && <span data-testid="live-uncertainty"> (± {fmt(r.colour.uncertainty.uDeltaE00, 1)} ΔE00)</span>}
-                            </p>
-                            <p>
-                              C* {fmt(r.colour.lch[1])} h° {fmt(r.colour.lch[2], 0)} · {r.colour.pixels} px, {r.colour.rejected} rejected, spread {fmt(r.colour.spread, 2)}
-                            </p>
-                            {r.colour.flags.length > 0 && (
-                              <ul className="mt-1 flex flex-wrap gap-1" aria-label="Quality flags">
-                                {r.colour.flags.map((f) => (
-                                  <li key={f} className="rounded-full bg-amber-50 px-2 py-0.5 font-medium text-warn">
-                                    {FLAG_TEXT[f] ?? f}
-                                  </li>
-                                ))}
-                              </ul>
-                            )}
-                          </div>
-                        </div>
-                      ) : (
-                        <p className="text-xs text-bad">{r.error}</p>
-                      )}
-                      {r.ok && r.colour.flags.length > 0 && (
-                        <div className="mt-2 space-y-1">
-                          <label htmlFor={`reason-${m.key}`} className="block text-xs font-semibold">
-                            Why keep this flagged measurement?
-                          </label>
-                          <input id={`reason-${m.key}`} value={m.flagReason} onChange={(e) => update(m.key, { flagReason: e.target.value })} className="min-h-11 w-full rounded-lg border border-line px-2 text-sm" />
-                          {fieldErr(vi, "flagReason") && <p className="text-xs text-bad">{fieldErr(vi, "flagReason")}</p>}
-                        </div>
-                      )}
-                    </div>
-                  )}
-                </li>
-              );
-            })}
-          </ol>
-
-          <form action={saveAction} className="space-y-2 rounded-xl border border-line bg-white p-3">
-            <input type="hidden" name="payload" value={payload} />
-            {problems.length > 0 && (
-              <ul className="list-disc space-y-0.5 pl-5 text-sm text-ink-soft" aria-label="Before saving">
-                {problems.map((p, i) => (
-                  <li key={i}>{p}</li>
-                ))}
-              </ul>
+                  );
+                })}
+              </section>
             )}
-            <button disabled={saving || problems.length > 0 || !measuredAll} className="min-h-12 w-full rounded-lg bg-accent px-4 text-base font-semibold text-white disabled:opacity-40">
-              {saving ? "Saving…" : `Save ${vials.length} measurement${vials.length === 1 ? "" : "s"}`}
-            </button>
-            {saveState && (
-              <p role={saveState.ok ? "status" : "alert"} className={`text-sm ${saveState.ok ? "text-ok" : "text-bad"}`}>
-                {saveState.message} {saveState.ok && <Link href={`/review?photoId=${photo.id}`} className="font-semibold underline">Open them in the review queue</Link>}
-              </p>
-            )}
-          </form>
+
+            <form action={saveAction} className="sticky bottom-2 z-10 space-y-2 rounded-lg border border-line bg-white p-3 shadow-md" data-testid="save-bar">
+              <input type="hidden" name="payload" value={payload} />
+              {problems.length > 0 && (
+                <ul className="list-disc pl-5 text-xs text-ink-soft" aria-label="Before saving">
+                  {problems.slice(0, 2).map((p, i) => (
+                    <li key={i}>{p}</li>
+                  ))}
+                  {problems.length > 2 && <li>and {problems.length - 2} more: see the rows above.</li>}
+                </ul>
+              )}
+              <button disabled={saving || problems.length > 0 || !measuredAll} className="min-h-11 w-full rounded-md bg-accent px-4 text-base font-semibold text-white disabled:opacity-40">
+                {saving ? "Saving…" : `Save ${vials.length} measurement${vials.length === 1 ? "" : "s"}`}
+              </button>
+              {saveState && (
+                <p role={saveState.ok ? "status" : "alert"} className={`text-sm ${saveState.ok ? "text-ok" : "text-bad"}`}>
+                  {saveState.message} {saveState.ok && <Link href={`/review?photoId=${photo.id}`} className="font-semibold underline">Open them in the review queue</Link>}
+                </p>
+              )}
+            </form>
+
+            <details className="rounded-lg border border-line bg-white p-3 text-sm">
+              <summary className="cursor-pointer font-semibold">Save or manage rack layouts and solvent panels</summary>
+              <div className="mt-3 grid gap-4 xl:grid-cols-2">
+                <form action={panelAction} className="space-y-1">
+                  <label htmlFor="panel-name" className={SMALL_LABEL}>
+                    Save these vials&apos; solvents and conditions (left to right) as a panel
+                  </label>
+                  <div className="flex gap-1">
+                    <input id="panel-name" value={panelName} onChange={(e) => setPanelName(e.target.value)} placeholder="e.g. 8 solvents, polarity ladder" className={INPUT} />
+                    <input type="hidden" name="payload" value={panelPayload} />
+                    <button disabled={panelSaving || vials.length === 0 || !panelName.trim()} className={BUTTON}>
+                      Save panel
+                    </button>
+                  </div>
+                  {panelState && <p className={`text-sm ${panelState.ok ? "text-ok" : "text-bad"}`}>{panelState.message}</p>}
+                </form>
+                <form action={panelDelAction} className="space-y-1">
+                  <p className={SMALL_LABEL}>Delete the panel chosen above</p>
+                  <input type="hidden" name="id" value={panelChoice} />
+                  <button disabled={!panelChoice} className={`${BUTTON} text-bad`}>
+                    Delete panel
+                  </button>
+                  {panelDelState && !panelDelState.ok && <p className="text-sm text-bad">{panelDelState.message}</p>}
+                </form>
+                <div className="space-y-1">
+                  <label htmlFor="template-choice" className={SMALL_LABEL}>
+                    Rack layouts (region positions)
+                  </label>
+                  <div className="flex gap-1">
+                    <select id="template-choice" value={templateChoice} onChange={(e) => setTemplateChoice(e.target.value)} className={INPUT}>
+                      {props.templates.length === 0 && <option value="">No saved layouts yet</option>}
+                      {props.templates.map((t) => (
+                        <option key={t.id} value={t.id}>
+                          {t.name} ({t.regions.length} regions)
+                        </option>
+                      ))}
+                    </select>
+                    <button type="button" disabled={!templateChoice} onClick={() => applyTemplate(templateChoice)} className={BUTTON}>
+                      Apply
+                    </button>
+                  </div>
+                  <form action={delAction}>
+                    <input type="hidden" name="id" value={templateChoice} />
+                    <button disabled={!templateChoice} className="text-xs font-semibold text-bad underline disabled:opacity-40">
+                      Delete this layout
+                    </button>
+                  </form>
+                  {delState && !delState.ok && <p className="text-sm text-bad">{delState.message}</p>}
+                </div>
+                <form action={tplAction} className="space-y-1">
+                  <label htmlFor="template-name" className={SMALL_LABEL}>
+                    Save these regions as a layout
+                  </label>
+                  <div className="flex gap-1">
+                    <input id="template-name" value={templateName} onChange={(e) => setTemplateName(e.target.value)} placeholder="e.g. 8-vial rack, light box North" className={INPUT} />
+                    <input type="hidden" name="payload" value={templatePayload} />
+                    <button disabled={tplSaving || marks.length === 0 || !templateName.trim()} className={BUTTON}>
+                      Save layout
+                    </button>
+                  </div>
+                  {tplState && <p className={`text-sm ${tplState.ok ? "text-ok" : "text-bad"}`}>{tplState.message}</p>}
+                </form>
+              </div>
+            </details>
+          </div>
         </div>
       </div>
     </div>

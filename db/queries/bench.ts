@@ -2,7 +2,11 @@ import { randomUUID } from "node:crypto";
 import { and, desc, eq, isNull, sql } from "drizzle-orm";
 import { calibrationOfProfile, correctionOfProfile } from "../../lib/lighting/calibration";
 import type { ProfileForPipeline } from "../../lib/bench/pipeline";
+import { instrumentColourToD65 } from "../../lib/bench/instrument";
+import { checkReplicate, replicateFlags } from "../../lib/bench/replicates";
 import { AppError } from "../../lib/errors";
+import { matchSolvent } from "../../lib/solvents/match";
+import type { InstrumentMeasurement } from "../../lib/validation/instrument";
 import type { Db } from "../connection";
 import {
   calibrationTargets,
@@ -12,11 +16,13 @@ import {
   measurements,
   photos,
   rackTemplates,
+  solventPanels,
   solvents,
   users,
   type AcidBase,
   type CorrectionKind,
   type NewMeasurement,
+  type PanelEntry,
   type Region,
   type ReferenceUsed,
   type Role,
@@ -105,37 +111,89 @@ export function profileForPipeline(db: Db, id: string | null): ProfileForPipelin
   return { id: p.id, name: p.name, correction: correctionOfProfile(p), calibration: calibrationOfProfile(p), validFrom: p.validFrom, validUntil: p.validUntil, looMeanDeltaE00: p.looMeanDeltaE00 };
 }
 
-/** The condition row for these values, made if no identical one exists yet. */
-function conditionFor(tx: Tx, actorId: string, c: { solventId: string; acidBase: AcidBase; ph: number | null; concentrationUmolL: number | null }): string {
-  const existing = tx
+/** Every field of a condition the bench records; numbers in the units of `conditions`. */
+export type ConditionInput = {
+  solventId: string;
+  acidBase: AcidBase;
+  ph: number | null;
+  concentrationUmolL: number | null;
+  additive?: string;
+  additiveConcentrationMolL?: number | null;
+  temperatureC?: number | null;
+  pathLengthMm?: number | null;
+  secondSolventId?: string | null;
+  secondSolventMoleFraction?: number | null;
+};
+
+function normalizeCondition(c: ConditionInput) {
+  return {
+    solventId: c.solventId,
+    acidBase: c.acidBase,
+    ph: c.ph,
+    concentrationUmolL: c.concentrationUmolL,
+    additive: c.additive?.trim() ?? "",
+    additiveConcentrationMolL: c.additiveConcentrationMolL ?? null,
+    temperatureC: c.temperatureC ?? null,
+    pathLengthMm: c.pathLengthMm ?? null,
+    secondSolventId: c.secondSolventId || null,
+    secondSolventMoleFraction: c.secondSolventId ? (c.secondSolventMoleFraction ?? null) : null,
+  };
+}
+
+const sameValue = <T,>(column: Parameters<typeof eq>[0], v: T | null) => (v === null ? isNull(column) : eq(column, v));
+
+/** The id of the condition with exactly these values (every recorded field), or undefined; creates nothing. */
+export function findCondition(db: Db | Tx, input: ConditionInput): string | undefined {
+  const c = normalizeCondition(input);
+  return db
     .select({ id: conditions.id })
     .from(conditions)
     .where(
       and(
         eq(conditions.solventId, c.solventId),
         eq(conditions.acidBase, c.acidBase),
-        c.ph === null ? isNull(conditions.ph) : eq(conditions.ph, c.ph),
-        c.concentrationUmolL === null ? isNull(conditions.concentrationUmolL) : eq(conditions.concentrationUmolL, c.concentrationUmolL),
-        eq(conditions.additive, ""),
-        isNull(conditions.pathLengthMm),
-        isNull(conditions.temperatureC),
+        sameValue(conditions.ph, c.ph),
+        sameValue(conditions.concentrationUmolL, c.concentrationUmolL),
+        eq(conditions.additive, c.additive),
+        sameValue(conditions.additiveConcentrationMolL, c.additiveConcentrationMolL),
+        sameValue(conditions.pathLengthMm, c.pathLengthMm),
+        sameValue(conditions.temperatureC, c.temperatureC),
+        sameValue(conditions.secondSolventId, c.secondSolventId),
+        sameValue(conditions.secondSolventMoleFraction, c.secondSolventMoleFraction),
+        isNull(conditions.ionicStrengthMolL),
       ),
     )
-    .get();
-  if (existing) return existing.id;
+    .get()?.id;
+}
+
+/** The condition row for these values, made if no identical one exists yet. */
+export function conditionFor(tx: Tx, actorId: string, input: ConditionInput): string {
+  const existing = findCondition(tx, input);
+  if (existing) return existing;
+  const c = normalizeCondition(input);
+  if (c.secondSolventId && !tx.select({ id: solvents.id }).from(solvents).where(eq(solvents.id, c.secondSolventId)).get()) {
+    throw new AppError("invalid_input", "The second solvent of the blend is not in the solvent table; pick it from the list.", { secondSolventId: ["Unknown solvent."] });
+  }
   const id = `cond_${randomUUID()}`;
   tx.insert(conditions).values({ id, ...c }).run();
   recordAudit(tx, { actorId, action: "condition.create", entity: "condition", entityId: id, after: c });
   return id;
 }
 
-export type MeasurementToSave = {
+/** Accepted colours of one dye in one condition (the earlier replicates a new colour is checked against), oldest first. */
+export function acceptedReplicates(db: Db | Tx, { dyeId, conditionId, excludeIds = [] }: { dyeId: string; conditionId: string; excludeIds?: string[] }) {
+  return db
+    .select({ id: measurements.id, l: measurements.l, a: measurements.a, b: measurements.b, uDeltaE00: measurements.uDeltaE00, photoId: measurements.photoId, createdAt: measurements.createdAt })
+    .from(measurements)
+    .where(and(eq(measurements.dyeId, dyeId), eq(measurements.conditionId, conditionId), eq(measurements.reviewState, "accepted")))
+    .orderBy(measurements.createdAt)
+    .all()
+    .filter((r) => !excludeIds.includes(r.id));
+}
+
+export type MeasurementToSave = ConditionInput & {
   region: Region;
   dyeId: string;
-  solventId: string;
-  acidBase: AcidBase;
-  ph: number | null;
-  concentrationUmolL: number | null;
   rawLinearRgb: [number, number, number];
   xyz: [number, number, number];
   lab: [number, number, number];
@@ -211,7 +269,7 @@ export function saveMeasurements(
         photoId: photo.id,
         region: v.region,
         dyeId: v.dyeId,
-        conditionId: conditionFor(tx, input.actorId, { solventId: v.solventId, acidBase: v.acidBase, ph: v.ph, concentrationUmolL: v.concentrationUmolL }),
+        conditionId: conditionFor(tx, input.actorId, v),
         lightingProfileId: input.lightingProfileId,
         correctionKind: input.correction.kind,
         correction: input.correction.values,
@@ -307,5 +365,197 @@ export function deleteRackTemplate(db: Db, { actorId, actorRole, id }: { actorId
     mayChangeTemplate(tx, existing, { id: actorId, role: actorRole });
     tx.delete(rackTemplates).where(eq(rackTemplates.id, id)).run();
     recordAudit(tx, { actorId, action: "rack-template.delete", entity: "rack_template", entityId: id, before: { name: existing.name, regions: existing.regions } });
+  });
+}
+
+// ---------------------------------------------------------------- solvent panels
+
+export function listSolventPanels(db: Db) {
+  return db.select().from(solventPanels).orderBy(solventPanels.name).all();
+}
+
+/** Saves a panel under a name; a panel saved again under the same name replaces the old one. */
+export function saveSolventPanel(db: Db, { actorId, name, entries }: { actorId: string; name: string; entries: PanelEntry[] }) {
+  return db.transaction((tx) => {
+    for (const [i, e] of entries.entries()) {
+      for (const sid of [e.solventId, e.secondSolventId].filter((x): x is string => !!x)) {
+        if (!tx.select({ id: solvents.id }).from(solvents).where(eq(solvents.id, sid)).get()) {
+          throw new AppError("invalid_input", `Place ${i + 1} of the panel names a solvent that is not in the solvent table; pick it from the list.`);
+        }
+      }
+    }
+    const existing = tx.select().from(solventPanels).where(eq(solventPanels.name, name)).get();
+    if (existing) {
+      tx.update(solventPanels).set({ entries, updatedAt: new Date() }).where(eq(solventPanels.id, existing.id)).run();
+      recordAudit(tx, { actorId, action: "solvent-panel.update", entity: "solvent_panel", entityId: existing.id, before: { entries: existing.entries }, after: { entries } });
+      return existing.id;
+    }
+    const id = `sp_${randomUUID()}`;
+    tx.insert(solventPanels).values({ id, name, entries, createdBy: actorId }).run();
+    recordAudit(tx, { actorId, action: "solvent-panel.create", entity: "solvent_panel", entityId: id, after: { name, entries } });
+    return id;
+  });
+}
+
+export function deleteSolventPanel(db: Db, { actorId, id }: { actorId: string; id: string }) {
+  db.transaction((tx) => {
+    const existing = tx.select().from(solventPanels).where(eq(solventPanels.id, id)).get();
+    if (!existing) throw new AppError("not_found", "That panel no longer exists.");
+    tx.delete(solventPanels).where(eq(solventPanels.id, id)).run();
+    recordAudit(tx, { actorId, action: "solvent-panel.delete", entity: "solvent_panel", entityId: id, before: { name: existing.name, entries: existing.entries } });
+  });
+}
+
+/** Earlier accepted colours of a dye in the condition with exactly these values (none when no such condition exists yet). */
+export function earlierReplicates(db: Db, { dyeId, condition, excludeIds }: { dyeId: string; condition: ConditionInput; excludeIds?: string[] }) {
+  const conditionId = findCondition(db, condition);
+  return conditionId ? acceptedReplicates(db, { dyeId, conditionId, excludeIds }) : [];
+}
+
+/** For each measurement, the accepted colours of the same dye and condition other than itself. */
+export function earlierForMeasurements(db: Db, rows: { id: string; dyeId: string; conditionId: string }[]) {
+  const byKey = new Map<string, ReturnType<typeof acceptedReplicates>>();
+  const out = new Map<string, [number, number, number][]>();
+  for (const r of rows) {
+    const key = `${r.dyeId}|${r.conditionId}`;
+    if (!byKey.has(key)) byKey.set(key, acceptedReplicates(db, { dyeId: r.dyeId, conditionId: r.conditionId }));
+    out.set(
+      r.id,
+      byKey
+        .get(key)!
+        .filter((e) => e.id !== r.id)
+        .map((e) => [e.l, e.a, e.b]),
+    );
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------- colours measured with an instrument
+
+export type InstrumentColourToSave = {
+  dyeId: string;
+  condition: ConditionInput;
+  /** CIELAB D65 (already adapted when measured under D50), XYZ with Y of the white = 100, linear sRGB equivalent. */
+  lab: [number, number, number];
+  xyz: [number, number, number];
+  linearRgb: [number, number, number];
+  /** As sent, before adaptation, for the audit log. */
+  sent: { lab: [number, number, number]; whitePoint: string };
+  instrument: string;
+  uncertaintyDeltaE00: number | null;
+  flags: string[];
+  flagReason: string | null;
+};
+
+/**
+ * Saves colours measured with an instrument in one transaction, pending review like photographed
+ * ones, each with its condition (reused when identical) and an audit entry. Any failure saves nothing.
+ */
+export function saveInstrumentMeasurements(db: Db, { actorId, items }: { actorId: string; items: InstrumentColourToSave[] }): string[] {
+  return db.transaction((tx) => {
+    const ids: string[] = [];
+    for (const [i, v] of items.entries()) {
+      if (v.flags.length > 0 && !v.flagReason) {
+        throw new AppError("invalid_input", `Measurement ${i + 1} is flagged (${v.flags.join(", ")}); send flagReason saying why it should be kept, or measure again.`, { [`${i}.flagReason`]: ["Give a reason to keep a flagged measurement."] });
+      }
+      const id = `ms_${randomUUID()}`;
+      tx.insert(measurements)
+        .values({
+          id,
+          photoId: null,
+          region: null,
+          dyeId: v.dyeId,
+          conditionId: conditionFor(tx, actorId, v.condition),
+          lightingProfileId: null,
+          correctionKind: null,
+          correction: null,
+          referencePatches: null,
+          rawR: v.linearRgb[0],
+          rawG: v.linearRgb[1],
+          rawB: v.linearRgb[2],
+          x: v.xyz[0],
+          y: v.xyz[1],
+          z: v.xyz[2],
+          l: v.lab[0],
+          a: v.lab[1],
+          b: v.lab[2],
+          illuminant: "D65",
+          observer: "CIE 1931 2°",
+          pixelCount: 0,
+          rejectedCount: 0,
+          spread: 0,
+          uDeltaE00: v.uncertaintyDeltaE00,
+          flags: v.flags,
+          flagReason: v.flags.length ? v.flagReason : null,
+          instrument: v.instrument,
+          reviewState: "pending",
+          createdBy: actorId,
+        })
+        .run();
+      recordAudit(tx, {
+        actorId,
+        action: "measurement.create",
+        entity: "measurement",
+        entityId: id,
+        after: { dyeId: v.dyeId, lab: v.lab, sent: v.sent, instrument: v.instrument, flags: v.flags, flagReason: v.flagReason, uncertaintyDeltaE00: v.uncertaintyDeltaE00 },
+      });
+      ids.push(id);
+    }
+    return ids;
+  });
+}
+
+/**
+ * Checks colours measured with an instrument against the catalogue and the solvent table and brings
+ * them to D65 (lib/bench/instrument.ts); adds the replicate and lightness flags. One result per input,
+ * each either ready to save or with its problems named by field.
+ */
+export function prepareInstrumentMeasurements(db: Db, inputs: InstrumentMeasurement[]) {
+  const solventRows = db.select({ id: solvents.id, name: solvents.name, synonyms: solvents.synonyms }).from(solvents).all();
+  const dyeRows = db.select({ id: dyes.id, code: dyes.code }).from(dyes).all();
+  return inputs.map((v): { ok: true; item: InstrumentColourToSave } | { ok: false; errors: { field: string; message: string }[] } => {
+    const errors: { field: string; message: string }[] = [];
+    const q = v.dye.trim().toLowerCase();
+    const dye = dyeRows.find((d) => d.id === v.dye.trim() || d.code.toLowerCase() === q);
+    if (!dye) errors.push({ field: "dye", message: `No dye has the code or id “${v.dye}”; add it to the catalogue first.` });
+    const solvent = matchSolvent(solventRows, v.condition.solvent);
+    if (!solvent) errors.push({ field: "solvent", message: `“${v.condition.solvent}” is not in the solvent table; use a name or synonym from it, or ask an admin to add it.` });
+    const second = v.condition.secondSolvent ? matchSolvent(solventRows, v.condition.secondSolvent) : null;
+    if (v.condition.secondSolvent && !second) errors.push({ field: "secondSolvent", message: `“${v.condition.secondSolvent}” is not in the solvent table.` });
+    if (second && !(v.condition.secondSolventMoleFraction !== null && v.condition.secondSolventMoleFraction > 0 && v.condition.secondSolventMoleFraction < 1)) {
+      errors.push({ field: "secondSolventMoleFraction", message: "Give the second solvent's mole fraction, between 0 and 1." });
+    }
+    if (v.condition.additiveConcentrationMolL !== null && !v.condition.additive) errors.push({ field: "additive", message: "Name the acid or base whose amount you gave (e.g. HCl)." });
+    if (errors.length || !dye || !solvent) return { ok: false, errors };
+    const colour = instrumentColourToD65(v.lab, v.whitePoint);
+    const condition: ConditionInput = {
+      solventId: solvent.id,
+      acidBase: v.condition.acidBase,
+      ph: v.condition.pH,
+      concentrationUmolL: v.condition.concentrationUmolL,
+      additive: v.condition.additive,
+      additiveConcentrationMolL: v.condition.additiveConcentrationMolL,
+      temperatureC: v.condition.temperatureC,
+      pathLengthMm: v.condition.pathLengthMm,
+      secondSolventId: second?.id ?? null,
+      secondSolventMoleFraction: second ? v.condition.secondSolventMoleFraction : null,
+    };
+    const earlier = earlierReplicates(db, { dyeId: dye.id, condition });
+    const verdict = checkReplicate(colour.lab, earlier.map((e) => [e.l, e.a, e.b]), v.uncertaintyDeltaE00 ?? null);
+    return {
+      ok: true,
+      item: {
+        dyeId: dye.id,
+        condition,
+        lab: colour.lab,
+        xyz: colour.xyz,
+        linearRgb: colour.linearRgb,
+        sent: { lab: v.lab, whitePoint: v.whitePoint },
+        instrument: v.instrument,
+        uncertaintyDeltaE00: v.uncertaintyDeltaE00 ?? null,
+        flags: replicateFlags(colour.lab, verdict),
+        flagReason: v.flagReason || null,
+      },
+    };
   });
 }

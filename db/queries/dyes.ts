@@ -1,4 +1,6 @@
+import { randomUUID } from "node:crypto";
 import { and, desc, eq, sql } from "drizzle-orm";
+import { AppError } from "../../lib/errors";
 import type { Db } from "../connection";
 import { conditions, dyes, measurements, solvents, type Dye, type NewDye } from "../schema";
 import { recordAudit } from "./audit";
@@ -83,4 +85,55 @@ export function createDye(db: Db, { actorId, dye }: { actorId: string; dye: NewD
     recordAudit(tx, { actorId, action: "dye.create", entity: "dye", entityId: dye.id, after: dye });
   });
   return findDyeById(db, { id: dye.id });
+}
+
+/** Adds a dye with a new code (refused as a conflict when the code is taken), with its audit entry. */
+export function addDye(db: Db, { actorId, dye }: { actorId: string; dye: Omit<NewDye, "id" | "createdBy"> }): Dye {
+  return db.transaction((tx) => {
+    if (tx.select({ id: dyes.id }).from(dyes).where(sql`lower(${dyes.code}) = lower(${dye.code})`).get()) {
+      throw new AppError("conflict", `A dye with the code ${dye.code} is already in the catalogue; open it there, or choose another code.`, { code: ["This code is taken."] });
+    }
+    const id = `dye_${randomUUID()}`;
+    tx.insert(dyes).values({ ...dye, id, createdBy: actorId }).run();
+    const after = tx.select().from(dyes).where(eq(dyes.id, id)).get()!;
+    recordAudit(tx, { actorId, action: "dye.create", entity: "dye", entityId: id, after });
+    return after;
+  });
+}
+
+/** Changes a dye; a new code must be free. Returns undefined when no dye has that id. */
+export function changeDye(db: Db, { actorId, id, changes }: { actorId: string; id: string; changes: Partial<NewDye> }) {
+  if (changes.code) {
+    const taken = db.select({ id: dyes.id }).from(dyes).where(sql`lower(${dyes.code}) = lower(${changes.code})`).get();
+    if (taken && taken.id !== id) throw new AppError("conflict", `Another dye already has the code ${changes.code}; choose another.`, { code: ["This code is taken."] });
+  }
+  return updateDye(db, { actorId, id, changes });
+}
+
+/** Adds several dyes in one transaction (CSV import): all or nothing, one audit entry each. */
+export function addDyes(db: Db, { actorId, list }: { actorId: string; list: Omit<NewDye, "id" | "createdBy">[] }): number {
+  return db.transaction((tx) => {
+    for (const dye of list) {
+      if (tx.select({ id: dyes.id }).from(dyes).where(sql`lower(${dyes.code}) = lower(${dye.code})`).get()) {
+        throw new AppError("conflict", `A dye with the code ${dye.code} is already in the catalogue; nothing was imported.`);
+      }
+      const id = `dye_${randomUUID()}`;
+      tx.insert(dyes).values({ ...dye, id, createdBy: actorId }).run();
+      recordAudit(tx, { actorId, action: "dye.create", entity: "dye", entityId: id, after: { ...dye, imported: true } });
+    }
+    return list.length;
+  });
+}
+
+/** Which of these codes are already in the catalogue (any letter case). */
+export function existingDyeCodes(db: Db, codes: string[]): Set<string> {
+  const wanted = new Set(codes.map((c) => c.toLowerCase()));
+  return new Set(
+    db
+      .select({ code: dyes.code })
+      .from(dyes)
+      .all()
+      .map((d) => d.code.toLowerCase())
+      .filter((c) => wanted.has(c)),
+  );
 }

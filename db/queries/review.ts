@@ -52,3 +52,44 @@ export function reviewNotice(db: Db, { measurementId, reviewerId }: { measuremen
   if (!row || !reviewer) return null;
   return { ...row, reviewerName: reviewer.name };
 }
+
+/**
+ * Accepts every pending measurement of one photo that the reviewer did not make, in one transaction
+ * with an audit entry each. The reviewer's own measurements stay pending for someone else.
+ */
+export function acceptPhoto(db: Db, input: { reviewer: { id: string; role: Role }; photoId: string; note: string }) {
+  if (input.reviewer.role === "formulator") throw new AppError("forbidden", "Formulators read measurements but do not review them.");
+  return db.transaction((tx) => {
+    const pending = tx
+      .select({ id: measurements.id, createdBy: measurements.createdBy })
+      .from(measurements)
+      .where(and(eq(measurements.photoId, input.photoId), eq(measurements.reviewState, "pending")))
+      .all();
+    const theirs = pending.filter((m) => m.createdBy !== input.reviewer.id);
+    const own = pending.length - theirs.length;
+    if (theirs.length === 0) {
+      throw new AppError(
+        "conflict",
+        own > 0 ? "Every measurement waiting from this photo is your own; another chemist or an admin must review them." : "Nothing from this photo is waiting for review.",
+      );
+    }
+    const reviewedAt = new Date();
+    for (const m of theirs) {
+      const changed = tx
+        .update(measurements)
+        .set({ reviewState: "accepted", reviewedBy: input.reviewer.id, reviewedAt, reviewNote: input.note || null })
+        .where(and(eq(measurements.id, m.id), eq(measurements.reviewState, "pending")))
+        .run();
+      if (changed.changes !== 1) throw new AppError("conflict", "Someone else reviewed part of this photo a moment ago; reload and check again.");
+      recordAudit(tx, {
+        actorId: input.reviewer.id,
+        action: "measurement.accept",
+        entity: "measurement",
+        entityId: m.id,
+        before: { reviewState: "pending" },
+        after: { reviewState: "accepted", note: input.note, photoId: input.photoId, acceptedWithPhoto: true },
+      });
+    }
+    return { accepted: theirs.map((m) => ({ id: m.id, authorId: m.createdBy })), skippedOwn: own };
+  });
+}

@@ -26,6 +26,7 @@ import {
   photos,
   shortlistItems,
   shortlists,
+  solventPanels,
   solvents,
   spectra,
   users,
@@ -43,6 +44,8 @@ export const DEMO_USERS = [
   { id: "usr_demo_admin", email: "admin@demo.test", name: "Ada Okonkwo", role: "admin" as const },
   { id: "usr_demo_chemist", email: "chemist@demo.test", name: "Chidi Brennan", role: "chemist" as const },
   { id: "usr_demo_formulator", email: "formulator@demo.test", name: "Fenna Lindqvist", role: "formulator" as const },
+  // A second chemist, so the first has someone else's racks to review.
+  { id: "usr_demo_chemist2", email: "chemist2@demo.test", name: "Ines Marlowe", role: "chemist" as const },
 ];
 
 function count(db: Db, table: typeof users | typeof solvents): number {
@@ -164,7 +167,7 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
   const solventByName = new Map(solventRows.map((s) => [s.name, s]));
   const dyeList = demoDyes();
   const planned = plan(dyeList, solventByName, random);
-  const [admin, chemist, formulator] = DEMO_USERS;
+  const [admin, chemist, formulator, chemist2] = DEMO_USERS;
 
   // Profiles: the first light box until June 2026, the copy stand after. Each is fitted the way an
   // admin would: a photo of the calibration card under that light (the camera's response with a
@@ -229,6 +232,9 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
     const correction = profileDefs[profileIndex].fit.correction;
     const vials: LinearRgb[] = [];
     const photoId = `ph_demo_${String(r + 1).padStart(4, "0")}`;
+    // Every fourth rack is the second chemist's; the last rack is hers and still waits for review.
+    const lastRack = r === racks.length - 1;
+    const author = r % 4 === 1 || lastRack ? chemist2 : chemist;
     rack.items.forEach((item, slot) => {
       const { xyz } = demoColour(item.dye, { alpha: item.solvent.ktAlpha ?? 0, beta: item.solvent.ktBeta ?? 0, piStar: item.solvent.ktPiStar ?? 0, name: item.solvent.name }, item.pH);
       const sampleRgb = xyzD65ToLinearSrgb(xyz);
@@ -254,7 +260,7 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
       }
       serial++;
       const roll = random();
-      const state = roll < 0.86 ? "accepted" : roll < 0.95 ? "pending" : "rejected";
+      const state = lastRack ? "pending" : roll < 0.86 ? "accepted" : roll < 0.95 ? "pending" : "rejected";
       const flags = clipped ? ["out-of-gamut"] : [];
       measurementRows.push({
         id: `ms_demo_${String(serial).padStart(5, "0")}`,
@@ -283,7 +289,7 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
         reviewedBy: state === "pending" ? null : admin.id,
         reviewedAt: state === "pending" ? null : new Date(takenAt.getTime() + 3 * 3600 * 1000),
         reviewNote: state === "rejected" ? "Meniscus inside the region; please re-mark the vial lower." : null,
-        createdBy: chemist.id,
+        createdBy: author.id,
         createdAt: new Date(takenAt.getTime() + 20 * 60 * 1000),
       });
     });
@@ -301,7 +307,7 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
       exif: { make: "Demo", model: camera.name, takenAt: takenAt.toISOString(), orientation: 1 },
       originalName: `rack-${rack.dye.code}-${r + 1}.jpg`,
       lightingProfileId: profileDefs[profileIndex].row.id,
-      uploadedBy: chemist.id,
+      uploadedBy: author.id,
       takenAt,
       createdAt: new Date(takenAt.getTime() + 10 * 60 * 1000),
     });
@@ -399,6 +405,27 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
           .run();
       }
     }
+
+    // A saved solvent panel: the bench's usual eight-vial polarity ladder, neutral, 23 °C, 10 mm cells.
+    tx.insert(solventPanels)
+      .values({
+        id: "sp_demo_ladder",
+        name: "Polarity ladder, 8 vials",
+        entries: ["Water", "Methanol", "Ethanol", "Acetonitrile", "Dimethyl sulfoxide", "Acetone", "Dichloromethane", "Toluene"].map((name) => ({
+          solventId: solventByName.get(name)!.id,
+          acidBase: "neutral" as const,
+          ph: name === "Water" ? 7 : null,
+          concentrationUmolL: 20,
+          additive: "",
+          additiveConcentrationMolL: null,
+          temperatureC: 23,
+          pathLengthMm: 10,
+          secondSolventId: null,
+          secondSolventMoleFraction: null,
+        })),
+        createdBy: chemist.id,
+      })
+      .run();
 
     tx.insert(shortlists)
       .values({ id: "sl_demo_1", ownerId: formulator.id, name: "Solvent-sensing ink, first look", notes: "Violet in dipolar aprotic media, clearly different in alcohols." })

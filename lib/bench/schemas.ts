@@ -44,14 +44,65 @@ const optionalNumber = (min: number, max: number, what: string) =>
     .transform((v) => (v === undefined ? null : v))
     .refine((v) => v === null || (Number.isFinite(v) && v >= min && v <= max), { error: `${what} must be between ${min} and ${max}.` });
 
-export const vialSchema = z.object({
-  region: regionSchema,
-  dyeId: z.string({ error: "Choose the dye in this vial." }).min(1, { error: "Choose the dye in this vial." }).max(100),
-  solventId: z.string({ error: "Choose the solvent in this vial." }).min(1, { error: "Choose the solvent in this vial." }).max(100),
-  acidBase: z.enum(["acid", "neutral", "base"], { error: "Choose acid, neutral or base." }),
-  ph: optionalNumber(-2, 16, "pH"),
-  concentrationUmolL: optionalNumber(0.000001, 1e6, "The concentration (µmol/L)"),
-  flagReason: z.string().trim().max(1000).default(""),
+/**
+ * The condition fields a vial (or a place in a solvent panel) records, in the units of `conditions`:
+ * acid/base and the additive that made it (name and mol/L), pH, temperature (°C), path length (mm),
+ * a second solvent with its mole fraction x₂.
+ */
+export const conditionFieldsSchema = z
+  .object({
+    solventId: z.string({ error: "Choose the solvent in this vial." }).min(1, { error: "Choose the solvent in this vial." }).max(100),
+    acidBase: z.enum(["acid", "neutral", "base"], { error: "Choose acid, neutral or base." }),
+    ph: optionalNumber(-2, 16, "pH"),
+    concentrationUmolL: optionalNumber(0.000001, 1e6, "The concentration (µmol/L)"),
+    additive: z.string().trim().max(200, { error: "Name the acid or base in at most 200 characters." }).default(""),
+    additiveConcentrationMolL: optionalNumber(0, 20, "The amount of acid or base (mol/L)"),
+    temperatureC: optionalNumber(-100, 250, "The temperature (°C)"),
+    pathLengthMm: optionalNumber(0.01, 1000, "The path length (mm)"),
+    secondSolventId: z
+      .string()
+      .max(100)
+      .nullable()
+      .optional()
+      .transform((v) => v || null),
+    secondSolventMoleFraction: optionalNumber(0, 1, "The mole fraction of the second solvent"),
+  })
+  .refine((v) => !v.secondSolventId || (v.secondSolventMoleFraction !== null && v.secondSolventMoleFraction > 0 && v.secondSolventMoleFraction < 1), {
+    error: "Give the second solvent's mole fraction, between 0 and 1 (e.g. 0.25).",
+    path: ["secondSolventMoleFraction"],
+  })
+  .refine((v) => !v.secondSolventId || v.secondSolventId !== v.solventId, { error: "The second solvent must differ from the first.", path: ["secondSolventId"] })
+  .refine((v) => v.additiveConcentrationMolL === null || v.additive.length > 0, { error: "Name the acid or base whose amount you gave (e.g. HCl).", path: ["additive"] });
+
+export const vialSchema = z.intersection(
+  conditionFieldsSchema,
+  z.object({
+    region: regionSchema,
+    dyeId: z.string({ error: "Choose the dye in this vial." }).min(1, { error: "Choose the dye in this vial." }).max(100),
+    flagReason: z.string().trim().max(1000).default(""),
+  }),
+);
+
+export const panelSchema = z.object({
+  name: z.string().trim().min(1, { error: "Name the panel, e.g. “8 solvents, polarity ladder”." }).max(120),
+  entries: z.array(conditionFieldsSchema).min(1, { error: "Give every vial its solvent before saving them as a panel." }).max(200),
+});
+
+/** Live replicate check: each vial's colour with its dye and condition (nothing is stored). */
+export const replicateCheckSchema = z.object({
+  vials: z
+    .array(
+      z.intersection(
+        conditionFieldsSchema,
+        z.object({
+          key: z.string().max(64),
+          dyeId: z.string().min(1).max(100),
+          lab: z.tuple([z.number().finite(), z.number().finite(), z.number().finite()]),
+          uncertaintyDeltaE00: z.number().finite().nonnegative().nullable().optional(),
+        }),
+      ),
+    )
+    .max(200),
 });
 
 export const saveRequestSchema = z.object({

@@ -58,21 +58,21 @@ it("a chemist uploads a rack photo, marks four vials and the reference, sees liv
   await ref.getByLabel("Known a* of Reference 1").fill(white[1].toFixed(3));
   await ref.getByLabel("Known b* of Reference 1").fill(white[2].toFixed(3));
 
-  await marking.pickDye("Vial 1", "-107");
-  await marking.card("Vial 1").getByRole("button", { name: "Same dye in every vial" }).click();
+  await marking.pickSameDye("-107");
   for (let i = 0; i < 4; i++) {
     const option = await page.getByLabel(`Solvent in Vial ${i + 1}`).locator("option", { hasText: new RegExp(`^${SOLVENTS[i]} — `) }).getAttribute("value");
     await page.getByLabel(`Solvent in Vial ${i + 1}`).selectOption(option!);
   }
-  await page.getByLabel("Condition").first().selectOption("acid");
-  await page.getByLabel("pH (optional)").first().fill("3");
+  await page.getByLabel("Acid or base in Vial 1").selectOption("acid");
+  await marking.row("Vial 1").getByRole("button", { name: /pH, additive/ }).click();
+  await page.getByLabel("pH in Vial 1").fill("3");
 
   // Live colours: each vial's L*, a*, b* is within 1 ΔE*ab of the sRGB/CIELAB value of its paint.
   for (let i = 0; i < 4; i++) {
-    const lab = marking.card(`Vial ${i + 1}`).getByTestId("live-lab");
+    const lab = marking.row(`Vial ${i + 1}`).getByTestId("live-lab");
     await lab.waitFor();
     await expect.poll(async () => {
-      const m = /L\* (-?[\d.]+) a\* (-?[\d.]+) b\* (-?[\d.]+)/.exec(await lab.innerText());
+      const m = /L\* (-?[\d.]+)\s+a\* (-?[\d.]+) b\* (-?[\d.]+)/.exec(await lab.innerText());
       return m ? deltaE76([+m[1], +m[2], +m[3]], labOf8(VIALS[i])) : 99;
     }, { timeout: 15_000 }).toBeLessThan(1);
   }

@@ -29,3 +29,16 @@ export const labOf8 = (c: readonly number[]) => labOfLinear(c.map(srgbDecode8));
 
 /** Euclidean ΔE*ab (CIE 1976), enough for closeness checks. */
 export const deltaE76 = (p: readonly number[], q: readonly number[]) => Math.hypot(p[0] - q[0], p[1] - q[1], p[2] - q[2]);
+
+/** The inverse of labOfLinear (CIE 015:2018 §8.2.1 inverted; the sRGB matrix inverted by Cramer's rule): CIELAB → linear sRGB. */
+export function linearOfLab(lab: readonly number[]): [number, number, number] {
+  const white = M.map((row) => row[0] + row[1] + row[2]);
+  const fy = (lab[0] + 16) / 116;
+  const fx = fy + lab[1] / 500;
+  const fz = fy - lab[2] / 200;
+  const finv = (t: number) => (t > 6 / 29 ? t ** 3 : 3 * (6 / 29) ** 2 * (t - 4 / 29));
+  const xyz = [fx, fy, fz].map((t, i) => finv(t) * white[i]);
+  const det = (m: number[][]) => m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0]) + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
+  const d = det(M);
+  return [0, 1, 2].map((c) => det(M.map((row, i) => row.map((v, j) => (j === c ? xyz[i] : v)))) / d) as [number, number, number];
+}

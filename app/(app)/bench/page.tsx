@@ -26,6 +26,11 @@ export default async function BenchPage() {
       <PageHeader
         title="Bench"
         lead="Upload rack photos, then mark each vial and the white or grey reference on them. Colours are measured on the stored photo, corrected for the light, and wait for a second person's review."
+        actions={
+          <Link href="/bench/import" className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold">
+            Import from CSV
+          </Link>
+        }
       />
       <div className="mb-4 grid gap-4 lg:grid-cols-2">
         <SafetyNotice />

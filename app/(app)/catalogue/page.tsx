@@ -6,14 +6,14 @@ import { listDyes } from "@/db/queries/dyes";
 import { PageHeader } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
-import { ANY_ROLE } from "@/lib/auth/roles";
+import { ANY_ROLE, BENCH_ROLES, hasRole } from "@/lib/auth/roles";
 import type { Lab } from "@/lib/color/types";
 import { searchDyesByText } from "@/lib/search/text";
 
 export const metadata: Metadata = { title: "Catalogue" };
 
 export default async function CataloguePage({ searchParams }: { searchParams: Promise<{ q?: string }> }) {
-  await pageAccess(ANY_ROLE);
+  const { user } = await pageAccess(ANY_ROLE);
   const { q = "" } = await searchParams;
   const handle = db();
   const all = listDyes(handle);
@@ -30,6 +30,13 @@ export default async function CataloguePage({ searchParams }: { searchParams: Pr
     <>
       <PageHeader
         title="Catalogue"
+        actions={
+          user && hasRole(user.role, BENCH_ROLES) ? (
+            <Link href="/catalogue/new" className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-white">
+              Add a dye
+            </Link>
+          ) : undefined
+        }
         lead={q ? `${dyes.length} dyes match “${q}” (typo-tolerant over names, codes, synonyms, CAS numbers, classes and notes).` : `${all.length} dyes. The strip shows each dye's colour in neutral solvents from least to most polar (ETN).`}
       />
       <form className="mb-4 flex max-w-xl gap-2" role="search">

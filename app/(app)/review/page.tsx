@@ -1,7 +1,11 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { db } from "@/db/client";
-import { reviewQueue } from "@/db/queries/bench";
+import { earlierForMeasurements, photoMeasurements, reviewQueue } from "@/db/queries/bench";
+import { getPhoto } from "@/db/queries/photos";
+import { SavedMarking } from "@/components/bench/saved-marking";
+import { AcceptPhoto } from "@/components/review/accept-photo";
+import { ReplicateCompare } from "@/components/review/replicate-compare";
 import { ReviewButtons } from "@/components/review/review-buttons";
 import { Badge, PageHeader } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
@@ -32,7 +36,12 @@ export default async function ReviewPage({ searchParams }: { searchParams: Promi
   const { user, allowed } = await pageAccess(BENCH_ROLES);
   if (!allowed) return <Refused user={user} allowed={BENCH_ROLES} area="Review" />;
   const { photoId } = await searchParams;
-  const queue = reviewQueue(db(), { limit: 100, photoId: photoId || undefined });
+  const handle = db();
+  const queue = reviewQueue(handle, { limit: 100, photoId: photoId || undefined });
+  const earlier = earlierForMeasurements(handle, queue.map(({ m }) => ({ id: m.id, dyeId: m.dyeId, conditionId: m.conditionId })));
+  const photo = photoId ? getPhoto(handle, photoId) : undefined;
+  const saved = photo ? photoMeasurements(handle, { photoId: photo.id }) : [];
+  const number = new Map(saved.map(({ m }, i) => [m.id, i + 1]));
   return (
     <>
       <PageHeader
@@ -48,6 +57,20 @@ export default async function ReviewPage({ searchParams }: { searchParams: Promi
           </Link>
         )}
       </p>
+      {photo && (
+        <section className="mb-4 grid gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]" aria-label="The photo with its saved regions">
+          <SavedMarking
+            photo={{ id: photo.id, width: photo.width, height: photo.height, name: photo.originalName || photo.id }}
+            regions={saved.filter(({ m }) => m.region).map(({ m }, i) => ({ id: m.id, label: String(number.get(m.id) ?? i + 1), region: m.region!, state: m.reviewState, flagged: m.flags.length > 0 }))}
+          />
+          <div className="space-y-2">
+            <p className="text-sm">
+              {saved.length} measurement{saved.length === 1 ? "" : "s"} saved from this photo; {queue.total} waiting. Compare each numbered region with its card below before accepting.
+            </p>
+            <AcceptPhoto photoId={photo.id} theirs={queue.filter(({ m }) => m.createdBy !== user.id).length} own={queue.filter(({ m }) => m.createdBy === user.id).length} />
+          </div>
+        </section>
+      )}
       {queue.length === 0 ? (
         <p className="rounded-xl border border-line bg-white p-6 text-sm">Nothing is waiting for review.</p>
       ) : (
@@ -60,21 +83,24 @@ export default async function ReviewPage({ searchParams }: { searchParams: Promi
                 {photo?.id && m.region && <RegionCrop photo={photo} region={m.region} />}
                 <div className="min-w-56 flex-1 text-sm">
                   <p className="font-semibold">
+                    {number.has(m.id) && <span className="mr-1 rounded bg-ink px-1.5 text-xs text-white">{number.get(m.id)}</span>}
                     {dye.code} · {dye.name}
                   </p>
                   <p className="text-ink-soft">
                     {solvent.name}, {condition.acidBase}
                     {condition.ph !== null ? `, pH ${condition.ph}` : ""}
-                    {condition.concentrationUmolL !== null ? `, ${condition.concentrationUmolL} µmol/L` : ""} · L* {lch[0].toFixed(1)} C* {lch[1].toFixed(1)} h {lch[2].toFixed(0)}° · by {author}
+                    {condition.concentrationUmolL !== null ? `, ${condition.concentrationUmolL} µmol/L` : ""} · L* {lch[0].toFixed(1)} C* {lch[1].toFixed(1)} h° {lch[2].toFixed(0)}
+                    {m.uDeltaE00 !== null ? ` ± ${m.uDeltaE00.toFixed(2)} ΔE00` : ""} · by {author}
                     {photo?.id && (
                       <>
                         {" · "}
-                        <Link href={`/bench/photos/${photo.id}`} className="text-accent underline">
-                          photo
+                        <Link href={`/review?photoId=${photo.id}`} className="text-accent underline">
+                          regions on the photo
                         </Link>
                       </>
                     )}
                   </p>
+                  <ReplicateCompare lab={[m.l, m.a, m.b]} uncertaintyDeltaE00={m.uDeltaE00} earlier={earlier.get(m.id) ?? []} />
                   {m.flags.length > 0 && (
                     <p className="mt-1 flex flex-wrap gap-1">
                       {m.flags.map((f) => (

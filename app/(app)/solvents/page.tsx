@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import { db } from "@/db/client";
 import { listSolvents } from "@/db/queries/solvents";
 import { Badge, PageHeader } from "@/components/ui/card";
@@ -39,6 +40,13 @@ export default async function SolventsPage({ searchParams }: { searchParams: Pro
     <>
       <PageHeader
         title="Solvents"
+        actions={
+          user.role === "admin" ? (
+            <Link href="/solvents/new" className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-white">
+              Add a solvent
+            </Link>
+          ) : undefined
+        }
         lead="Published polarity parameters of the solvent panel. Hover a value for its source. ETN = (ET(30) − 30.7)/32.4 (Reichardt). Medium class by common practice: O–H/N–H donors are protic; aprotic solvents with εr ≥ 5 are dipolar aprotic."
       />
       <div className="mb-4">

@@ -1,8 +1,10 @@
 import { z } from "zod";
 import { db } from "@/db/client";
-import { listDyesCached } from "@/db/queries/dyes";
+import { addDye, listDyesCached } from "@/db/queries/dyes";
 import { apiRoute } from "@/lib/auth/guard";
-import { ANY_ROLE } from "@/lib/auth/roles";
+import { ANY_ROLE, BENCH_ROLES } from "@/lib/auth/roles";
+import { dyeCreateJsonSchema } from "@/lib/validation/dye";
+import { dyeJson } from "./serialize";
 import { searchDyesByText } from "@/lib/search/text";
 
 const query = z.object({
@@ -25,4 +27,10 @@ export const GET = apiRoute({ access: ANY_ROLE, query }, async ({ query }) => {
       measurements: d.acceptedCount,
     })),
   };
+});
+
+/** Adds a dye (chemists, admins): the catalogue form's checks, a free code, an audit entry. */
+export const POST = apiRoute({ access: BENCH_ROLES, body: dyeCreateJsonSchema }, async ({ body, user }) => {
+  const dye = addDye(db(), { actorId: user.id, dye: body });
+  return Response.json({ dye: dyeJson(dye) }, { status: 201 });
 });

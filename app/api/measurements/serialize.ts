@@ -25,6 +25,7 @@ export function measurementJson(r: MeasurementRow) {
     correction: m.correctionKind ? { kind: m.correctionKind, values: m.correction ?? [] } : null,
     lightingProfile: r.profile?.id ? r.profile : null,
     photoId: m.photoId,
+    instrument: m.instrument,
     region: m.region,
     pixels: m.pixelCount,
     rejected: m.rejectedCount,

@@ -29,8 +29,21 @@ export class MarkingPage {
     await this.page.mouse.up();
   }
 
+  /** A reference's card (references are listed under the rack table). */
   card(label: string): Locator {
     return this.page.getByTestId("region-card").and(this.page.locator(`[data-label="${label}"]`));
+  }
+
+  /** A vial's row in the rack table. */
+  row(label: string): Locator {
+    return this.page.getByTestId("vial-row").and(this.page.locator(`[data-label="${label}"]`));
+  }
+
+  async pickSameDye(query: string) {
+    const input = this.page.getByRole("combobox", { name: "Same dye for every vial" });
+    await input.click();
+    await input.fill(query);
+    await this.page.getByRole("listbox", { name: "Same dye for every vial: matching dyes" }).getByRole("option").first().click();
   }
 
   async pickDye(label: string, query: string) {

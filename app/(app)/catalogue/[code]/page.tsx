@@ -9,6 +9,7 @@ import { AbPlane, type PlanePoint } from "@/components/catalogue/ab-plane";
 import { TitrationSection } from "@/components/acid-base/titration-section";
 import { SpectraSection } from "@/components/spectra/spectra-section";
 import { DyeEditForm } from "@/components/catalogue/dye-edit-form";
+import { ReplicateGroups } from "@/components/bench/replicate-groups";
 import { AddToShortlistForm, CreateShortlistForm } from "@/components/shortlists/shortlist-forms";
 import { ButtonLink } from "@/components/ui/button";
 import { listShortlists } from "@/db/queries/shortlists";
@@ -201,6 +202,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
         </Card>
         <TitrationSection db={handle} dyeId={dye.id} />
         <SpectraSection db={handle} dyeId={dye.id} />
+        <ReplicateGroups rows={accepted} />
         <Card title="Measurements" className="lg:col-span-2">
           <div className="max-h-96 overflow-auto">
             <table className="w-full text-left text-sm">

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { db } from "@/db/client";
-import { listCalibrationTargets, listRackTemplates, photoMeasurements } from "@/db/queries/bench";
+import { listCalibrationTargets, listRackTemplates, listSolventPanels, photoMeasurements } from "@/db/queries/bench";
 import { listDyes } from "@/db/queries/dyes";
 import { benchProfiles } from "@/db/queries/lighting";
 import { labD50ToLabD65 } from "@/lib/color/convert";
@@ -11,6 +11,7 @@ import { listSolvents } from "@/db/queries/solvents";
 import { MarkingEditor } from "@/components/bench/marking-editor";
 import { PhotoFileMissing } from "@/components/bench/photo-file-missing";
 import { objectStore } from "@/lib/storage";
+import { SavedMarking } from "@/components/bench/saved-marking";
 import { Badge, Card, PageHeader } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import { Refused } from "@/components/shell/refused";
@@ -39,6 +40,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
   const dyes = listDyes(handle).map((d) => ({ id: d.id, code: d.code, name: d.name, synonyms: d.synonyms, dyeClass: d.dyeClass }));
   const solvents = listSolvents(handle).map((s) => ({ id: s.id, name: s.name, medium: s.medium, cautions: s.cautions }));
   const templates = listRackTemplates(handle).map((t) => ({ id: t.id, name: t.name, regions: t.regions }));
+  const panels = listSolventPanels(handle).map((p) => ({ id: p.id, name: p.name, entries: p.entries }));
   const existing = photoMeasurements(handle, { photoId: photo.id });
   const fileMissing = !(await objectStore().has(photo.storageKey));
   return (
@@ -63,17 +65,24 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
         profiles={profiles}
         templates={templates}
         patches={patches}
+        panels={panels}
       />
       )}
       <Card title={`Measured in this photo (${existing.length})`} className="mt-6">
         {existing.length === 0 ? (
           <p className="text-sm text-ink-soft">Nothing saved from this photo yet.</p>
         ) : (
-          <ul className="divide-y divide-line" data-testid="saved-measurements">
-            {existing.map(({ m, dye, solvent, condition, author }) => {
+          <div className="grid gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
+          <SavedMarking
+            photo={{ id: photo.id, width: photo.width, height: photo.height, name: photo.originalName || photo.id }}
+            regions={existing.filter(({ m }) => m.region).map(({ m }, i) => ({ id: m.id, label: String(i + 1), region: m.region!, state: m.reviewState, flagged: m.flags.length > 0 }))}
+          />
+          <ol className="divide-y divide-line" data-testid="saved-measurements">
+            {existing.map(({ m, dye, solvent, condition, author }, i) => {
               const lch = labToLch([m.l, m.a, m.b]);
               return (
                 <li key={m.id} className="flex flex-wrap items-center gap-3 py-2 text-sm">
+                  <span className="rounded bg-ink px-1.5 text-xs font-semibold text-white">{i + 1}</span>
                   <Swatch lab={[m.l, m.a, m.b]} />
                   <span className="font-semibold">
                     {dye.code} · {dye.name}
@@ -83,7 +92,8 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
                     {condition.ph !== null ? `, pH ${condition.ph}` : ""}
                   </span>
                   <span className="tabular-nums text-ink-soft">
-                    L* {m.l.toFixed(1)} a* {m.a.toFixed(1)} b* {m.b.toFixed(1)} · C* {lch[1].toFixed(1)} h° {lch[2].toFixed(0)}
+                    L* {m.l.toFixed(1)} a* {m.a.toFixed(1)} b* {m.b.toFixed(1)} · C* {lch[1].toFixed(1)} h° {lch[2].toFixed(0)} ·{" "}
+                    <span data-testid="saved-uncertainty">{m.uDeltaE00 !== null ? `± ${m.uDeltaE00.toFixed(2)} ΔE00` : "± —"}</span>
                   </span>
                   <Badge tone={m.reviewState === "accepted" ? "ok" : m.reviewState === "rejected" ? "bad" : "neutral"}>{m.reviewState}</Badge>
                   <span className="text-ink-soft">by {author}</span>
@@ -95,7 +105,8 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
                 </li>
               );
             })}
-          </ul>
+          </ol>
+          </div>
         )}
       </Card>
     </>

@@ -1,0 +1,87 @@
+"use server";
+
+import { revalidatePath } from "next/cache";
+import { z } from "zod";
+import { db } from "@/db/client";
+import { prepareInstrumentMeasurements, saveInstrumentMeasurements, type InstrumentColourToSave } from "@/db/queries/bench";
+import { addDyes, existingDyeCodes } from "@/db/queries/dyes";
+import { formAction } from "@/lib/auth/guard";
+import { BENCH_ROLES } from "@/lib/auth/roles";
+import { AppError } from "@/lib/errors";
+import { checkDyeRows, checkMeasurementRows, measurementColumn, parseCsv, type RowProblem } from "@/lib/import/csv";
+
+const importSchema = z.object({
+  kind: z.enum(["dyes", "measurements"], { error: "Choose what the file holds: dyes or measurements." }),
+  csv: z.string().min(1, { error: "Choose a CSV file first." }).max(5_000_000, { error: "The file is larger than 5 MB; split it into smaller files." }),
+  mode: z.enum(["preview", "all", "good"]).default("preview"),
+});
+
+/**
+ * Checks a CSV file row by row and, when asked, stores it: "all" stores nothing unless every row is
+ * good; "good" stores the good rows only (the person chose to). Every write is one transaction.
+ */
+export const importCsvAction = formAction({ access: BENCH_ROLES, schema: importSchema }, async ({ kind, csv, mode }, { user }) => {
+  const { rows, fileProblem } = parseCsv(csv, kind);
+  if (fileProblem) throw new AppError("invalid_input", fileProblem);
+  if (rows.length > 5000) throw new AppError("invalid_input", `The file has ${rows.length} rows; import at most 5000 at a time.`);
+  const handle = db();
+  const problems: RowProblem[] = [];
+  let preview: Record<string, unknown>[] = [];
+  let good = 0;
+  let store: () => number = () => 0;
+
+  if (kind === "dyes") {
+    const checked = checkDyeRows(rows);
+    const taken = existingDyeCodes(handle, checked.flatMap((r) => (r.value ? [r.value.code] : [])));
+    for (const r of checked) {
+      if (r.value && taken.has(r.value.code.toLowerCase())) {
+        r.problems.push({ line: r.line, column: "code", message: `A dye with the code ${r.value.code} is already in the catalogue.` });
+        r.value = null;
+      }
+      problems.push(...r.problems);
+    }
+    const ok = checked.filter((r) => r.value);
+    good = ok.length;
+    preview = ok.slice(0, 20).map((r) => ({ line: r.line, code: r.value!.code, name: r.value!.name, class: r.value!.dyeClass, casNumber: r.value!.casNumber, molarMass: r.value!.molarMass }));
+    store = () => addDyes(handle, { actorId: user.id, list: ok.map((r) => r.value!) });
+  } else {
+    const checked = checkMeasurementRows(rows);
+    const valid = checked.filter((r) => r.value);
+    const prepared = prepareInstrumentMeasurements(handle, valid.map((r) => r.value!));
+    const items: { line: number; item: InstrumentColourToSave }[] = [];
+    valid.forEach((r, i) => {
+      const p = prepared[i];
+      if (!p.ok) r.problems.push(...p.errors.map((e) => ({ line: r.line, column: measurementColumn(e.field === "dye" ? ["dye"] : ["condition", e.field]), message: e.message })));
+      else if (p.item.flags.length && !p.item.flagReason) {
+        r.problems.push({ line: r.line, column: "flag_reason", message: `This colour is flagged (${p.item.flags.join(", ")}); say in flag_reason why it should be kept.` });
+      } else items.push({ line: r.line, item: p.item });
+    });
+    for (const r of checked) problems.push(...r.problems);
+    good = items.length;
+    preview = items.slice(0, 20).map(({ line, item }) => ({ line, lab: item.lab.map((v) => Math.round(v * 100) / 100), sent: item.sent, flags: item.flags, instrument: item.instrument }));
+    store = () => saveInstrumentMeasurements(handle, { actorId: user.id, items: items.map((i) => i.item) }).length;
+  }
+
+  problems.sort((a, b) => a.line - b.line);
+  const summary = { rows: rows.length, good, problems: problems.slice(0, 200), moreProblems: Math.max(0, problems.length - 200), preview };
+  if (mode === "preview") {
+    return {
+      ok: true,
+      message: problems.length
+        ? `${rows.length} rows checked: ${good} good, ${rows.length - good} with problems (listed by line and column). Nothing is stored yet.`
+        : `${rows.length} rows checked, all good. Nothing is stored until you import.`,
+      data: summary,
+    };
+  }
+  if (mode === "all" && problems.length) {
+    throw new AppError("invalid_input", `Nothing was stored: ${rows.length - good} of ${rows.length} rows have problems. The first is line ${problems[0].line}, column ${problems[0].column}: ${problems[0].message}`);
+  }
+  if (good === 0) throw new AppError("invalid_input", "Nothing was stored: no row is good.");
+  const n = store();
+  revalidatePath(kind === "dyes" ? "/catalogue" : "/review");
+  return {
+    ok: true,
+    message: `Imported ${n} ${kind === "dyes" ? (n === 1 ? "dye" : "dyes") : n === 1 ? "measurement; it waits" : "measurements; they wait"}${kind === "dyes" ? "" : " for review"}.${mode === "good" && problems.length ? ` ${rows.length - good} rows with problems were left out.` : ""}`,
+    data: { ...summary, imported: n },
+  };
+});

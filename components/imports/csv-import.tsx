@@ -1,0 +1,132 @@
+"use client";
+
+import { useActionState, useState } from "react";
+import { importCsvAction } from "@/app/actions/imports";
+import { DYE_COLUMNS, MEASUREMENT_COLUMNS } from "@/lib/import/columns";
+
+type Summary = { rows: number; good: number; problems: { line: number; column: string; message: string }[]; moreProblems: number; preview: Record<string, unknown>[]; imported?: number };
+
+/** Choose a CSV, see every row checked (problems by line and column), then import all of it or only its good rows. */
+export function CsvImport() {
+  const [kind, setKind] = useState<"dyes" | "measurements">("measurements");
+  const [csv, setCsv] = useState("");
+  const [fileName, setFileName] = useState("");
+  const [state, action, pending] = useActionState(importCsvAction, null);
+  const summary = (state?.data as Summary | undefined) ?? null;
+  const checked = summary && summary.imported === undefined;
+  return (
+    <div className="space-y-4">
+      <form action={action} className="space-y-3 rounded-lg border border-line bg-white p-4">
+        <fieldset className="flex flex-wrap gap-4 text-sm">
+          <legend className="mb-1 font-semibold">The file holds</legend>
+          {(["measurements", "dyes"] as const).map((k) => (
+            <label key={k} className="flex items-center gap-2">
+              <input type="radio" name="kind" value={k} checked={kind === k} onChange={() => setKind(k)} />
+              {k === "dyes" ? "dyes for the catalogue" : "colours measured with an instrument (CIELAB)"}
+            </label>
+          ))}
+        </fieldset>
+        <p className="text-xs text-ink-soft">
+          Columns (header row, any order): <code>{(kind === "dyes" ? DYE_COLUMNS : MEASUREMENT_COLUMNS).join(",")}</code>.{" "}
+          {kind === "dyes"
+            ? "code, name and class are needed; synonyms separated by semicolons."
+            : "dye (code), solvent (name or synonym), L, a, b, white_point (D65 or D50) and instrument are needed; observer is the CIE 1931 2° one (write 2); D50 colours are adapted to D65 (Bradford). Imported colours wait for review."}
+        </p>
+        <div>
+          <label htmlFor="csv-file" className="block text-sm font-semibold">
+            CSV file
+          </label>
+          <input
+            id="csv-file"
+            type="file"
+            accept=".csv,text/csv"
+            data-testid="csv-file"
+            onChange={async (e) => {
+              const f = e.target.files?.[0];
+              setFileName(f?.name ?? "");
+              setCsv(f ? await f.text() : "");
+            }}
+            className="mt-1 block text-sm"
+          />
+        </div>
+        <input type="hidden" name="csv" value={csv} />
+        <div className="flex flex-wrap gap-2">
+          <button name="mode" value="preview" disabled={pending || !csv} className="min-h-11 rounded-md border border-line bg-white px-4 text-sm font-semibold disabled:opacity-40">
+            Check the file
+          </button>
+          {checked && (
+            <>
+              <button name="mode" value="all" disabled={pending || summary.problems.length > 0} className="min-h-11 rounded-md bg-accent px-4 text-sm font-semibold text-white disabled:opacity-40">
+                Import all {summary.rows} rows
+              </button>
+              {summary.problems.length > 0 && summary.good > 0 && (
+                <button name="mode" value="good" disabled={pending} className="min-h-11 rounded-md border border-accent px-4 text-sm font-semibold text-accent disabled:opacity-40">
+                  Import only the {summary.good} good rows
+                </button>
+              )}
+            </>
+          )}
+        </div>
+        {state && (
+          <p role={state.ok ? "status" : "alert"} className={`text-sm ${state.ok ? "text-ok" : "text-bad"}`} data-testid="import-message">
+            {fileName && `${fileName}: `}
+            {state.message}
+          </p>
+        )}
+      </form>
+      {summary && summary.problems.length > 0 && (
+        <section aria-label="Problems by line" className="rounded-lg border border-bad/40 bg-white p-4">
+          <h2 className="mb-2 text-sm font-semibold text-bad">Problems ({summary.problems.length + summary.moreProblems})</h2>
+          <table className="w-full text-left text-sm" data-testid="import-problems">
+            <thead className="text-xs text-ink-soft">
+              <tr>
+                <th className="py-1 pr-3">Line</th>
+                <th className="py-1 pr-3">Column</th>
+                <th className="py-1">Problem</th>
+              </tr>
+            </thead>
+            <tbody>
+              {summary.problems.map((p, i) => (
+                <tr key={i} className="border-t border-line align-top" data-testid="import-problem">
+                  <td className="py-1 pr-3 tabular-nums">{p.line}</td>
+                  <td className="py-1 pr-3 font-mono text-xs">{p.column}</td>
+                  <td className="py-1">{p.message}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          {summary.moreProblems > 0 && <p className="mt-1 text-xs text-ink-soft">and {summary.moreProblems} more; fix these first.</p>}
+        </section>
+      )}
+      {summary && summary.preview.length > 0 && (
+        <section aria-label="Preview of the good rows" className="overflow-x-auto rounded-lg border border-line bg-white p-4">
+          <h2 className="mb-2 text-sm font-semibold">
+            {summary.imported !== undefined ? "Imported" : "Good rows"} (first {summary.preview.length}){kind === "measurements" ? ": CIELAB D65 as stored" : ""}
+          </h2>
+          <table className="w-full text-left text-xs">
+            <thead className="text-ink-soft">
+              <tr>
+                {Object.keys(summary.preview[0]).map((k) => (
+                  <th key={k} className="py-1 pr-3">
+                    {k}
+                  </th>
+                ))}
+              </tr>
+            </thead>
+            <tbody>
+              {summary.preview.map((row, i) => (
+                <tr key={i} className="border-t border-line">
+                  {Object.values(row).map((v, j) => (
+                    <td key={j} className="py-1 pr-3 font-mono">
+                      {typeof v === "object" ? JSON.stringify(v) : String(v ?? "—")}
+                    </td>
+                  ))}
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </section>
+      )}
+    </div>
+  );
+}
