@@ -123,7 +123,7 @@ export function MeasurementsTable(props: { rows: TableRow[]; total: number; page
       </div>
       <div className="overflow-x-auto">
         <table className="w-full text-left text-sm">
-          <thead className="bg-paper-deep/50 text-xs uppercase tracking-wide text-ink-soft">
+          <thead className="bg-paper-deep/50 text-xs text-ink-soft">
             {table.getHeaderGroups().map((group) => (
               <tr key={group.id}>
                 {group.headers.map((header) => {
@@ -132,7 +132,7 @@ export function MeasurementsTable(props: { rows: TableRow[]; total: number; page
                   return (
                     <th key={header.id} scope="col" className="whitespace-nowrap px-3 py-2" aria-sort={state ? (state === "desc" ? "descending" : "ascending") : undefined}>
                       {sortable ? (
-                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex min-h-11 items-center gap-1 font-semibold uppercase hover:text-ink">
+                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex min-h-11 items-center gap-1 font-semibold hover:text-ink">
                           {flexRender(header.column.columnDef.header, header.getContext())}
                           <span aria-hidden>{state === "asc" ? "▲" : state === "desc" ? "▼" : "↕"}</span>
                         </button>

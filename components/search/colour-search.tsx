@@ -11,6 +11,7 @@ import type { Lab } from "@/lib/color/types";
 import { COLOUR_WORDS } from "@/lib/search/colour-words";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
+import { count } from "@/lib/text/count";
 
 type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
@@ -149,11 +150,11 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
       {hasTarget && answer && (
         <Card
           className="mt-4"
-          title={`${answer.results.length} dyes, closest first${answer.target.word ? ` (colours called “${answer.target.word}”)` : ""}`}
+          title={`${count(answer.results.length, "dye")}, closest first${answer.target.word ? ` (colours called “${answer.target.word}”)` : ""}`}
           actions={
             selected.length >= 2 ? (
               <ButtonLink href={`/compare?dyes=${selected.map(encodeURIComponent).join(",")}`} variant="primary">
-                Compare {selected.length} dyes
+                Compare {count(selected.length, "dye")}
               </ButtonLink>
             ) : (
               <span className="text-sm text-ink-soft">Tick 2–6 dyes to compare them</span>

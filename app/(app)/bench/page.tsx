@@ -33,7 +33,7 @@ export default async function BenchPage() {
       <Card title={`Rack photos (${photos.length} most recent)`}>
         <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
-            <thead className="text-xs uppercase text-ink-soft">
+            <thead className="text-xs text-ink-soft">
               <tr>
                 <th className="py-2 pr-3">Photo</th>
                 <th className="py-2 pr-3">File</th>

@@ -46,7 +46,7 @@ export default async function SolventsPage({ searchParams }: { searchParams: Pro
       </div>
       <div className="overflow-x-auto rounded-xl border border-line bg-white">
         <table className="w-full text-sm">
-          <thead className="border-b border-line bg-paper-deep/50 text-xs uppercase tracking-wide text-ink-soft">
+          <thead className="border-b border-line bg-paper-deep/50 text-xs text-ink-soft">
             <tr>
               <th className="px-3 py-3 text-left">
                 <a href="?sort=name">Solvent</a>

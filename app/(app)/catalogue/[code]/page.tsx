@@ -18,6 +18,7 @@ import { ANY_ROLE, BENCH_ROLES, hasRole } from "@/lib/auth/roles";
 import { labToLch } from "@/lib/color/lab";
 import type { Lab } from "@/lib/color/types";
 import { MEDIUM_LABELS, type MediumClass } from "@/lib/solvents/parameters";
+import { count } from "@/lib/text/count";
 
 const SCALES = {
   et30: { label: "ET(30)", pick: (s: { et30: number | null }) => s.et30 },
@@ -194,7 +195,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
         <Card title="Measurements" className="lg:col-span-2">
           <div className="max-h-96 overflow-auto">
             <table className="w-full text-left text-sm">
-              <thead className="sticky top-0 bg-white text-xs uppercase text-ink-soft">
+              <thead className="sticky top-0 bg-white text-xs text-ink-soft">
                 <tr>
                   <th className="py-2 pr-2"> </th>
                   <th className="py-2 pr-2">Solvent</th>
@@ -240,7 +241,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
                 <li key={p.id} className="rounded-lg border border-line p-2">
                   <p className="font-medium">{p.name || p.id}</p>
                   <p className="text-ink-soft">
-                    {(p.takenAt ?? p.createdAt).toISOString().slice(0, 10)} · {p.profile ?? "no lighting profile"} · {perPhoto.get(p.id) ?? 0} vials of this dye
+                    {(p.takenAt ?? p.createdAt).toISOString().slice(0, 10)} · {p.profile ?? "no lighting profile"} · {count(perPhoto.get(p.id) ?? 0, "vial")} of this dye
                   </p>
                 </li>
               ))}

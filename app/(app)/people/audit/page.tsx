@@ -28,7 +28,7 @@ export default async function AuditPage() {
       <AdminTabs current="/people/audit" />
       <div className="overflow-x-auto rounded-xl border border-line bg-white">
         <table className="w-full text-left text-xs">
-          <thead className="border-b border-line bg-paper-deep/50 uppercase text-ink-soft">
+          <thead className="border-b border-line bg-paper-deep/50 text-ink-soft">
             <tr>
               <th className="px-3 py-2">When (UTC)</th>
               <th className="px-3 py-2">Who</th>

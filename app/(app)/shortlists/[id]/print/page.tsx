@@ -8,6 +8,7 @@ import { Swatch } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import type { Lab } from "@/lib/color/types";
+import { count } from "@/lib/text/count";
 
 export const metadata: Metadata = { title: "Shortlist (print)" };
 
@@ -34,7 +35,7 @@ export default async function ShortlistPrintPage({ params }: { params: Promise<{
       </div>
       <h1 className="text-2xl font-bold">{found.list.name}</h1>
       <p className="text-sm text-ink-soft">
-        Kept by {found.owner} · printed {new Date().toISOString().slice(0, 10)} · {items.length} dyes
+        Kept by {found.owner} · printed {new Date().toISOString().slice(0, 10)} · {count(items.length, "dye")}
       </p>
       {found.list.notes && <p className="mt-2 text-sm">{found.list.notes}</p>}
       <table className="mt-4 w-full border-collapse text-left text-sm">
