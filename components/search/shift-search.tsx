@@ -19,6 +19,20 @@ type Answer = {
 };
 
 const KEYS = ["aMedium", "aAcidBase", "bMedium", "bAcidBase", "from", "to", "minShift", "sameSolvent", "viewers", "viewerMinShift", "limit"] as const;
+/** What each query parameter is called on this page, for the server's messages. */
+const SCREEN_LABELS: Record<string, string> = {
+  from: "Colour in A",
+  to: "Colour in B",
+  minShift: "Minimum shift (ΔE00)",
+  viewerMinShift: "The colour-vision threshold (ΔE00)",
+  viewers: "Must stay visible to",
+  sameSolvent: "Pair colours in the same solvent",
+  aMedium: "Medium of A",
+  bMedium: "Medium of B",
+  aAcidBase: "Acid / base of A",
+  bAcidBase: "Acid / base of B",
+};
+
 const PRESETS = [
   { label: "Protic → aprotic", q: "aMedium=protic&bMedium=aprotic" },
   { label: "Acid → base, same solvent", q: "aAcidBase=acid&bAcidBase=base&sameSolvent=true" },
@@ -138,7 +152,7 @@ export function ShiftSearch() {
           </div>
         </form>
       </Card>
-      <SearchFailed error={search.isError ? search.error : null} />
+      <SearchFailed error={search.isError ? search.error : null} labels={SCREEN_LABELS} />
       {asked && answer && (
         <>
           <Card className="mt-4" title={`${answer.results.length} ${answer.results.length === 1 ? "dye" : "dyes"} with a fitting shift (ΔE00 between A and B, CIEDE2000)`}>
