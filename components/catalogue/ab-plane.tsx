@@ -59,7 +59,7 @@ export function AbPlane({ points, size = 360 }: { points: PlanePoint[]; size?: n
           return <polygon key={i} points={`${cx},${cy - 7} ${cx + 7},${cy} ${cx},${cy + 7} ${cx - 7},${cy}`} fill={fill} stroke={stroke} strokeWidth={sw}>{title}</polygon>;
         })}
       </svg>
-      <figcaption className="mt-1 text-xs text-ink-soft">● protic · ■ dipolar aprotic · ◆ non-polar; a red ring marks acid or base conditions. Hover or focus a point for its values; every value is also in the Measurements table.</figcaption>
+      <figcaption className="mt-1 text-xs text-ink-soft">● protic · ■ dipolar aprotic · ◆ non-polar; a red ring marks acid or base conditions. Hover a point for its values; every value is also in the Measurements table.</figcaption>
     </figure>
   );
 }

@@ -12,6 +12,7 @@ import { COLOUR_WORDS } from "@/lib/search/colour-words";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
 import { count } from "@/lib/text/count";
+import { KeepHit } from "@/components/shortlists/keep-hit";
 
 type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
@@ -26,7 +27,7 @@ type TargetKind = (typeof TARGET_KINDS)[number]["kind"];
 
 const FILTER_KEYS = ["medium", "acidBase", "solvent", "phMin", "phMax", "limit"] as const;
 
-export function ColourSearch({ solvents }: { solvents: { id: string; name: string }[] }) {
+export function ColourSearch({ solvents, lists = [] }: { solvents: { id: string; name: string }[]; lists?: { id: string; name: string }[] }) {
   const params = useSearchParams();
   const router = useRouter();
   const pathname = usePathname();
@@ -85,11 +86,11 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
               </label>
             )}
             {kind === "hex" && (
-              <input name="hex" aria-label="Hex colour" value={hex} onChange={(e) => setHex(e.target.value)} placeholder="7a3fa0" className="min-h-11 w-48 rounded-lg border border-line px-3" />
+              <input name="hex" aria-label="Hex colour" value={hex} onChange={(e) => setHex(e.target.value)} placeholder="7a3fa0" className="min-h-11 w-48 rounded-md border border-field px-3" />
             )}
-            {kind === "lab" && <input name="lab" aria-label="CIELAB D65 as L,a,b" defaultValue={params.get("lab") ?? ""} placeholder="40,45,-50" className="min-h-11 w-48 rounded-lg border border-line px-3" />}
+            {kind === "lab" && <input name="lab" aria-label="CIELAB D65 as L,a,b" defaultValue={params.get("lab") ?? ""} placeholder="40,45,-50" className="min-h-11 w-48 rounded-md border border-field px-3" />}
             {kind === "word" && (
-              <select name="word" aria-label="Colour name" defaultValue={params.get("word") ?? "violet"} className="min-h-11 w-48 rounded-lg border border-line bg-white px-3">
+              <select name="word" aria-label="Colour name" defaultValue={params.get("word") ?? "violet"} className="min-h-11 w-48 rounded-md border border-field bg-white px-3">
                 {COLOUR_WORDS.map((w) => (
                   <option key={w.word} value={w.word}>
                     {w.word}
@@ -101,7 +102,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
           <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5">
             <label className="text-sm font-medium">
               Medium
-              <select name="medium" defaultValue={params.get("medium") ?? "any"} className="mt-1 min-h-11 w-full rounded-lg border border-line bg-white px-3 font-normal">
+              <select name="medium" defaultValue={params.get("medium") ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
                 <option value="any">any</option>
                 <option value="protic">protic</option>
                 <option value="dipolar-aprotic">dipolar aprotic</option>
@@ -111,7 +112,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
             </label>
             <label className="text-sm font-medium">
               Acid / base
-              <select name="acidBase" defaultValue={params.get("acidBase") ?? "any"} className="mt-1 min-h-11 w-full rounded-lg border border-line bg-white px-3 font-normal">
+              <select name="acidBase" defaultValue={params.get("acidBase") ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
                 <option value="any">any</option>
                 <option value="acid">acid</option>
                 <option value="neutral">neutral</option>
@@ -120,7 +121,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
             </label>
             <label className="text-sm font-medium">
               One solvent
-              <select name="solvent" defaultValue={params.get("solvent") ?? ""} className="mt-1 min-h-11 w-full rounded-lg border border-line bg-white px-3 font-normal">
+              <select name="solvent" defaultValue={params.get("solvent") ?? ""} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
                 <option value="">any solvent</option>
                 {solvents.map((s) => (
                   <option key={s.id} value={s.name}>
@@ -131,11 +132,11 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
             </label>
             <label className="text-sm font-medium">
               pH from
-              <input name="phMin" inputMode="decimal" defaultValue={params.get("phMin") ?? ""} placeholder="any" className="mt-1 min-h-11 w-full rounded-lg border border-line px-3 font-normal" />
+              <input name="phMin" inputMode="decimal" defaultValue={params.get("phMin") ?? ""} placeholder="any" className="mt-1 min-h-11 w-full rounded-md border border-field px-3 font-normal" />
             </label>
             <label className="text-sm font-medium">
               pH to
-              <input name="phMax" inputMode="decimal" defaultValue={params.get("phMax") ?? ""} placeholder="any" className="mt-1 min-h-11 w-full rounded-lg border border-line px-3 font-normal" />
+              <input name="phMax" inputMode="decimal" defaultValue={params.get("phMax") ?? ""} placeholder="any" className="mt-1 min-h-11 w-full rounded-md border border-field px-3 font-normal" />
             </label>
           </div>
           <div className="flex items-center gap-3">
@@ -173,7 +174,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                     <Swatch lab={answer.target.lab} label="target" size="sm" />
                     <Swatch lab={r.lab} label={r.condition.solvent} />
                   </span>
-                  <div className="min-w-48 flex-1">
+                  <div className="min-w-0 flex-1 basis-48">
                     <Link href={`/catalogue/${encodeURIComponent(r.dye.code)}`} className="font-semibold text-accent hover:underline">
                       {r.dye.code} · {r.dye.name}
                     </Link>
@@ -181,15 +182,16 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                   </div>
                   <Badge tone={r.predicted ? "warn" : "ok"}>{r.predicted ? "predicted" : "measured"}</Badge>
                   <span className="w-28 text-ink-soft">
-                    {r.measurements} measurement{r.measurements === 1 ? "" : "s"}
+                    {count(r.measurements, "measurement")}
                   </span>
                   <span className="w-24 text-right font-semibold tabular-nums">ΔE00 {r.deltaE00.toFixed(1)}</span>
+                  <KeepHit dyeId={r.dye.id} code={r.dye.code} lists={lists} note={`Search: ΔE00 ${r.deltaE00.toFixed(1)} to ${answer.target.word ?? "the target"} in ${describeCondition(r.condition)}`} />
                 </li>
               ))}
             </ol>
           )}
           <p className="mt-3 text-xs text-ink-soft">
-            Swatches are screen approximations of the measured CIELAB (D65) values; decide on the numbers. ΔE00 ≈ 1 is about a just-noticeable difference.
+            ≈ Swatches are screen approximations of the measured CIELAB (D65) values; decide on the numbers. ΔE00 is the CIEDE2000 difference to the target (CIE 142-2001); ΔE00 ≈ 1 is about a just-noticeable difference.
           </p>
         </Card>
       )}
