@@ -32,9 +32,8 @@ export function auditDiff(before: unknown, after: unknown): FieldChange[] {
   const keys = [...new Set([...Object.keys(b), ...Object.keys(a)])].filter((k) => !NOISE.has(k));
   const out: FieldChange[] = [];
   for (const k of keys) {
-    const x = JSON.stringify(b[k] ?? null);
-    const y = JSON.stringify(a[k] ?? null);
-    if (x === y) continue;
+    // Compared as shown: "" and null both read "—" and are no change to a reader.
+    if (showValue(b[k]) === showValue(a[k])) continue;
     out.push(HIDDEN.test(k) ? { field: fieldWords(k), before: "(hidden)", after: "(changed)" } : { field: fieldWords(k), before: showValue(b[k]), after: showValue(a[k]) });
   }
   return out;
