@@ -3,7 +3,7 @@
 import { useActionState } from "react";
 import { inviteAction } from "@/app/actions/people";
 import { Field, Select, TextInput } from "@/components/ui/field";
-import { FormMessage, SubmitButton } from "@/components/ui/form-status";
+import { FormMessage, SubmitButton, formKey } from "@/components/ui/form-status";
 
 export function InviteForm() {
   const [state, action] = useActionState(inviteAction, null);
@@ -11,7 +11,7 @@ export function InviteForm() {
   // After a refusal the form shows what was typed; after a success it starts empty for the next person.
   const v = (state?.ok === false && state.values) || {};
   return (
-    <form action={action} className="grid gap-4 md:grid-cols-4" noValidate data-testid="invite-form">
+    <form key={formKey(state)} action={action} className="grid gap-4 md:grid-cols-4" noValidate data-testid="invite-form">
       <Field label="Name" name="name" error={e.name}>
         <TextInput name="name" defaultValue={v.name ?? ""} error={e.name} />
       </Field>

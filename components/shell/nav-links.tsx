@@ -65,7 +65,7 @@ export function PhoneMenu({ groups, children }: { groups: NavGroup[]; children: 
         </span>
         Menu
       </summary>
-      <div className="absolute inset-x-0 top-full z-30 max-h-[calc(100dvh-3.5rem)] overflow-y-auto border-b border-ink bg-white px-4 pb-5 pt-3 shadow-[0_12px_24px_rgba(0,0,0,0.18)]">
+      <div className="absolute inset-x-0 top-full z-30 hidden max-h-[calc(100dvh-3.5rem)] group-open:block overflow-y-auto border-b border-ink bg-white px-4 pb-5 pt-3 shadow-[0_12px_24px_rgba(0,0,0,0.18)]">
         <nav aria-label="Main">
           <div className="grid grid-cols-2 gap-x-4 gap-y-3">
             {groups.map((group) => (

@@ -4,7 +4,7 @@ import { useActionState } from "react";
 import { updateSolventAction } from "@/app/actions/solvents";
 import type { Solvent } from "@/db/schema";
 import { Field, Select, TextArea, TextInput } from "@/components/ui/field";
-import { FormMessage, SubmitButton } from "@/components/ui/form-status";
+import { FormMessage, SubmitButton, formKey } from "@/components/ui/form-status";
 
 const PARAMS = [
   { key: "et30", label: "ET(30), kcal/mol", value: (s: Solvent) => s.et30, source: (s: Solvent) => s.et30Source },
@@ -20,7 +20,7 @@ export function SolventEditForm({ solvent }: { solvent: Solvent }) {
   // After a refusal, show what was typed rather than the stored value.
   const v = (state?.ok === false && state.values) || {};
   return (
-    <form action={action} className="space-y-5" noValidate>
+    <form key={formKey(state)} action={action} className="space-y-5" noValidate>
       <input type="hidden" name="id" value={solvent.id} />
       {PARAMS.map((p) => (
         <div key={p.key} className="grid gap-3 md:grid-cols-[12rem_1fr]">

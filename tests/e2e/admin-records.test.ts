@@ -14,6 +14,7 @@ const browser = useBrowser();
 describe("the admin's records", () => {
   it("finds an invitation in the audit log and its link in the mailbox", async () => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await new SignInPage(page, base).signIn("admin@demo.test");
     await page.goto(`${base}/people`);
     const form = page.getByTestId("invite-form");
@@ -46,6 +47,7 @@ describe("the admin's records", () => {
 
   it("pages the audit log 40 entries at a time", async () => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await new SignInPage(page, base).signIn("admin@demo.test");
     await page.goto(`${base}/people/audit`);
     const status = await page.getByRole("status").filter({ hasText: /of \d/ }).innerText();

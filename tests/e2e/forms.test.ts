@@ -21,6 +21,7 @@ async function alertText(page: Page, text: RegExp) {
 describe("a form refused", () => {
   it("sign-in keeps the e-mail address after a wrong password", async () => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await page.goto(`${base}/sign-in`);
     await page.getByLabel("E-mail").fill("chemist@demo.test");
     await page.getByLabel("Password").fill("not the password");
@@ -32,6 +33,7 @@ describe("a form refused", () => {
 
   it("the invitation keeps name, e-mail and role, and says what is wrong in words", async () => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await new SignInPage(page, base).signIn("admin@demo.test");
     await page.goto(`${base}/people`);
     const form = page.getByTestId("invite-form");
@@ -49,6 +51,7 @@ describe("a form refused", () => {
 
   it("the dye form keeps every edit after a bad CAS number", async () => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await new SignInPage(page, base).signIn("chemist@demo.test");
     await page.goto(`${base}/catalogue/KB-AQ-310`);
     const form = page.locator("form", { has: page.getByRole("button", { name: "Save dye" }) });
@@ -67,6 +70,7 @@ describe("a form refused", () => {
 
   it("the solvent form keeps a value typed without its source and asks for the source by its label", async () => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await new SignInPage(page, base).signIn("admin@demo.test");
     await page.goto(`${base}/solvents/solv-1-4-dioxane`);
     await page.locator("input[name=et30Value]").fill("36.1");
@@ -81,6 +85,7 @@ describe("a form refused", () => {
 
   it("the shift search keeps its entries and names the field as labelled", async () => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await new SignInPage(page, base).signIn("formulator@demo.test");
     await page.goto(`${base}/search/shift`);
     await page.getByLabel(/Colour in A/).fill("blurple");

@@ -40,6 +40,7 @@ async function shoot(page: import("playwright-core").Page, email: string, width:
 describe("on a 390 px phone", () => {
   it.each(Object.entries(PAGES))("%s: no main page is wider than the screen", async (email, routes) => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await page.setViewportSize({ width: 390, height: 844 });
     await new SignInPage(page, base).signIn(email);
     const wide: string[] = [];
@@ -61,6 +62,7 @@ describe("on a 390 px phone", () => {
 
   it("the phone menu opens over the page, reaches every area and closes after a choice", async () => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await page.setViewportSize({ width: 390, height: 844 });
     await new SignInPage(page, base).signIn("chemist@demo.test");
     await page.getByText("Menu", { exact: true }).click();
@@ -76,6 +78,7 @@ describe("on a 390 px phone", () => {
 describe("at 1440 px", () => {
   it.each(Object.entries(PAGES))("%s: no main page is wider than the screen", async (email, routes) => {
     const page = await browser().newPage();
+    await page.context().clearCookies();
     await page.setViewportSize({ width: 1440, height: 900 });
     await new SignInPage(page, base).signIn(email);
     for (const route of routes) {
