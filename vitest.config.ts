@@ -25,7 +25,10 @@ export default defineConfig({
           include: ["tests/integration/**/*.test.ts"],
           setupFiles: ["tests/support/integration-setup.ts"],
           pool: "forks",
-          testTimeout: 30_000,
+          // CLI tests spawn several processes per test; on a loaded shared machine each can take seconds.
+          testTimeout: 60_000,
+          // Set-up hooks build worlds, photos and servers: generous on a shared 2-core machine.
+          hookTimeout: 60_000,
         },
       },
       {

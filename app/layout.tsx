@@ -1,5 +1,6 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
+import { connection } from "next/server";
 import { Providers } from "./providers";
 import "./globals.css";
 
@@ -31,7 +32,9 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { width: "device-width", initialScale: 1 };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // Rendered per request: the Content-Security-Policy nonce (proxy.ts) is new on every page.
+  await connection();
   return (
     <html lang="en" className={`${body.variable} ${code.variable} ${greek.variable}`}>
       <body className="min-h-dvh font-sans antialiased">

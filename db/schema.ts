@@ -6,7 +6,7 @@
  * rounded in storage; every colour row names its illuminant (reference white) and observer.
  */
 import { sql } from "drizzle-orm";
-import { index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { index, integer, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from "drizzle-orm/sqlite-core";
 import type { PhotoExif } from "../lib/color/exif";
 
 export const ROLES = ["admin", "chemist", "formulator"] as const;
@@ -123,6 +123,19 @@ export const signInAttempts = sqliteTable(
   (t) => [index("sign_in_attempts_email_idx").on(t.email, t.at), index("sign_in_attempts_ip_idx").on(t.ip, t.at)],
 );
 
+/** Counted events for rate limits other than sign-ins (db/queries/rate.ts). */
+export const rateEvents = sqliteTable(
+  "rate_events",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    /** What is counted, e.g. "reset-by-address", "reset-by-account", "share-by-user". */
+    kind: text("kind").notNull(),
+    key: text("key").notNull(),
+    at: integer("at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("rate_events_kind_key_at_idx").on(t.kind, t.key, t.at)],
+);
+
 // ---------------------------------------------------------------- reference data
 
 export const dyes = sqliteTable("dyes", {
@@ -212,11 +225,33 @@ export const calibrationTargets = sqliteTable("calibration_targets", {
   /** Reference white the patch Lab values are relative to. */
   whitePoint: text("white_point", { enum: ILLUMINANTS }).notNull().default("D65"),
   patches: text("patches", { mode: "json" }).$type<TargetPatch[]>().notNull(),
+  /** Patch layout on the card, read row by row from the top left, so a photo is sampled in one step. */
+  gridRows: integer("grid_rows"),
+  gridColumns: integer("grid_columns"),
+  /** Instrument and date the patch values come from (e.g. the card maker's sheet, a spectrophotometer). */
+  source: text("source").notNull().default(""),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
   createdAt: createdAt(),
 });
 export type CalibrationTarget = typeof calibrationTargets.$inferSelect;
 
-export const CORRECTION_KINDS = ["none", "white-scaling", "matrix-3x3", "root-polynomial"] as const;
+/** "calibration": the lighting profile's engine calibration, then the 3×3 XYZ adaptation stored in `correction`. */
+export const CORRECTION_KINDS = ["none", "white-scaling", "matrix-3x3", "root-polynomial", "calibration"] as const;
+
+export const PROFILE_STATES = ["draft", "approved", "retired"] as const;
+export type ProfileState = (typeof PROFILE_STATES)[number];
+export type ProfileResidual = { patch: string; deltaE00: number; looDeltaE00?: number };
+/** Four corners of the patch grid on a card photo, in photo pixels: top left, top right, bottom right, bottom left. */
+export type GridCorners = [[number, number], [number, number], [number, number], [number, number]];
+export type FitSample = {
+  patch: string;
+  rawLinearRgb: [number, number, number];
+  spread: number;
+  flags: string[];
+  sd?: [number, number, number];
+  pixels?: number;
+  clippedFraction?: number;
+};
 export type CorrectionKind = (typeof CORRECTION_KINDS)[number];
 
 export const lightingProfiles = sqliteTable("lighting_profiles", {
@@ -230,16 +265,99 @@ export const lightingProfiles = sqliteTable("lighting_profiles", {
   correctionKind: text("correction_kind", { enum: CORRECTION_KINDS }).notNull(),
   /** Fitted correction: for matrix-3x3 a row-major 3×3 in linear RGB; for white-scaling 3 gains. */
   correction: text("correction", { mode: "json" }).$type<number[]>().notNull(),
-  /** Residual ΔE00 per patch from the fit. */
-  residuals: text("residuals", { mode: "json" }).$type<{ patch: string; deltaE00: number }[]>(),
+  /** Residual ΔE00 per patch from the fit: on the training fit and leave-one-out (null for rows fitted before 0005). */
+  residuals: text("residuals", { mode: "json" }).$type<ProfileResidual[]>(),
   validFrom: integer("valid_from", { mode: "timestamp_ms" }).notNull(),
   validUntil: integer("valid_until", { mode: "timestamp_ms" }),
   approvedBy: text("approved_by").references(() => users.id),
   approvedAt: integer("approved_at", { mode: "timestamp_ms" }),
   createdBy: text("created_by").references(() => users.id),
   createdAt: createdAt(),
+  /** draft → approved → retired; only approved profiles inside their validity window are offered on the bench. */
+  state: text("state", { enum: PROFILE_STATES }).notNull().default("draft"),
+  colourTemperatureK: real("colour_temperature_k"),
+  /** The camera's fixed settings as the admin wrote them (exposure, ISO, white balance, HDR off …). */
+  cameraSettings: text("camera_settings").notNull().default(""),
+  /** How the correction was chosen: white | matrix-3x3 | root-polynomial-2 | auto (by leave-one-out ΔE00). */
+  method: text("method"),
+  notes: text("notes").notNull().default(""),
+  /** The fitted calibration as serialised by the colour engine (tone curves + correction, white point). */
+  calibration: text("calibration", { mode: "json" }).$type<Record<string, unknown>>(),
+  /** Leave-one-out ΔE00 over the card's patches: mean and maximum (the figures approval is judged by). */
+  looMeanDeltaE00: real("loo_mean_delta_e00"),
+  looMaxDeltaE00: real("loo_max_delta_e00"),
+  /** The card photo the fit came from, and the grid's four corners on it (pixels, TL, TR, BR, BL). */
+  fitPhotoId: text("fit_photo_id").references((): AnySQLiteColumn => photos.id),
+  fitGrid: text("fit_grid", { mode: "json" }).$type<GridCorners>(),
+  /** Sampled linear RGB per patch from the fit photo (kept so a fit can be re-run or re-derived). */
+  fitSamples: text("fit_samples", { mode: "json" }).$type<FitSample[]>(),
+  retiredBy: text("retired_by").references(() => users.id),
+  retiredAt: integer("retired_at", { mode: "timestamp_ms" }),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
 });
 export type LightingProfile = typeof lightingProfiles.$inferSelect;
+
+// ---------------------------------------------------------------- check standards and drift
+
+/**
+ * A check standard: a sealed dye solution or tile whose CIELAB was measured on a spectrophotometer.
+ * When it appears in a bench photo, its ΔE00 to the known value is the lab's real accuracy.
+ */
+export const checkStandards = sqliteTable("check_standards", {
+  id: text("id").primaryKey(),
+  name: text("name").notNull().unique(),
+  kind: text("kind", { enum: ["vial", "tile"] }).notNull().default("vial"),
+  l: real("l").notNull(),
+  a: real("a").notNull(),
+  b: real("b").notNull(),
+  whitePoint: text("white_point", { enum: ILLUMINANTS }).notNull().default("D65"),
+  /** Instrument (and date) the known Lab was measured with. */
+  sourceInstrument: text("source_instrument").notNull(),
+  notes: text("notes").notNull().default(""),
+  createdBy: text("created_by").references(() => users.id),
+  createdAt: createdAt(),
+});
+export type CheckStandard = typeof checkStandards.$inferSelect;
+
+export const checkReadings = sqliteTable(
+  "check_readings",
+  {
+    id: text("id").primaryKey(),
+    standardId: text("standard_id")
+      .notNull()
+      .references(() => checkStandards.id),
+    profileId: text("profile_id").references(() => lightingProfiles.id),
+    photoId: text("photo_id").references(() => photos.id),
+    /** Measured Lab, under the standard's white point. */
+    l: real("l").notNull(),
+    a: real("a").notNull(),
+    b: real("b").notNull(),
+    deltaE00: real("delta_e00").notNull(),
+    createdBy: text("created_by").references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("check_readings_profile_idx").on(t.profileId, t.createdAt)],
+);
+export type CheckReading = typeof checkReadings.$inferSelect;
+
+/** A reference of known colour in a bench photo, seen through the profile, against what the profile expects. */
+export const driftReadings = sqliteTable(
+  "drift_readings",
+  {
+    id: text("id").primaryKey(),
+    profileId: text("profile_id")
+      .notNull()
+      .references(() => lightingProfiles.id),
+    photoId: text("photo_id").references(() => photos.id),
+    label: text("label").notNull().default(""),
+    deltaE00: real("delta_e00").notNull(),
+    thresholdDeltaE00: real("threshold_delta_e00").notNull(),
+    flagged: integer("flagged", { mode: "boolean" }).notNull().default(false),
+    createdAt: createdAt(),
+  },
+  (t) => [index("drift_readings_profile_idx").on(t.profileId, t.createdAt)],
+);
+export type DriftReading = typeof driftReadings.$inferSelect;
 
 // ---------------------------------------------------------------- bench records
 
@@ -388,6 +506,53 @@ export const spectra = sqliteTable(
   (t) => [index("spectra_dye_idx").on(t.dyeId)],
 );
 export type Spectrum = typeof spectra.$inferSelect;
+
+// ---------------------------------------------------------------- solvent models
+
+/**
+ * A dye's fitted solvent model (lib/models/dye-model.ts), derived from its accepted colours and the solvent
+ * table. Recomputed lazily: `cache_key` fingerprints the inputs, and a stale row is replaced on next read.
+ */
+export const dyeModels = sqliteTable("dye_models", {
+  dyeId: text("dye_id")
+    .primaryKey()
+    .references(() => dyes.id),
+  cacheKey: text("cache_key").notNull(),
+  version: integer("version").notNull(),
+  /** The whole result object (fits, band points, leave-one-out figures) as JSON. */
+  result: text("result", { mode: "json" }).notNull(),
+  computedAt: integer("computed_at", { mode: "timestamp_ms" }).notNull(),
+});
+export type DyeModelRow = typeof dyeModels.$inferSelect;
+
+/** Predicted colours of a dye in solvents it was not measured in: never measurements, always with ± ΔE00. */
+export const dyePredictions = sqliteTable(
+  "dye_predictions",
+  {
+    id: text("id").primaryKey(),
+    dyeId: text("dye_id")
+      .notNull()
+      .references(() => dyes.id),
+    solventId: text("solvent_id")
+      .notNull()
+      .references(() => solvents.id),
+    l: real("l").notNull(),
+    a: real("a").notNull(),
+    b: real("b").notNull(),
+    illuminant: text("illuminant", { enum: ILLUMINANTS }).notNull().default("D65"),
+    observer: text("observer").notNull().default("CIE 1931 2°"),
+    uncertaintyDeltaE00: real("uncertainty_delta_e00").notNull(),
+    extrapolated: integer("extrapolated", { mode: "boolean" }).notNull(),
+    /** "band" (scale fit on the apparent band position) or "cielab" (direct fit of L*, a*, b*). */
+    route: text("route").notNull(),
+    model: text("model").notNull(),
+    wavenumberCm1: real("wavenumber_cm1"),
+    wavenumberHalfWidthCm1: real("wavenumber_half_width_cm1"),
+    cacheKey: text("cache_key").notNull(),
+  },
+  (t) => [index("dye_predictions_dye_idx").on(t.dyeId)],
+);
+export type DyePredictionRow = typeof dyePredictions.$inferSelect;
 
 // ---------------------------------------------------------------- formulator work
 

@@ -7,7 +7,7 @@ const dir = dataDir();
 const db = openDatabase(databaseFile(dir));
 try {
   migrateDatabase(db);
-  const result = await seedDemo(db, dir);
+  const result = await seedDemo(db, dir, { models: true });
   console.error(result ? `Demo data added: ${JSON.stringify(result)}` : "Database already has users; demo seed skipped.");
 } catch (error) {
   console.error(`Seeding failed: ${(error as Error).message}`);

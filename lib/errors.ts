@@ -6,6 +6,7 @@ export type ErrorCode =
   | "unauthenticated"
   | "forbidden"
   | "not_found"
+  | "gone"
   | "too_large"
   | "unsupported_type"
   | "invalid_input"
@@ -17,6 +18,7 @@ const STATUS: Record<ErrorCode, number> = {
   unauthenticated: 401,
   forbidden: 403,
   not_found: 404,
+  gone: 410,
   conflict: 409,
   too_large: 413,
   unsupported_type: 415,

@@ -15,7 +15,7 @@ async function main() {
   try {
     migrateDatabase(db);
     if (process.argv.includes("--seed-demo")) {
-      const added = await seedDemo(db, dir);
+      const added = await seedDemo(db, dir, { models: true });
       console.error(added ? `Demo data added: ${added.dyes} dyes, ${added.measurements} measurements, ${added.photos} photos.` : "Database already in use; demo seed skipped.");
     } else {
       const n = seedSolvents(db);
@@ -26,7 +26,8 @@ async function main() {
   }
   console.error(`Data directory: ${dir}`);
   console.error(`Serving Solvatlas on http://localhost:${settings.PORT}`);
-  const child = spawn(process.execPath, [path.join("node_modules", "next", "dist", "bin", "next"), "start", "-p", String(settings.PORT)], {
+  // The preload stamps each request with its socket address (see scripts/peer-address.cjs).
+  const child = spawn(process.execPath, ["--require", path.resolve("scripts", "peer-address.cjs"), path.join("node_modules", "next", "dist", "bin", "next"), "start", "-p", String(settings.PORT)], {
     stdio: "inherit",
     env: { ...process.env, DATA_DIR: dir, NEXT_TELEMETRY_DISABLED: "1", NODE_ENV: "production" },
   });

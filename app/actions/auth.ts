@@ -14,7 +14,9 @@ import {
   signOutSession,
 } from "@/lib/auth/service";
 import { clearSessionCookie, clientIp, sessionIdFromCookie, writeSessionCookie } from "@/lib/auth/session";
+import { takeRateSlot } from "@/db/queries/rate";
 import { appUrl } from "@/lib/config/env";
+import { AppError } from "@/lib/errors";
 import { send } from "@/lib/mail";
 import { emailSchema, newPasswordSchema, passwordSchema, signInSchema } from "@/lib/validation/schemas";
 
@@ -31,8 +33,21 @@ export async function signOutAction(): Promise<void> {
   redirect("/sign-in");
 }
 
+/** Reset mails: per client address (visible refusal) and per account (silently no more mail). Common practice, no source. */
+const RESETS_PER_ADDRESS_PER_HOUR = 10;
+const RESETS_PER_ACCOUNT_PER_HOUR = 3;
+const HOUR_MS = 3600 * 1000;
+
 export const requestResetAction = formAction({ access: "public", schema: z.object({ email: emailSchema }) }, async ({ email }) => {
-  const reset = createPasswordReset(db(), { email });
+  const handle = db();
+  const ip = await clientIp();
+  if (!takeRateSlot(handle, { kind: "reset-by-address", key: ip, max: RESETS_PER_ADDRESS_PER_HOUR, windowMs: HOUR_MS })) {
+    console.warn(JSON.stringify({ event: "password-reset.throttled", ip }));
+    throw new AppError("rate_limited", "Too many reset requests from this network in the last hour. Wait an hour, or ask an admin of your lab for help.");
+  }
+  // Beyond the per-account allowance nothing is sent, with the same answer, so the form still does not reveal who has an account.
+  const allowed = takeRateSlot(handle, { kind: "reset-by-account", key: email.trim().toLowerCase(), max: RESETS_PER_ACCOUNT_PER_HOUR, windowMs: HOUR_MS });
+  const reset = allowed ? createPasswordReset(handle, { email }) : null;
   if (reset) {
     await send({
       to: reset.user.email,

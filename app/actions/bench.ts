@@ -5,12 +5,31 @@ import { z } from "zod";
 import { db } from "@/db/client";
 import { deleteRackTemplate, saveMeasurements, saveRackTemplate } from "@/db/queries/bench";
 import { getPhoto, measureOnPhoto } from "@/db/queries/photos";
+import { adminEmails, getProfile, recordPhotoChecks, recordPhotoDrift, standardOrRefuse } from "@/db/queries/lighting";
+import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
+import { send } from "@/lib/mail";
 import { formAction, parseInput } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
 import { saveRequestSchema, templateSchema } from "@/lib/bench/schemas";
 import { AppError } from "@/lib/errors";
 import { objectStore } from "@/lib/storage";
 import { photoLimits } from "@/lib/storage/limits";
+
+/** Drift of the photo's references through its profile: recorded, and admins told by e-mail above the limit. */
+async function noteDrift(photoId: string, profileId: string | null, references: { label?: string; driftDeltaE00: number }[]) {
+  const handle = db();
+  const flagged = recordPhotoDrift(handle, { profileId, photoId, references, limit: DRIFT_LIMIT_DE00 });
+  if (flagged.length === 0 || !profileId) return;
+  const profile = getProfile(handle, profileId);
+  const text = [
+    `A bench photo's references no longer match the lighting profile “${profile?.name ?? profileId}”:`,
+    ...flagged.map((f) => `- ${f.label}: ${f.deltaE00.toFixed(2)} ΔE00 (limit ${DRIFT_LIMIT_DE00} ΔE00)`),
+    "",
+    "The measurements from this photo are flagged. Check the light and the camera settings, and re-fit the profile if the light has changed.",
+    `Photo: /bench/photos/${photoId}   Profile: /lighting/profiles/${profileId}`,
+  ].join("\n");
+  for (const to of adminEmails(handle)) await send({ to, subject: `Light drift on “${profile?.name ?? profileId}”`, text });
+}
 
 const jsonPayload = z.object({ payload: z.string().min(2, { error: "Nothing to save." }).max(2_000_000) });
 
@@ -31,12 +50,19 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
   const handle = db();
   const photo = getPhoto(handle, input.photoId);
   if (!photo) throw new AppError("not_found", "That photo no longer exists.");
-  const result = await measureOnPhoto(handle, objectStore(), photo, {
+  const checks = input.checkStandards ?? [];
+  for (const c of checks) standardOrRefuse(handle, c.standardId);
+  const measured = await measureOnPhoto(handle, objectStore(), photo, {
     lightingProfileId: input.lightingProfileId,
     references: input.references,
-    vials: input.vials.map((v) => v.region),
+    // Check standards are measured exactly like vials, through the same correction.
+    vials: [...input.vials.map((v) => v.region), ...checks.map((c) => c.region)],
     maxPixels: photoLimits().maxPixels,
   });
+  const result = { ...measured, vials: measured.vials.slice(0, input.vials.length) };
+  const checkResults = measured.vials.slice(input.vials.length);
+  const badCheck = checkResults.findIndex((r) => !r.ok);
+  if (badCheck >= 0) throw new AppError("invalid_input", `Check standard ${badCheck + 1} cannot be measured: ${(checkResults[badCheck] as { error: string }).error}`);
   const failed = result.vials.map((v, i) => (v.ok ? null : { i, error: v.error })).filter((v) => v !== null);
   if (failed.length > 0) {
     throw new AppError(
@@ -68,7 +94,18 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
         spread: c.spread,
         flags: c.flags,
         flagReason: v.flagReason || null,
+        uncertainty: c.uncertainty,
       };
+    }),
+  });
+  await noteDrift(photo.id, input.lightingProfileId, result.references);
+  recordPhotoChecks(handle, {
+    actorId: user.id,
+    photoId: photo.id,
+    profileId: input.lightingProfileId,
+    readings: checks.flatMap((c, i) => {
+      const r = checkResults[i];
+      return r.ok ? [{ standardId: c.standardId, labD65: r.colour.lab }] : [];
     }),
   });
   revalidatePath("/bench");
@@ -79,13 +116,13 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
 
 export const saveTemplateAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
   const input = parseInput(templateSchema, parseJson(payload));
-  const id = saveRackTemplate(db(), { actorId: user.id, name: input.name, regions: input.regions });
+  const id = saveRackTemplate(db(), { actorId: user.id, actorRole: user.role, name: input.name, regions: input.regions });
   revalidatePath("/bench", "layout");
   return { ok: true, message: `Layout “${input.name}” saved with ${input.regions.length} regions.`, data: { id } };
 });
 
 export const deleteTemplateAction = formAction({ access: BENCH_ROLES, schema: z.object({ id: z.string().min(1).max(100) }) }, async ({ id }, { user }) => {
-  deleteRackTemplate(db(), { actorId: user.id, id });
+  deleteRackTemplate(db(), { actorId: user.id, actorRole: user.role, id });
   revalidatePath("/bench", "layout");
   return { ok: true, message: "Layout deleted." };
 });

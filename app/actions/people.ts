@@ -47,6 +47,9 @@ export const setActiveAction = formAction(
     setUserActive(db(), { actorId: user.id, userId: input.userId, active: input.active });
     if (!input.active) await invalidateAllSessions(db(), input.userId);
     revalidatePath("/people");
-    return { ok: true, message: input.active ? "Account reactivated." : "Account deactivated; its sessions and tokens no longer work." };
+    return {
+      ok: true,
+      message: input.active ? "Account reactivated. API tokens revoked at deactivation stay revoked; the person makes new ones." : "Account deactivated; its sessions have ended and its API tokens are revoked.",
+    };
   },
 );

@@ -4,6 +4,8 @@ import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { db } from "@/db/client";
 import { findDyeById } from "@/db/queries/dyes";
+import { takeRateSlot } from "@/db/queries/rate";
+import { findUserByEmail } from "@/db/queries/users";
 import { addShortlistItem, createShortlist, findShortlist, findShortlistItem, recordShortlistShare, removeShortlistItem, updateShortlistItemNote } from "@/db/queries/shortlists";
 import { formAction } from "@/lib/auth/guard";
 import { ANY_ROLE } from "@/lib/auth/roles";
@@ -73,6 +75,9 @@ export const updateShortlistNoteAction = formAction({ access: ANY_ROLE, schema: 
   return { ok: true, message: "Note saved." };
 });
 
+/** Shares per person per hour (common practice, no source): the app sends mail only to its own people. */
+const SHARES_PER_HOUR = 20;
+
 export const shareShortlistAction = formAction(
   {
     access: ANY_ROLE,
@@ -86,13 +91,23 @@ export const shareShortlistAction = formAction(
     const handle = db();
     const found = findShortlist(handle, { id: shortlistId });
     if (!found) throw new AppError("not_found", "This shortlist no longer exists.");
+    const colleague = findUserByEmail(handle, { email });
+    if (!colleague || colleague.deactivatedAt !== null) {
+      throw new AppError("invalid_input", "Shortlists can be shared only with people of your lab who have an active Solvatlas account. Check the address, or ask an admin to invite them.", {
+        email: ["Not a person of this lab."],
+      });
+    }
+    if (!takeRateSlot(handle, { kind: "share-by-user", key: user.id, max: SHARES_PER_HOUR, windowMs: 3600 * 1000 })) {
+      throw new AppError("rate_limited", `You have shared ${SHARES_PER_HOUR} shortlists in the last hour, the most allowed. Try again later.`);
+    }
     const link = `${appUrl()}/shortlists/${shortlistId}`;
     await send({
-      to: email,
-      subject: `${user.name} shared the shortlist “${found.list.name}”`,
+      to: colleague.email,
+      // No person-written text in the subject: it is the part mail programs show before anyone opens it.
+      subject: `${user.name} shared a Solvatlas shortlist with you`,
       text: `${user.name} shared a Solvatlas shortlist with you: “${found.list.name}”.\n\n${message ? `${message}\n\n` : ""}Open it here (sign in first): ${link}\n`,
     });
-    recordShortlistShare(handle, { actorId: user.id, shortlistId, to: email });
-    return { ok: true, message: `Sent the link to ${email}.` };
+    recordShortlistShare(handle, { actorId: user.id, shortlistId, to: colleague.email });
+    return { ok: true, message: `Sent the link to ${colleague.name} (${colleague.email}).` };
   },
 );

@@ -30,7 +30,7 @@ type Mark = {
   refB: string;
 };
 
-type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[] };
+type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[]; uncertainty?: { uDeltaE00: number } };
 type RefResult = { region: { x: number; y: number }; correctedLab: number[]; profileLab: number[]; driftDeltaE00: number; flags: string[] };
 type Live = { vials: Record<string, { ok: true; colour: Colour } | { ok: false; error: string }>; references: Record<string, RefResult>; correction?: string; photoFlags: string[]; error?: string; busy: boolean };
 
@@ -602,6 +602,9 @@ export function MarkingEditor(props: {
                 ? "No light correction: choose a profile or mark a white/grey reference of known Lab."
                 : `Correction: ${profileId ? "profile" : ""}${profileId && refInputs.length ? " + " : ""}${refInputs.length ? "in-photo reference scaling" : ""} (${live.correction}).`}
             </p>
+            {live.photoFlags.includes("white-card-only") && (
+              <p className="text-warn" data-testid="white-card-only">White card only: no lighting profile stands behind these colours; expect a few ΔE00 (practitioner estimate).</p>
+            )}
             {live.error && (
               <p role="alert" className="mt-1 text-bad">
                 {live.error}
@@ -736,6 +739,7 @@ export function MarkingEditor(props: {
                           <div className="text-xs tabular-nums">
                             <p className="font-semibold" data-testid="live-lab">
                               L* {fmt(r.colour.lab[0])} a* {fmt(r.colour.lab[1])} b* {fmt(r.colour.lab[2])}
+                              {r.colour.uncertainty && <span data-testid="live-uncertainty"> (± {fmt(r.colour.uncertainty.uDeltaE00, 1)} ΔE00)</span>}
                             </p>
                             <p>
                               C* {fmt(r.colour.lch[1])} h° {fmt(r.colour.lch[2], 0)} · {r.colour.pixels} px, {r.colour.rejected} rejected, spread {fmt(r.colour.spread, 2)}

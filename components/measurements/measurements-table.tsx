@@ -20,6 +20,8 @@ export type TableRow = {
   hex: string;
   inGamut: boolean;
   profile: string | null;
+  /** Combined standard uncertainty as ± ΔE00; null for rows made before it was stored. */
+  uDeltaE00?: number | null;
   flags: string[];
   state: string;
   measuredAt: string;
@@ -57,6 +59,7 @@ const columns = [
   col.display({ id: "ab", header: "a*, b*", cell: ({ row }) => `${num(row.original.a)}, ${num(row.original.b)}` }),
   col.accessor("c", { header: "C*ab", cell: (c) => num(c.getValue()) }),
   col.accessor("h", { header: "hab (°)", cell: (c) => num(c.getValue(), 0) }),
+  col.accessor("uDeltaE00", { header: "± ΔE00", cell: (c) => (c.getValue() === null || c.getValue() === undefined ? "not recorded" : `± ${num(c.getValue()!, 1)}`) }),
   col.accessor("profile", { header: "Profile", cell: (c) => c.getValue() ?? "none" }),
   col.accessor("flags", { header: "Flags", cell: (c) => (c.getValue().length ? c.getValue().join(", ") : "—") }),
   col.accessor("state", { header: "State" }),

@@ -14,7 +14,7 @@ import { SearchFailed, Searching } from "./query-feedback";
 import { count } from "@/lib/text/count";
 import { KeepHit } from "@/components/shortlists/keep-hit";
 
-type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number };
+type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number; replicates?: number; spreadDeltaE00?: number; uncertaintyDeltaE00?: number | null; tieWithPrevious?: boolean };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
 
 const TARGET_KINDS = [
@@ -181,17 +181,26 @@ export function ColourSearch({ solvents, lists = [] }: { solvents: { id: string;
                     <p className="text-ink-soft">{describeCondition(r.condition)}</p>
                   </div>
                   <Badge tone={r.predicted ? "warn" : "ok"}>{r.predicted ? "predicted" : "measured"}</Badge>
-                  <span className="w-28 text-ink-soft">
-                    {count(r.measurements, "measurement")}
+                  <span className="w-36 text-ink-soft" title="The colour is the mean CIELAB of the accepted replicates; spread is their RMS ΔE00 from that mean.">
+                    mean of {r.replicates ?? r.measurements} replicate{(r.replicates ?? r.measurements) === 1 ? "" : "s"}
+                    {r.spreadDeltaE00 !== undefined && (r.replicates ?? 0) > 1 && <span className="block">spread ΔE00 {r.spreadDeltaE00.toFixed(1)}</span>}
                   </span>
-                  <span className="w-24 text-right font-semibold tabular-nums">ΔE00 {r.deltaE00.toFixed(1)}</span>
+                  <span className="w-24 text-right font-semibold tabular-nums">
+                    ΔE00 {r.deltaE00.toFixed(1)}
+                    {r.uncertaintyDeltaE00 != null && <span className="block text-xs font-normal text-ink-soft">± {r.uncertaintyDeltaE00.toFixed(1)}</span>}
+                    {r.tieWithPrevious && (
+                      <span className="block text-xs font-normal text-warn" data-testid="tie-mark" title="Differs from the result above by less than their combined uncertainty">
+                        ≈ tie with the one above
+                      </span>
+                    )}
+                  </span>
                   <KeepHit dyeId={r.dye.id} code={r.dye.code} lists={lists} note={`Search: ΔE00 ${r.deltaE00.toFixed(1)} to ${answer.target.word ?? "the target"} in ${describeCondition(r.condition)}`} />
                 </li>
               ))}
             </ol>
           )}
           <p className="mt-3 text-xs text-ink-soft">
-            ≈ Swatches are screen approximations of the measured CIELAB (D65) values; decide on the numbers. ΔE00 is the CIEDE2000 difference to the target (CIE 142-2001); ΔE00 ≈ 1 is about a just-noticeable difference.
+            ≈ Each dye's colour in a condition (solvent, acid/base, pH) is the mean CIELAB (D65) of its accepted replicates there. Swatches are screen approximations; decide on the numbers. ΔE00 is the CIEDE2000 difference to the target (CIE 142-2001); ΔE00 ≈ 1 is about a just-noticeable difference.
           </p>
         </Card>
       )}

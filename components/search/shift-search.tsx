@@ -14,7 +14,7 @@ type Side = { lab: Lab; measurementId: string; condition: Condition };
 type Check = { kind: "protan" | "deutan" | "tritan"; deltaE00: number; passes: boolean };
 type Dye = { id: string; code: string; name: string };
 type Answer = {
-  results: { dye: Dye; shift: number; fromDeltaE00: number | null; toDeltaE00: number | null; a: Side; b: Side; viewers: Check[]; predicted: boolean }[];
+  results: { dye: Dye; shift: number; shiftDeltaEOK: number; fromDeltaE00: number | null; toDeltaE00: number | null; a: Side; b: Side; viewers: Check[]; predicted: boolean }[];
   failures: { dye: Dye; reason: string; shift: number | null; viewers: Check[] }[];
 };
 
@@ -159,6 +159,11 @@ export function ShiftSearch() {
             {answer.results.length === 0 ? (
               <p className="text-sm text-ink-soft">No dye passes. Lower the minimum shift or the viewer threshold, or widen a condition; the reasons are listed below.</p>
             ) : (
+              <>
+              <p className="text-sm text-ink-soft">
+                Large shifts are ranked by ΔEOK, the distance in OKLab ×100 (Ottosson 2020), which stays continuous for large colour
+                changes; ΔE00 (CIEDE2000, made for small differences) is shown beside it.
+              </p>
               <ol className="divide-y divide-line" aria-label="Shift results">
                 {answer.results.map((r, i) => (
                   <li key={r.dye.id} className="flex flex-wrap items-center gap-3 py-2 text-sm" data-testid="shift-hit">
@@ -180,10 +185,14 @@ export function ShiftSearch() {
                     <Badge tone="ok">measured</Badge>
                     {r.fromDeltaE00 !== null && <span className="tabular-nums text-ink-soft">ΔE00 to the A colour {r.fromDeltaE00.toFixed(1)}</span>}
                     {r.toDeltaE00 !== null && <span className="tabular-nums text-ink-soft">ΔE00 to the B colour {r.toDeltaE00.toFixed(1)}</span>}
-                    <span className="text-right font-semibold tabular-nums">shift A→B: ΔE00 {r.shift.toFixed(1)}</span>
+                    <span className="text-right tabular-nums">
+                      <span className="font-semibold">shift A→B: ΔEOK {r.shiftDeltaEOK.toFixed(1)}</span>
+                      <span className="block text-ink-soft">ΔE00 {r.shift.toFixed(1)}</span>
+                    </span>
                   </li>
                 ))}
               </ol>
+              </>
             )}
           </Card>
           {answer.failures.length > 0 && (

@@ -32,6 +32,7 @@ export const NAV_GROUPS: NavGroup[] = [
     label: "Choose",
     items: [
       { href: "/search", label: "Search", roles: ALL, hint: "Find a dye by colour and condition" },
+      { href: "/tune", label: "Tune", roles: ALL, hint: "Which solvent or blend gives a wanted colour" },
       { href: "/compare", label: "Compare", roles: ALL, hint: "Dyes side by side across conditions" },
       { href: "/shortlists", label: "Shortlists", roles: ALL, hint: "Candidate dyes with notes" },
     ],

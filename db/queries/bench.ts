@@ -1,6 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { and, desc, eq, isNull, sql } from "drizzle-orm";
-import { correctionFromArray } from "../../lib/color/correction";
+import { calibrationOfProfile, correctionOfProfile } from "../../lib/lighting/calibration";
 import type { ProfileForPipeline } from "../../lib/bench/pipeline";
 import { AppError } from "../../lib/errors";
 import type { Db } from "../connection";
@@ -19,9 +19,11 @@ import {
   type NewMeasurement,
   type Region,
   type ReferenceUsed,
+  type Role,
   type TemplateRegion,
 } from "../schema";
 import { recordAudit } from "./audit";
+import { assertBenchProfile } from "./lighting";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
@@ -104,9 +106,9 @@ export function acceptedMeasurements(db: Db, { dyeId }: { dyeId?: string } = {})
 /** A lighting profile in the form the colour pipeline takes; throws 422 for an unknown id. */
 export function profileForPipeline(db: Db, id: string | null): ProfileForPipeline | null {
   if (!id) return null;
-  const p = db.select().from(lightingProfiles).where(eq(lightingProfiles.id, id)).get();
-  if (!p) throw new AppError("invalid_input", "lightingProfileId: no lighting profile has that id; pick one from the list.", { lightingProfileId: ["Unknown lighting profile."] });
-  return { id: p.id, name: p.name, correction: correctionFromArray(p.correctionKind, p.correction), validFrom: p.validFrom, validUntil: p.validUntil };
+  // Draft, retired, expired or not-yet-valid profiles are refused here, whatever the page offered.
+  const p = assertBenchProfile(db, id);
+  return { id: p.id, name: p.name, correction: correctionOfProfile(p), calibration: calibrationOfProfile(p), validFrom: p.validFrom, validUntil: p.validUntil, looMeanDeltaE00: p.looMeanDeltaE00 };
 }
 
 /** The condition row for these values, made if no identical one exists yet. */
@@ -148,6 +150,8 @@ export type MeasurementToSave = {
   spread: number;
   flags: string[];
   flagReason: string | null;
+  /** Standard uncertainties of L*, a*, b* and the combined ± ΔE00 (null when not computed). */
+  uncertainty?: { uL: number; uA: number; uB: number; uDeltaE00: number } | null;
 };
 
 /**
@@ -232,6 +236,10 @@ export function saveMeasurements(
         pixelCount: v.pixels,
         rejectedCount: v.rejected,
         spread: v.spread,
+        uL: v.uncertainty?.uL ?? null,
+        uA: v.uncertainty?.uA ?? null,
+        uB: v.uncertainty?.uB ?? null,
+        uDeltaE00: v.uncertainty?.uDeltaE00 ?? null,
         flags: v.flags,
         flagReason: v.flags.length ? v.flagReason : null,
         reviewState: "pending",
@@ -271,11 +279,22 @@ export function listRackTemplates(db: Db) {
   return db.select().from(rackTemplates).orderBy(rackTemplates.name).all();
 }
 
-/** Saves a layout under a name; a layout saved again under the same name replaces the old one. */
-export function saveRackTemplate(db: Db, { actorId, name, regions }: { actorId: string; name: string; regions: TemplateRegion[] }) {
+/**
+ * A layout belongs to the person who saved it first (`created_by`); only they or an admin may
+ * overwrite or delete it. Everyone on the bench may apply it.
+ */
+function mayChangeTemplate(tx: Pick<Db, "select">, existing: { name: string; createdBy: string }, actor: { id: string; role: Role }) {
+  if (existing.createdBy === actor.id || actor.role === "admin") return;
+  const owner = tx.select({ name: users.name }).from(users).where(eq(users.id, existing.createdBy)).get()?.name ?? "someone else";
+  throw new AppError("forbidden", `The layout “${existing.name}” belongs to ${owner}; only they or an admin may change or delete it. Save yours under another name.`);
+}
+
+/** Saves a layout under a name; saved again under the same name by its owner (or an admin), it replaces the old one. */
+export function saveRackTemplate(db: Db, { actorId, actorRole, name, regions }: { actorId: string; actorRole: Role; name: string; regions: TemplateRegion[] }) {
   return db.transaction((tx) => {
     const existing = tx.select().from(rackTemplates).where(eq(rackTemplates.name, name)).get();
     if (existing) {
+      mayChangeTemplate(tx, existing, { id: actorId, role: actorRole });
       tx.update(rackTemplates).set({ regions, updatedAt: new Date() }).where(eq(rackTemplates.id, existing.id)).run();
       recordAudit(tx, { actorId, action: "rack-template.update", entity: "rack_template", entityId: existing.id, before: { regions: existing.regions }, after: { regions } });
       return existing.id;
@@ -287,10 +306,11 @@ export function saveRackTemplate(db: Db, { actorId, name, regions }: { actorId: 
   });
 }
 
-export function deleteRackTemplate(db: Db, { actorId, id }: { actorId: string; id: string }) {
+export function deleteRackTemplate(db: Db, { actorId, actorRole, id }: { actorId: string; actorRole: Role; id: string }) {
   db.transaction((tx) => {
     const existing = tx.select().from(rackTemplates).where(eq(rackTemplates.id, id)).get();
     if (!existing) throw new AppError("not_found", "That template no longer exists.");
+    mayChangeTemplate(tx, existing, { id: actorId, role: actorRole });
     tx.delete(rackTemplates).where(eq(rackTemplates.id, id)).run();
     recordAudit(tx, { actorId, action: "rack-template.delete", entity: "rack_template", entityId: id, before: { name: existing.name, regions: existing.regions } });
   });

@@ -6,8 +6,10 @@
  */
 import { randomUUID } from "node:crypto";
 import { eq } from "drizzle-orm";
-import { runPipeline, type PipelineResult, type ReferenceInput } from "../../lib/bench/pipeline";
-import { ColorInputError, decodePhoto, type DecodedPhoto, type RegionSpec } from "../../lib/color/regions";
+import type { PipelineResult, ReferenceInput } from "../../lib/bench/pipeline";
+import { ColorInputError, type DecodedPhoto, type RegionSpec } from "../../lib/color/regions";
+import { env } from "../../lib/config/env";
+import { decodeOnWorker, measureOnWorker } from "../../lib/workers/pool";
 import { AppError } from "../../lib/errors";
 import { derivedKeyFor, keyFor, sha256OfBytes, STORE_PREFIXES, type ObjectStore } from "../../lib/storage/driver";
 import { inspectPhoto, makeDerivatives, type PhotoLimits } from "../../lib/storage/photo-intake";
@@ -15,6 +17,7 @@ import type { Db } from "../connection";
 import { lightingProfiles, photos, type Photo } from "../schema";
 import { recordAudit } from "./audit";
 import { profileForPipeline } from "./bench";
+import { assertBenchProfile } from "./lighting";
 
 export type StorePhotoResult = { photo: Photo; duplicate: boolean };
 
@@ -32,14 +35,14 @@ export async function storePhoto(
   if (known) return { photo: known, duplicate: true };
 
   if (input.lightingProfileId) {
-    const profile = db.select({ id: lightingProfiles.id }).from(lightingProfiles).where(eq(lightingProfiles.id, input.lightingProfileId)).get();
-    if (!profile) throw new AppError("invalid_input", "lightingProfileId: no lighting profile has that id. Pick one from the Lighting page, or leave it out.", { lightingProfileId: ["Unknown lighting profile."] });
+    // Unknown, draft, retired or expired profiles are refused (the sentence says which and what to do).
+    assertBenchProfile(db, input.lightingProfileId);
   }
   const facts = await inspectPhoto(input.bytes, input.limits);
   const derived = await makeDerivatives(input.bytes, input.limits);
   // The colour engine must be able to measure what is accepted: decode once as it will.
   try {
-    await decodePhoto(input.bytes, { maxPixels: input.limits.maxPixels });
+    await decodeOnWorker({ bytes: input.bytes, maxPixels: input.limits.maxPixels });
   } catch (error) {
     if (error instanceof ColorInputError) throw new AppError("invalid_input", error.message);
     throw error;
@@ -102,7 +105,7 @@ export function getPhoto(db: Db, id: string): Photo | undefined {
 export async function photoDerivative(db: Db, store: ObjectStore, photo: Photo, variant: "thumb" | "display", limits: Pick<PhotoLimits, "maxPixels">): Promise<Buffer> {
   const existing = variant === "thumb" ? photo.thumbKey : photo.displayKey;
   if (existing && (await store.has(existing))) return store.read(existing);
-  const derived = await makeDerivatives(await store.read(photo.storageKey), limits);
+  const derived = await makeDerivatives(await readPhotoBytes(store, photo), limits);
   const thumbKey = derivedKeyFor(photo.sha256, "thumb");
   const displayKey = derivedKeyFor(photo.sha256, "display");
   await Promise.all([store.write(thumbKey, derived.thumb, "image/jpeg"), store.write(displayKey, derived.display, "image/jpeg")]);
@@ -150,25 +153,72 @@ export async function sweepOrphanFiles(db: Db, store: ObjectStore, { graceMs = 6
   return report;
 }
 
+/**
+ * The original bytes of a stored photo. A file missing from storage (deleted by hand, a restore that
+ * left it out) answers 410 with what to do, instead of a server error.
+ */
+export async function readPhotoBytes(store: ObjectStore, photo: Photo): Promise<Buffer> {
+  try {
+    return await store.read(photo.storageKey);
+  } catch (error) {
+    if (!(await store.has(photo.storageKey).catch(() => true))) {
+      throw new AppError("gone", `The file of photo ${photo.originalName} is missing from storage, so it cannot be shown or measured. Upload the photo again, or ask an admin to restore it from a backup.`);
+    }
+    throw error;
+  }
+}
+
 // ---------------------------------------------------------------- decoded photos for measuring
 
-const decodedCache = new Map<string, Promise<DecodedPhoto>>();
-/** Decoded photos kept in memory while someone marks them (a 12 MP photo is ≈ 36 MB decoded). */
-const DECODED_CACHE_SIZE = 3;
+/**
+ * Decoded photos kept in memory while someone marks them, bounded by their size in bytes (a 12 MP
+ * photo is ≈ 36 MB decoded, a 16-bit one twice that), least recently used first out.
+ */
+type CacheEntry = { photo: Promise<DecodedPhoto>; bytes: number };
+const decodedCache = new Map<string, CacheEntry>();
 
-/** The photo decoded once by the colour engine (EXIF orientation applied), cached for live measuring. */
+function cacheLimitBytes(): number {
+  return Math.round(env().DECODED_CACHE_MB * 1048576);
+}
+
+/** Bytes of decoded pixels held by the cache now. */
+export function decodedCacheBytes(): number {
+  let total = 0;
+  for (const e of decodedCache.values()) total += e.bytes;
+  return total;
+}
+
+function evictDecoded(limit: number) {
+  for (const [key, entry] of decodedCache) {
+    if (decodedCacheBytes() <= limit) break;
+    if (entry.bytes > 0) decodedCache.delete(key);
+  }
+}
+
+/** The photo decoded once by the colour engine (on a worker, EXIF orientation applied), cached for live measuring. */
 export function decodedPhoto(store: ObjectStore, photo: Photo, maxPixels: number): Promise<DecodedPhoto> {
   const hit = decodedCache.get(photo.sha256);
   if (hit) {
     decodedCache.delete(photo.sha256);
     decodedCache.set(photo.sha256, hit);
-    return hit;
+    return hit.photo;
   }
-  const loading = store.read(photo.storageKey).then((bytes) => decodePhoto(bytes, { maxPixels }));
-  loading.catch(() => decodedCache.delete(photo.sha256));
-  decodedCache.set(photo.sha256, loading);
-  while (decodedCache.size > DECODED_CACHE_SIZE) decodedCache.delete(decodedCache.keys().next().value!);
-  return loading;
+  const entry: CacheEntry = { photo: readPhotoBytes(store, photo).then((bytes) => decodeOnWorker({ bytes, maxPixels })), bytes: 0 };
+  decodedCache.set(photo.sha256, entry);
+  entry.photo.then(
+    (decoded) => {
+      const limit = cacheLimitBytes();
+      if (decodedCache.get(photo.sha256) !== entry) return;
+      if (decoded.data.byteLength > limit) {
+        decodedCache.delete(photo.sha256);
+        return;
+      }
+      entry.bytes = decoded.data.byteLength;
+      evictDecoded(limit);
+    },
+    () => decodedCache.delete(photo.sha256),
+  );
+  return entry.photo;
 }
 
 /**
@@ -183,9 +233,9 @@ export async function measureOnPhoto(
   input: { lightingProfileId: string | null; references: ReferenceInput[]; vials: RegionSpec[]; maxPixels: number },
 ): Promise<PipelineResult> {
   const profile = profileForPipeline(db, input.lightingProfileId);
-  const decoded = await decodedPhoto(store, photo, input.maxPixels);
   try {
-    return runPipeline(decoded, { vials: input.vials, references: input.references, profile, takenAt: photo.takenAt ?? photo.createdAt });
+    const decoded = await decodedPhoto(store, photo, input.maxPixels);
+    return await measureOnWorker({ photo: decoded, input: { vials: input.vials, references: input.references, profile, takenAt: photo.takenAt ?? photo.createdAt } });
   } catch (error) {
     if (error instanceof ColorInputError) throw new AppError("invalid_input", error.message);
     throw error;

@@ -1,6 +1,7 @@
 import { and, desc, eq, gt, isNull, sql } from "drizzle-orm";
 import type { Db } from "../connection";
 import { apiTokens, invitations, passwordResets, signInAttempts, users, type Role, type User } from "../schema";
+import { AppError } from "../../lib/errors";
 import { recordAudit } from "./audit";
 
 /** What may leave the database about a person (never the password hash). */
@@ -26,21 +27,39 @@ export function listUsers(db: Db): PublicUser[] {
   return db.select().from(users).orderBy(users.name).all().map(toPublicUser);
 }
 
+const NO_SUCH_PERSON = "This person's account no longer exists; reload the people page.";
+
+type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+
+/**
+ * Revokes every live API token of a person, with one audit entry. Revoked is final: reactivating the
+ * account later does not bring the tokens back.
+ */
+export function revokeAllApiTokens(tx: Db | Tx, { actorId, userId, reason }: { actorId: string | null; userId: string; reason: string }): number {
+  const revokedAt = new Date();
+  const { changes } = tx.update(apiTokens).set({ revokedAt }).where(and(eq(apiTokens.userId, userId), isNull(apiTokens.revokedAt))).run();
+  if (changes > 0) recordAudit(tx, { actorId, action: "token.revoke-all", entity: "user", entityId: userId, after: { revoked: changes, reason } });
+  return changes;
+}
+
+/** Throws not_found (and changes nothing) when there is no such person. */
 export function setUserRole(db: Db, { actorId, userId, role }: { actorId: string; userId: string; role: Role }) {
   db.transaction((tx) => {
     const before = tx.select().from(users).where(eq(users.id, userId)).get();
-    if (!before) return;
+    if (!before) throw new AppError("not_found", NO_SUCH_PERSON);
     tx.update(users).set({ role }).where(eq(users.id, userId)).run();
     recordAudit(tx, { actorId, action: "user.role", entity: "user", entityId: userId, before: { role: before.role }, after: { role } });
   });
 }
 
+/** Deactivating also revokes the person's API tokens for good. Throws not_found for an unknown person. */
 export function setUserActive(db: Db, { actorId, userId, active }: { actorId: string; userId: string; active: boolean }) {
   db.transaction((tx) => {
     const before = tx.select().from(users).where(eq(users.id, userId)).get();
-    if (!before) return;
+    if (!before) throw new AppError("not_found", NO_SUCH_PERSON);
     const deactivatedAt = active ? null : new Date();
     tx.update(users).set({ deactivatedAt }).where(eq(users.id, userId)).run();
+    if (!active) revokeAllApiTokens(tx, { actorId, userId, reason: "deactivated" });
     recordAudit(tx, {
       actorId,
       action: active ? "user.reactivate" : "user.deactivate",
@@ -58,18 +77,30 @@ export function recordSignInAttempt(db: Db, a: { email: string; ip: string; succ
   db.insert(signInAttempts).values({ ...a, email: normalizeEmail(a.email), at: new Date() }).run();
 }
 
-export function countRecentFailures(db: Db, { email, ip, since }: { email: string; ip: string; since: Date }) {
-  const byEmail = db
-    .select({ n: sql<number>`count(*)` })
+/**
+ * Recent failed sign-ins for an account (only those after its last successful sign-in) and for a
+ * client address, each with the time of the latest one.
+ */
+export function recentFailures(db: Db, { email, ip, since }: { email: string; ip: string; since: Date }) {
+  const address = normalizeEmail(email);
+  const lastSuccess = db
+    .select({ at: sql<number | null>`max(${signInAttempts.at})` })
     .from(signInAttempts)
-    .where(and(eq(signInAttempts.email, normalizeEmail(email)), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, since)))
-    .get();
-  const byIp = db
-    .select({ n: sql<number>`count(*)` })
-    .from(signInAttempts)
-    .where(and(eq(signInAttempts.ip, ip), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, since)))
-    .get();
-  return { email: byEmail?.n ?? 0, ip: byIp?.n ?? 0 };
+    .where(and(eq(signInAttempts.email, address), eq(signInAttempts.succeeded, true), gt(signInAttempts.at, since)))
+    .get()?.at;
+  const accountSince = lastSuccess && lastSuccess > since.getTime() ? new Date(lastSuccess) : since;
+  const summary = (where: ReturnType<typeof and>) => {
+    const row = db
+      .select({ n: sql<number>`count(*)`, last: sql<number | null>`max(${signInAttempts.at})` })
+      .from(signInAttempts)
+      .where(where)
+      .get();
+    return { count: row?.n ?? 0, lastAt: row?.last ? new Date(row.last) : null };
+  };
+  return {
+    account: summary(and(eq(signInAttempts.email, address), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, accountSince))),
+    address: summary(and(eq(signInAttempts.ip, ip), eq(signInAttempts.succeeded, false), gt(signInAttempts.at, since))),
+  };
 }
 
 // ---------------------------------------------------------------- invitations and resets

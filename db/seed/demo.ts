@@ -9,7 +9,10 @@ import { WHITE_POINTS_2DEG } from "../../lib/color/illuminants";
 import { xyzToLab } from "../../lib/color/lab";
 import { applyCorrection, correctionToArray, fitMatrix3x3 } from "../../lib/color/correction";
 import type { Mat3 } from "../../lib/color/matrix";
+import { linearSrgbToLab } from "../../lib/color/convert";
+import { deltaE00 } from "../../lib/color/difference";
 import { linearSrgbToXyzD65, mat3MulVec, srgbEncode, xyzD65ToLinearSrgb } from "../../lib/color/srgb";
+import { lambdaMax } from "../../lib/color/spectrum";
 import type { Lab, LinearRgb, Vec3 } from "../../lib/color/types";
 import { hashPassword } from "../../lib/auth/password";
 import { LocalStorage } from "../../lib/storage/local";
@@ -31,6 +34,7 @@ import {
   type Solvent,
 } from "../schema";
 import { recordAudit } from "../queries/audit";
+import { ensureAllDyeModels } from "../queries/models";
 import { demoColour, demoDyes, demoSpectrum, gaussian, rng, type DemoDye } from "./demo-model";
 import { buildSolventTable } from "./solvent-table";
 
@@ -149,7 +153,7 @@ function plan(dyeList: DemoDye[], solventByName: Map<string, Solvent>, random: (
 }
 
 /** Seeds the invented demo scenario if there are no users yet. Returns what it added. */
-export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: number; dyes: number; measurements: number; photos: number } | null> {
+export async function seedDemo(db: Db, dataDirectory: string, options: { models?: boolean } = {}): Promise<{ users: number; dyes: number; measurements: number; photos: number } | null> {
   seedSolvents(db);
   if (count(db, users) > 0) return null;
 
@@ -172,6 +176,8 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
     }));
     const fit = fitMatrix3x3(patches, "D65");
     const stored = correctionToArray(fit.correction);
+    // Leave-one-out: each patch predicted by the fit to the others (what approval is judged by).
+    const loo = patches.map((p, k) => deltaE00(linearSrgbToLab(applyCorrection(fitMatrix3x3(patches.filter((_, j) => j !== k), "D65").correction, p.measured), "D65"), p.referenceLab));
     return {
       fit,
       row: {
@@ -183,12 +189,18 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
         targetId: "ct_demo_card",
         correctionKind: stored.kind,
         correction: stored.values,
-        residuals: CARD_PATCHES.map((p, k) => ({ patch: p.name, deltaE00: Math.round(fit.residuals[k].deltaE00 * 1e4) / 1e4 })),
+        residuals: CARD_PATCHES.map((p, k) => ({ patch: p.name, deltaE00: Math.round(fit.residuals[k].deltaE00 * 1e4) / 1e4, looDeltaE00: Math.round(loo[k] * 1e4) / 1e4 })),
         validFrom: new Date(i === 0 ? "2026-03-01T08:00:00Z" : "2026-06-01T08:00:00Z"),
         validUntil: i === 0 ? new Date("2026-05-31T18:00:00Z") : null,
         approvedBy: admin.id,
         approvedAt: new Date(i === 0 ? "2026-03-01T09:00:00Z" : "2026-06-01T09:00:00Z"),
         createdBy: admin.id,
+        state: "approved" as const,
+        colourTemperatureK: 6500,
+        cameraSettings: i === 0 ? "Manual: 1/60 s, f/8, ISO 100, white balance 6500 K, HDR off" : "Manual: 1/125 s, f/5.6, ISO 200, white balance daylight, HDR off",
+        method: "matrix-3x3",
+        looMeanDeltaE00: Math.round((loo.reduce((s, v) => s + v, 0) / loo.length) * 1e4) / 1e4,
+        looMaxDeltaE00: Math.round(Math.max(...loo) * 1e4) / 1e4,
       },
     };
   });
@@ -304,6 +316,9 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
         description: "Demo calibration card; reference values from its (invented) certificate, CIELAB D65.",
         whitePoint: "D65",
         patches: CARD_PATCHES.map((p) => ({ name: p.name, lab: labOfLinear(p.rgb) })),
+        gridRows: 2,
+        gridColumns: 4,
+        source: "Invented certificate of the demo card",
       })
       .run();
     for (const p of profileDefs) tx.insert(lightingProfiles).values(p.row).run();
@@ -344,15 +359,13 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
           conditionRows.set(condKey, { id: conditionId, solventId: solvent.id, acidBase: "neutral" });
         }
         const s = demoSpectrum(d, { alpha: solvent.ktAlpha ?? 0, beta: solvent.ktBeta ?? 0, piStar: solvent.ktPiStar ?? 0 }, null);
-        let peak = 0;
-        s.values.forEach((v, i) => (v > s.values[peak] ? (peak = i) : null));
         tx.insert(spectra)
           .values({
             id: `sp_demo_${families.size}_${name.toLowerCase().replace(/[^a-z]+/g, "")}`,
             dyeId: `dye_${d.code.toLowerCase()}`,
             conditionId,
             points: s.wavelengths.map((w, i) => [w, Math.round((s.values[i] + 0.002 * gaussian(random)) * 1e4) / 1e4] as [number, number]),
-            lambdaMaxNm: s.wavelengths[peak],
+            lambdaMaxNm: lambdaMax(s),
             concentrationUmolL: 20,
             pathLengthMm: 10,
             instrument: "Demo UV-Vis, 1 cm quartz cell",
@@ -376,6 +389,10 @@ export async function seedDemo(db: Db, dataDirectory: string): Promise<{ users: 
       after: { dyes: dyeList.length, measurements: measurementRows.length, photos: photoRows.length },
     });
   });
+
+  // Solvent models and their predictions, so search with predictions answers at once (≈ 1 s of CPU per
+  // dye; off by default so tests that only need the measurements stay fast).
+  if (options.models) ensureAllDyeModels(db);
 
   return { users: DEMO_USERS.length, dyes: dyeList.length, measurements: measurementRows.length, photos: photoRows.length };
 }

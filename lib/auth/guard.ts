@@ -7,8 +7,11 @@ import { unstable_rethrow } from "next/navigation";
 import { z } from "zod";
 import { db } from "@/db/client";
 import type { Role } from "@/db/schema";
+import { bodyLimitBytes, trustedProxies } from "@/lib/config/env";
 import { AppError, isAppError } from "@/lib/errors";
-import { identifyCaller, sameOrigin } from "./request";
+import { checkDeclaredLength, readLimited } from "@/lib/net/limited-body";
+import { checkSameOrigin, CSRF_MESSAGE } from "@/lib/net/same-origin";
+import { identifyCaller } from "./request";
 import { describeAllowed, hasRole } from "./roles";
 import type { AuthUser } from "./service";
 import { currentUser } from "./session";
@@ -85,15 +88,22 @@ export function apiRoute<Q extends z.ZodType = z.ZodType<Record<string, never>>,
       const user = caller.kind === "user" ? caller.user : null;
       authorize(user, spec.access);
       const mutating = !["GET", "HEAD", "OPTIONS"].includes(req.method);
-      if (mutating && caller.kind === "user" && caller.via === "session" && !sameOrigin(req.headers)) {
-        throw new AppError("forbidden", "This request did not come from a Solvatlas page; reload the page and try again.");
+      // Cookies ride along on cross-site requests; tokens do not. X-Forwarded-Host counts only from TRUSTED_PROXIES.
+      if (mutating && caller.kind === "user" && caller.via === "session" && !checkSameOrigin(req.headers, trustedProxies()).ok) {
+        throw new AppError("forbidden", CSRF_MESSAGE);
       }
       const query = spec.query ? parseInput(spec.query, Object.fromEntries(new URL(req.url).searchParams)) : {};
       let body: unknown = undefined;
       if (spec.body) {
-        const raw = await req.json().catch(() => {
+        const limit = bodyLimitBytes();
+        checkDeclaredLength(req.headers, limit);
+        const bytes = await readLimited(req.body, limit);
+        let raw: unknown;
+        try {
+          raw = JSON.parse(new TextDecoder().decode(bytes));
+        } catch {
           throw new AppError("invalid_input", "The request body must be valid JSON.");
-        });
+        }
         body = parseInput(spec.body, raw);
       }
       const params = (context ? await context.params : {}) as P;

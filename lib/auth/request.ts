@@ -35,18 +35,3 @@ export async function identifyCaller(db: Db, headers: Headers): Promise<Caller> 
   const result = await validateSessionId(db, sessionId);
   return result ? { kind: "user", user: result.user, via: "session" } : { kind: "invalid", reason: "Your session has ended. Sign in again." };
 }
-
-/**
- * Cookie-authenticated mutations must come from our own pages: the Origin (or Referer) host must be
- * the Host the request was sent to. Token-authenticated calls are not exposed to cross-site forgery.
- */
-export function sameOrigin(headers: Headers): boolean {
-  const host = headers.get("x-forwarded-host") ?? headers.get("host");
-  const origin = headers.get("origin") ?? headers.get("referer");
-  if (!host || !origin) return false;
-  try {
-    return new URL(origin).host === host;
-  } catch {
-    return false;
-  }
-}

@@ -6,13 +6,14 @@ import { and, eq, isNull } from "drizzle-orm";
 import type { Db } from "@/db/connection";
 import { recordAudit } from "@/db/queries/audit";
 import {
-  countRecentFailures,
   findActiveToken,
   findInvitationByHash,
   findResetByHash,
   findUserByEmail,
   findUserById,
   normalizeEmail,
+  recentFailures,
+  revokeAllApiTokens,
   recordSignInAttempt,
   toPublicUser,
   type PublicUser,
@@ -21,11 +22,10 @@ import { apiTokens, invitations, passwordResets, users, type Role } from "@/db/s
 import { AppError } from "@/lib/errors";
 import { luciaFor } from "./lucia";
 import { dummyPasswordHash, hashPassword, verifyPassword } from "./password";
+import { ACCOUNT_POLICY, ADDRESS_POLICY, remainingWait, THROTTLE_WINDOW_MS } from "./throttle";
 import { newApiToken, newId, newSecret, sha256Hex } from "./tokens";
 
-export const THROTTLE_WINDOW_MS = 15 * 60 * 1000;
-export const MAX_FAILURES_PER_EMAIL = 5;
-export const MAX_FAILURES_PER_IP = 25;
+export { THROTTLE_WINDOW_MS };
 export const INVITATION_TTL_MS = 7 * 24 * 3600 * 1000;
 export const RESET_TTL_MS = 60 * 60 * 1000;
 
@@ -35,17 +35,26 @@ function isActive(user: { deactivatedAt: Date | number | null }): boolean {
   return user.deactivatedAt === null;
 }
 
-/** Checks the password and opens a session; throttles repeated failures per e-mail and per address. */
+/**
+ * Checks the password and opens a session. Repeated failures slow further attempts down, per account
+ * and per client address (lib/auth/throttle.ts); an attempt that comes too early is refused without
+ * looking at the password, and once the wait is over the right password works again.
+ */
 export async function signInWithPassword(
   db: Db,
   { email, password, ip }: { email: string; password: string; ip: string },
 ): Promise<{ user: AuthUser; sessionId: string; expiresAt: Date }> {
-  const since = new Date(Date.now() - THROTTLE_WINDOW_MS);
-  const failures = countRecentFailures(db, { email, ip, since });
-  if (failures.email >= MAX_FAILURES_PER_EMAIL || failures.ip >= MAX_FAILURES_PER_IP) {
+  const now = Date.now();
+  const failures = recentFailures(db, { email, ip, since: new Date(now - THROTTLE_WINDOW_MS) });
+  const waitMs = Math.max(remainingWait(failures.account, ACCOUNT_POLICY, now), remainingWait(failures.address, ADDRESS_POLICY, now));
+  if (waitMs > 0) {
+    const seconds = Math.ceil(waitMs / 1000);
+    console.warn(
+      JSON.stringify({ event: "sign-in.throttled", email: normalizeEmail(email), ip, accountFailures: failures.account.count, addressFailures: failures.address.count, waitSeconds: seconds }),
+    );
     throw new AppError(
       "rate_limited",
-      "Too many failed sign-ins. Wait 15 minutes and try again, or ask an admin to send you a password reset.",
+      `Too many failed sign-ins. Wait ${seconds} second${seconds === 1 ? "" : "s"} and try again, or use "Forgot your password?" to get a reset link.`,
     );
   }
   const user = findUserByEmail(db, { email });
@@ -54,6 +63,7 @@ export async function signInWithPassword(
     : (await verifyPassword(await dummyPasswordHash(), password), false);
   if (!user || !ok) {
     recordSignInAttempt(db, { email, ip, succeeded: false });
+    console.warn(JSON.stringify({ event: "sign-in.failed", email: normalizeEmail(email), ip }));
     throw new AppError("unauthenticated", "That e-mail and password do not match. Check both and try again.");
   }
   if (!isActive(user)) {
@@ -216,12 +226,18 @@ export async function completePasswordReset(db: Db, { secret, password }: { secr
     if (claimed.changes !== 1) throw new AppError("invalid_input", "This reset link was already used.");
     tx.update(users).set({ passwordHash }).where(eq(users.id, reset.userId)).run();
     recordAudit(tx, { actorId: reset.userId, action: "user.password-reset", entity: "user", entityId: reset.userId });
+    // A reset is the way back in after losing control of the account: tokens made before it go too.
+    revokeAllApiTokens(tx, { actorId: reset.userId, userId: reset.userId, reason: "password reset" });
   });
   await invalidateAllSessions(db, reset.userId);
   return toPublicUser(findUserById(db, { id: reset.userId })!);
 }
 
-/** Changes a signed-in person's password after checking the current one; ends their other sessions. */
+/**
+ * Changes a signed-in person's password after checking the current one; ends their other sessions.
+ * API tokens are kept (the person proved the current password, and lab scripts keep running); they are
+ * listed on the account page to revoke one by one. A password reset, by contrast, revokes them all.
+ */
 export async function changePassword(
   db: Db,
   { userId, currentPassword, newPassword, keepSessionId }: { userId: string; currentPassword: string; newPassword: string; keepSessionId: string | null },

@@ -2,7 +2,8 @@ import "server-only";
 import { cookies, headers } from "next/headers";
 import { cache } from "react";
 import { db } from "@/db/client";
-import { env } from "@/lib/config/env";
+import { env, trustedProxies } from "@/lib/config/env";
+import { forwardedView } from "@/lib/net/client-address";
 import { SESSION_COOKIE } from "./lucia";
 import { validateSessionId, type AuthUser } from "./service";
 
@@ -27,8 +28,7 @@ export const currentUser = cache(async (): Promise<AuthUser | null> => {
 async function secureCookies(): Promise<boolean> {
   const setting = env().SECURE_COOKIES;
   if (setting !== "auto") return setting === "true";
-  const h = await headers();
-  return (h.get("x-forwarded-proto") ?? "").split(",")[0].trim() === "https";
+  return forwardedView(await headers(), trustedProxies()).proto === "https";
 }
 
 export async function writeSessionCookie(sessionId: string, expiresAt: Date): Promise<void> {
@@ -51,7 +51,7 @@ export async function sessionIdFromCookie(): Promise<string | null> {
   return (await cookies()).get(SESSION_COOKIE)?.value ?? null;
 }
 
+/** The caller's address: the socket peer, or what a trusted proxy (TRUSTED_PROXIES) forwarded. */
 export async function clientIp(): Promise<string> {
-  const h = await headers();
-  return (h.get("x-forwarded-for") ?? "").split(",")[0].trim() || h.get("x-real-ip") || "local";
+  return forwardedView(await headers(), trustedProxies()).address;
 }

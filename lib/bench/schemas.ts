@@ -15,7 +15,13 @@ const labSchema = z.tuple([z.number().min(0).max(100), z.number().min(-200).max(
   error: "Give the reference's known L*, a*, b* (L* 0–100).",
 });
 
-export const referenceSchema = z.object({ region: regionSchema, lab: labSchema, label: z.string().trim().max(80).optional() });
+export const referenceSchema = z.object({
+  region: regionSchema,
+  lab: labSchema,
+  label: z.string().trim().max(80).optional(),
+  /** White point the known Lab is given under (D65 when left out); D50 values are Bradford-adapted. */
+  whitePoint: z.enum(["D65", "D50"], { error: "A reference's white point is D65 or D50." }).optional(),
+});
 
 const profileId = z
   .string()
@@ -53,6 +59,8 @@ export const saveRequestSchema = z.object({
   lightingProfileId: profileId,
   references: z.array(referenceSchema).max(10).default([]),
   vials: z.array(vialSchema).min(1, { error: "Mark at least one vial before saving." }).max(200),
+  /** Regions holding a registered check standard: each one's ΔE00 to its known value is recorded. */
+  checkStandards: z.array(z.object({ region: regionSchema, standardId: z.string().min(1).max(100) })).max(10).default([]),
 });
 export type SaveRequest = z.infer<typeof saveRequestSchema>;
 

@@ -1,20 +1,21 @@
 import { readFile } from "node:fs/promises";
 import { parseArgs } from "node:util";
-import { fitWhiteScaling, type Correction } from "../color/correction";
 import type { LabWhite } from "../color/convert";
 import { ColorInputError } from "../color/errors";
 import type { WhitePointName } from "../color/illuminants";
-import { colourOfRegion } from "../color/measure";
+import { measureCalibratedColour, type DayReference } from "../color/calibrated-measure";
 import { decodePhoto, measureRegion, type RegionSpec } from "../color/regions";
-import { fitPkaHendersonHasselbalch, parsePhSeriesCsv } from "../color/pka";
+import { fitPkaFromColours, parsePhSeriesCsv } from "../color/pka";
 import { parseAbsorbanceCsv, spectrumColour } from "../color/spectrum";
 import type { Lab } from "../color/types";
+import { readCalibrationFile } from "./calibration-file";
 import { CliError } from "./errors";
 
-const MEASURE_USAGE = "use 'measure <image> --roi x,y,w,h [--roi ...] [--white x,y,w,h --white-lab L,a,b] [--white-point D65|D50]'";
+const MEASURE_USAGE =
+  "use 'measure <image> --roi x,y,w,h [--roi ...] [--white x,y,w,h --white-lab L,a,b] [--white-point D65|D50] [--calibration FILE]'";
 const SPECTRUM_USAGE = "use 'spectrum <csv> [--illuminant D65|D50|A] [--scale k]'";
 
-function parse<T extends Record<string, { type: "string"; multiple?: boolean }>>(args: string[], options: T, usage: string) {
+export function parse<T extends Record<string, { type: "string"; multiple?: boolean }>>(args: string[], options: T, usage: string) {
   try {
     return parseArgs({ args, options, strict: true, allowPositionals: true });
   } catch (error) {
@@ -31,11 +32,11 @@ function parse<T extends Record<string, { type: "string"; multiple?: boolean }>>
 }
 
 /** A plain decimal number (no hex, no empty string, no "1e", no trailing junk). */
-function toNumber(s: string): number {
+export function toNumber(s: string): number {
   return /^\s*[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?\s*$/.test(s) ? Number(s) : NaN;
 }
 
-function numberList(value: string, count: number, option: string, example: string): number[] {
+export function numberList(value: string, count: number, option: string, example: string): number[] {
   const parts = value.split(",");
   const nums = parts.map(toNumber);
   if (parts.length !== count || nums.some((n) => !Number.isFinite(n))) {
@@ -44,7 +45,7 @@ function numberList(value: string, count: number, option: string, example: strin
   return nums;
 }
 
-function parseBox(value: string, option: string): [number, number, number, number] {
+export function parseBox(value: string, option: string): [number, number, number, number] {
   const nums = numberList(value, 4, option, "120,80,200,200");
   if (!nums.every((n) => Number.isInteger(n) && n >= 0)) {
     throw new CliError(`${option} takes whole non-negative pixel numbers x,y,w,h, and got '${value}'.`);
@@ -53,7 +54,7 @@ function parseBox(value: string, option: string): [number, number, number, numbe
   return nums as [number, number, number, number];
 }
 
-async function readInput(file: string | undefined, what: string, usage: string): Promise<Buffer> {
+export async function readInput(file: string | undefined, what: string, usage: string): Promise<Buffer> {
   if (!file) throw new CliError(`Give the ${what} file to read; ${usage}.`);
   try {
     return await readFile(file);
@@ -66,7 +67,7 @@ async function readInput(file: string | undefined, what: string, usage: string):
   }
 }
 
-function asCliError(error: unknown): never {
+export function asCliError(error: unknown): never {
   if (error instanceof ColorInputError) throw new CliError(error.message);
   throw error;
 }
@@ -79,6 +80,7 @@ export async function measureCommand(args: string[]): Promise<unknown> {
       white: { type: "string" },
       "white-lab": { type: "string" },
       "white-point": { type: "string" },
+      calibration: { type: "string" },
     },
     MEASURE_USAGE,
   );
@@ -95,19 +97,21 @@ export async function measureCommand(args: string[]): Promise<unknown> {
   const whiteLab = values["white-lab"] !== undefined ? (numberList(values["white-lab"], 3, "--white-lab", "95,0,0") as Lab) : undefined;
   const bytes = await readInput(positionals[0], "image", MEASURE_USAGE);
 
+  const calibration = values.calibration !== undefined ? await readCalibrationFile(values.calibration) : null;
+
   try {
     const photo = await decodePhoto(bytes);
     const rect = (b: number[]): RegionSpec => ({ shape: "rect", x: b[0], y: b[1], w: b[2], h: b[3] });
-    let correction: Correction = { kind: "none" };
+    let reference: DayReference | undefined;
     let referenceFlags: string[] = [];
     if (whiteBox && whiteLab) {
-      const ref = measureRegion(photo, rect(whiteBox));
-      correction = fitWhiteScaling({ measured: ref.linearRgb, referenceLab: whiteLab }, white).correction;
-      referenceFlags = ref.flags.map((f) => `reference-${f}`);
+      reference = { stats: measureRegion(photo, rect(whiteBox)), lab: whiteLab };
+      referenceFlags = reference.stats.flags.map((f) => `reference-${f}`);
     }
     const measurements = rois.map((box) => {
       const stats = measureRegion(photo, rect(box));
-      const colour = colourOfRegion(stats, correction, white);
+      // The calibration (if any) first, then the day's --white reference: see measureCalibratedColour.
+      const colour = measureCalibratedColour(stats, { calibration, white, reference, encoding: photo.format });
       return {
         roi: box,
         lab: colour.lab,
@@ -116,8 +120,12 @@ export async function measureCommand(args: string[]): Promise<unknown> {
         pixels: stats.pixels,
         rejected: stats.rejected,
         flags: [...colour.flags, ...referenceFlags],
-        // Added to the contract's fields: the region's pixel-to-pixel scatter in ΔE*ab.
+        // Added to the contract's fields: the region's pixel-to-pixel scatter in ΔE*ab, and the
+        // combined standard uncertainty (± ΔE00) with u(L*), u(a*), u(b*) (lib/color/uncertainty.ts).
         spread: stats.spread,
+        uncertaintyDeltaE00: colour.uncertainty.uDeltaE00,
+        uncertaintyLab: colour.uncertainty.uLab,
+        uncertaintyIncludesCalibration: colour.uncertainty.calibrationIncluded,
       };
     });
     return { measurements };
@@ -162,7 +170,7 @@ export async function pkaCommand(args: string[]): Promise<unknown> {
   const bytes = await readInput(positionals[0], "pH series CSV", PKA_USAGE);
   try {
     const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
-    const fit = fitPkaHendersonHasselbalch(parsePhSeriesCsv(text), blank);
+    const fit = fitPkaFromColours(parsePhSeriesCsv(text), blank);
     return {
       pKa: fit.pKa,
       pKaStdErr: fit.pKaStdErr,
@@ -170,6 +178,15 @@ export async function pkaCommand(args: string[]): Promise<unknown> {
       acidLab: fit.acidLab,
       baseLab: fit.baseLab,
       rmsDeltaE00: fit.rmsDeltaE00,
+      // Beyond the contract: how the figures were made and what to watch.
+      method: fit.method,
+      apparent: true,
+      transitionThresholdDeltaE00: fit.transitionThresholdDeltaE00,
+      bootstrapRuns: fit.bootstrapRuns,
+      acidBand: fit.acidBand,
+      baseBand: fit.baseBand,
+      flags: fit.flags,
+      messages: fit.messages,
     };
   } catch (error) {
     if (error instanceof TypeError) throw new CliError("The pH series file is not UTF-8 text; save it as a plain CSV file.");

@@ -1,10 +1,12 @@
 import { parseArgs } from "node:util";
+import { calibrateCommand } from "./calibration-commands";
 import { measureCommand, pkaCommand, spectrumCommand } from "./color-commands";
 import { CliError } from "./errors";
+import { fitCommand } from "./fit-command";
 
 export { CliError };
 
-const COMMAND_LIST = "measure <image> --roi x,y,w,h, spectrum <csv>, pka <csv> or token create --email <user> --name <label>";
+const COMMAND_LIST = "measure <image> --roi x,y,w,h, calibrate <image> --patch x,y,w,h=L,a,b, spectrum <csv>, pka <csv>, fit <csv> [--model kamlet-taft|et30|permittivity] or token create --email <user> --name <label>";
 
 type Command = (args: string[]) => Promise<unknown>;
 
@@ -40,7 +42,7 @@ const tokenCommand: Command = async (args) => {
   }
 };
 
-export const COMMANDS: Record<string, Command> = { measure: measureCommand, spectrum: spectrumCommand, pka: pkaCommand, token: tokenCommand };
+export const COMMANDS: Record<string, Command> = { measure: measureCommand, calibrate: calibrateCommand, spectrum: spectrumCommand, pka: pkaCommand, fit: fitCommand, token: tokenCommand };
 
 export async function runCli(argv: string[]): Promise<unknown> {
   const [name, ...rest] = argv;

@@ -101,7 +101,11 @@ function fitLinear(
   maxCondition: number,
   what: string,
 ): { rows: number[][]; condition: number } {
-  const needed = design([1, 1, 1]).length + 1;
+  const terms = design([1, 1, 1]).length;
+  // Root-polynomial fits need three patches per term (Finlayson et al. 2015 fit 24–140 patches for
+  // 6–13 terms): with fewer they follow the card's noise and extrapolate to tens of ΔE00 on
+  // saturated dye colours outside the card's range. The 3×3 keeps its minimum of 4.
+  const needed = terms > 3 ? 3 * terms : terms + 1;
   if (patches.length < needed) {
     throw new ColorInputError(`A ${what} needs at least ${needed} reference patches and ${patches.length} were given; add more patches of known Lab.`);
   }
@@ -133,7 +137,8 @@ export function fitMatrix3x3(patches: readonly ReferencePatch[], white: LabWhite
  * Root-polynomial colour correction (G. D. Finlayson, M. Mackiewicz, A. Hurlbert, "Color Correction
  * Using Root-Polynomial Regression", IEEE Trans. Image Process. 24(5), 1460–1470, 2015): like the
  * 3×3 fit but on the terms r, g, b, √rg, √gb, √rb (degree 2) and the cube-root terms (degree 3),
- * which keeps the correction independent of exposure. Needs more patches than terms.
+ * which keeps the correction independent of exposure. Needs three patches per term: 18 at degree 2,
+ * 39 at degree 3 (so degree 3 is refused for a 24-patch card).
  */
 export function fitRootPolynomial(patches: readonly ReferencePatch[], degree: 2 | 3 = 2, white: LabWhite = "D65"): CorrectionFit {
   const { rows, condition } = fitLinear(

@@ -1,183 +1,363 @@
-import { labToLinearSrgb, linearSrgbToLab } from "./convert";
+/**
+ * pKa of an acid–base indicator from a pH series, done where the physics is linear.
+ *
+ * Beer–Lambert holds per wavelength: a vial holding the acid form HIn and the base form In⁻ of one dye
+ * absorbs A(λ) = (1 − f)·A_acid(λ) + f·A_base(λ), with f = [In⁻]/([HIn] + [In⁻]) = 1 / (1 + 10^(pKa − pH))
+ * (Henderson–Hasselbalch; H. N. Po & N. M. Senozan, "The Henderson–Hasselbalch equation: its history and
+ * limitations", J. Chem. Educ. 78 (2001) 1499). It does NOT hold per broad camera channel, so:
+ *
+ *  - from photographed colours (`fitPkaFromColours`): each form's spectrum is an absorption band of the
+ *    shared band model (lib/color/band.ts), the vial's colour is the CIE colour of 10^−A(λ), and pKa and
+ *    both bands are fitted together by minimising Σ ΔE00² over the vials;
+ *  - from measured spectra (`fitPkaFromSpectra`, pka-spectra.ts): a global least-squares fit in
+ *    absorbance across all wavelengths, with an SVD rank check and isosbestic points.
+ *
+ * Every pKa here is APPARENT: it belongs to the medium and ionic strength it was measured in (pH in a
+ * non-aqueous or mixed medium is not aqueous pH). `daviesCorrection` optionally estimates the
+ * thermodynamic value at zero ionic strength for an aqueous medium.
+ */
+import { bandAbsorbanceAt, type AbsorptionBand } from "./band";
 import { parseNumericCsv } from "./csv";
 import { deltaE00 } from "./difference";
 import { ColorInputError } from "./errors";
-import type { Lab, Vec3 } from "./types";
+import { WHITE_POINTS_2DEG } from "./illuminants";
+import { labToXyz, xyzToLab } from "./lab";
+import { nelderMead } from "./nelder-mead";
+import { tristimulusWeights } from "./spectrum";
+import { mulberry32 } from "../random";
+import type { Lab, Xyz } from "./types";
 
 /** One vial of a pH series: its pH and its colour, CIELAB D65. */
 export type PhPoint = { pH: number; lab: Lab };
 
+export type PkaFlag = "acid-plateau-missing" | "base-plateau-missing" | "one-form-dominates" | "one-colour-indicator" | "few-vials-in-transition";
+
 export type PkaFit = {
+  method: "colour-forward-model";
+  /** Apparent pKa in the medium and ionic strength of the series. */
   pKa: number;
-  /** Standard error of pKa from the fit's covariance (Gauss–Newton approximation). */
+  /** Standard error of pKa: standard deviation of refits over vials resampled with replacement (bootstrap). */
   pKaStdErr: number;
-  /** pH where the base form goes from 10 % to 90 %: pKa ∓ log10 9. */
+  bootstrapRuns: number;
+  /**
+   * Visual transition interval: the pH range where the colour differs from both end colours by at least
+   * `transitionThresholdDeltaE00`.
+   */
   transition: [number, number];
+  transitionThresholdDeltaE00: number;
   acidLab: Lab;
   baseLab: Lab;
-  /** Root mean square ΔE00 between each vial and the fitted colour at its pH. */
+  acidBand: AbsorptionBand;
+  baseBand: AbsorptionBand;
+  /** ΔE00 between the two forms' colours. */
+  contrastDeltaE00: number;
+  /** Root mean square ΔE00 between each vial and the model colour at its pH. */
   rmsDeltaE00: number;
+  flags: PkaFlag[];
+  /** One sentence per flag, for the person. */
+  messages: string[];
 };
 
-/** Smallest linear value taken into the logarithm: a channel darker than this is treated as this dark. */
-const MIN_LINEAR = 1e-4;
-/** Below this ΔE00 between the two forms the series shows no colour change to fit (a design choice). */
+/**
+ * ΔE00 that counts as "visibly different" for the transition interval: 3 (common practice, no source:
+ * about 1 is just noticeable side by side under good conditions, 2–3 is seen readily by an untrained
+ * observer).
+ */
+export const TRANSITION_THRESHOLD_DELTA_E00 = 3;
+/** Below this ΔE00 between the two forms the series shows no colour change to fit (our limit). */
 const MIN_FORM_DIFFERENCE = 3;
-const LOG10_9 = Math.log10(9);
-
-/** "Absorbance" of each linear sRGB channel relative to the blank vial: A = −log10(rgb / blank). */
-function absorbanceOf(lab: Lab, blank: Vec3): Vec3 {
-  const rgb = labToLinearSrgb(lab, "D65");
-  return [0, 1, 2].map((c) => -Math.log10(Math.max(MIN_LINEAR, rgb[c]) / blank[c])) as Vec3;
-}
-
-function labOfAbsorbance(a: readonly number[], blank: Vec3): Lab {
-  return linearSrgbToLab([0, 1, 2].map((c) => blank[c] * 10 ** -a[c]) as Vec3, "D65");
-}
+/** A form whose band peaks below this absorbance is colourless in practice (our limit). */
+const COLOURLESS_PEAK = 0.03;
+/** Bootstrap refits for the standard error (speed/precision trade-off; our choice). */
+const BOOTSTRAP_RUNS = 25;
 
 /** Base fraction at `pH` for `pKa`: Henderson–Hasselbalch, [A⁻]/([HA] + [A⁻]) = 1 / (1 + 10^(pKa − pH)). */
 export function baseFraction(pH: number, pKa: number): number {
   return 1 / (1 + 10 ** (pKa - pH));
 }
 
-/** For a fixed pKa the model is linear in the two forms' absorbances: solve those by least squares. */
-function formsFor(pKa: number, pHs: readonly number[], abs: readonly Vec3[]): { acid: Vec3; base: Vec3; rss: number } {
-  let s00 = 0;
-  let s01 = 0;
-  let s11 = 0;
-  const t0 = [0, 0, 0];
-  const t1 = [0, 0, 0];
-  const fs = pHs.map((pH) => baseFraction(pH, pKa));
-  fs.forEach((f, i) => {
-    const g = 1 - f;
-    s00 += g * g;
-    s01 += g * f;
-    s11 += f * f;
-    for (let c = 0; c < 3; c++) {
-      t0[c] += g * abs[i][c];
-      t1[c] += f * abs[i][c];
-    }
-  });
-  const det = s00 * s11 - s01 * s01;
-  const acid = [0, 1, 2].map((c) => (s11 * t0[c] - s01 * t1[c]) / det) as Vec3;
-  const base = [0, 1, 2].map((c) => (s00 * t1[c] - s01 * t0[c]) / det) as Vec3;
-  let rss = 0;
-  fs.forEach((f, i) => {
-    for (let c = 0; c < 3; c++) rss += (abs[i][c] - ((1 - f) * acid[c] + f * base[c])) ** 2;
-  });
-  return { acid, base, rss: Number.isFinite(det) && Math.abs(det) > 1e-12 ? rss : Infinity };
+/** Parameters of one form: ν̃max in 1000 cm⁻¹, ln(FWHM in 1000 cm⁻¹), ln(peak absorbance). */
+type FormParams = [number, number, number];
+const NU_RANGE: [number, number] = [11, 30];
+const LN_W_RANGE: [number, number] = [Math.log(1.2), Math.log(10)];
+const LN_P_RANGE: [number, number] = [Math.log(1e-4), Math.log(5)];
+const clamp = (v: number, [lo, hi]: [number, number]) => Math.min(hi, Math.max(lo, v));
+const outside = (v: number, [lo, hi]: [number, number]) => (v < lo ? lo - v : v > hi ? v - hi : 0);
+
+function bandOf(p: readonly number[]): AbsorptionBand {
+  return { wavenumberCm1: 1000 * clamp(p[0], NU_RANGE), fwhmCm1: 1000 * Math.exp(clamp(p[1], LN_W_RANGE)), peakAbsorbance: Math.exp(clamp(p[2], LN_P_RANGE)) };
 }
 
-function invert(m: number[][]): number[][] | null {
-  const n = m.length;
-  const a = m.map((row, i) => [...row, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
-  for (let col = 0; col < n; col++) {
-    let pivot = col;
-    for (let r = col + 1; r < n; r++) if (Math.abs(a[r][col]) > Math.abs(a[pivot][col])) pivot = r;
-    if (Math.abs(a[pivot][col]) < 1e-14) return null;
-    [a[col], a[pivot]] = [a[pivot], a[col]];
-    const p = a[col][col];
-    for (let j = 0; j < 2 * n; j++) a[col][j] /= p;
-    for (let r = 0; r < n; r++) {
-      if (r === col) continue;
-      const factor = a[r][col];
-      if (factor !== 0) for (let j = 0; j < 2 * n; j++) a[r][j] -= factor * a[col][j];
-    }
-  }
-  return a.map((row) => row.slice(n));
+function penalty(p: readonly number[]): number {
+  return outside(p[0], NU_RANGE) + 10 * outside(p[1], LN_W_RANGE) + 10 * outside(p[2], LN_P_RANGE);
 }
 
 /**
- * Fits one acid–base equilibrium to the colours of a pH series (Henderson–Hasselbalch; see
- * H. N. Po & N. M. Senozan, J. Chem. Educ. 78 (2001) 1499 for the equation and its limits).
- *
- * Colours are mixed where mixing is linear: each vial's CIELAB D65 is turned into linear sRGB and
- * then into an absorbance-like value per channel, A = −log10(rgb / blank), with `blank` the vial
- * with solvent only. By Beer–Lambert at constant total dye, A(pH) = (1 − f) A_acid + f A_base with
- * f = 1 / (1 + 10^(pKa − pH)). For each trial pKa the two forms follow by linear least squares;
- * pKa is found by a grid over the measured pH range ± 1 refined by golden-section search. A broad
- * channel is not a single wavelength, so this is an approximation that holds best for dilute dyes.
- *
- * Refuses fewer than 5 vials, fewer than 4 distinct pH values, no colour change, and a transition
- * outside the measured pH range.
+ * Tristimulus weights of D65 and the CIE 1931 2° observer on a 5 nm grid (360–830 nm): the 1 nm weights
+ * of CIE 015:2018 summed over each 5 nm bin, i.e. the transmittance taken as constant within ±2 nm. For
+ * absorption bands at least 1,200 cm⁻¹ wide this changes a colour by well under 0.05 ΔE00 and makes the
+ * fit five times faster.
  */
-export function fitPkaHendersonHasselbalch(points: readonly PhPoint[], blankLab: Lab = [100, 0, 0]): PkaFit {
+type Grid5 = { nm: Float64Array; wx: Float64Array; wy: Float64Array; wz: Float64Array };
+let grid5: Grid5 | null = null;
+function weights5(): Grid5 {
+  if (grid5) return grid5;
+  const w = tristimulusWeights("D65");
+  const n = Math.floor((830 - 360) / 5) + 1;
+  const g: Grid5 = { nm: new Float64Array(n), wx: new Float64Array(n), wy: new Float64Array(n), wz: new Float64Array(n) };
+  for (let k = 0; k < n; k++) g.nm[k] = 360 + 5 * k;
+  w.wavelengths.forEach((nm, i) => {
+    const k = Math.min(n - 1, Math.max(0, Math.round((nm - 360) / 5)));
+    g.wx[k] += w.wx[i];
+    g.wy[k] += w.wy[i];
+    g.wz[k] += w.wz[i];
+  });
+  grid5 = g;
+  return g;
+}
+
+/**
+ * The forward model: CIELAB (D65) of the per-wavelength mixture 10^−((1−f)·A_acid + f·A_base), each
+ * form's absorbance from the shared band model (lib/color/band.ts), seen through the blank vial. The blank
+ * (the vial with solvent only, measured as a colour) is applied as a component-wise XYZ factor
+ * blank/white (an approximation: the blank's spectrum is not known).
+ */
+export class TwoFormModel {
+  private readonly acid: Float64Array;
+  private readonly base: Float64Array;
+  private readonly g = weights5();
+  private readonly white: Xyz = WHITE_POINTS_2DEG.D65;
+  private readonly blankFactor: Xyz;
+
+  constructor(
+    readonly acidBand: AbsorptionBand,
+    readonly baseBand: AbsorptionBand,
+    blankLab: Lab = [100, 0, 0],
+  ) {
+    const n = this.g.nm.length;
+    this.acid = new Float64Array(n);
+    this.base = new Float64Array(n);
+    for (let k = 0; k < n; k++) {
+      // Stored as −ln 10 · A so that T = exp(value).
+      this.acid[k] = -Math.LN10 * bandAbsorbanceAt(acidBand, this.g.nm[k]);
+      this.base[k] = -Math.LN10 * bandAbsorbanceAt(baseBand, this.g.nm[k]);
+    }
+    this.blankFactor = blankLab[0] === 100 && blankLab[1] === 0 && blankLab[2] === 0 ? [1, 1, 1] : blankFactorOf(blankLab, this.white);
+  }
+
+  /** Colour at base fraction f. */
+  labAt(f: number): Lab {
+    const { wx, wy, wz } = this.g;
+    let x = 0;
+    let y = 0;
+    let z = 0;
+    const g = 1 - f;
+    for (let i = 0; i < wx.length; i++) {
+      const t = Math.exp(g * this.acid[i] + f * this.base[i]);
+      x += t * wx[i];
+      y += t * wy[i];
+      z += t * wz[i];
+    }
+    return xyzToLab([x * this.blankFactor[0], y * this.blankFactor[1], z * this.blankFactor[2]], this.white);
+  }
+}
+
+function blankFactorOf(blankLab: Lab, white: Xyz): Xyz {
+  const blank = labToXyz(blankLab, white);
+  return [blank[0] / white[0], blank[1] / white[1], blank[2] / white[2]];
+}
+
+type Fitted = { pKa: number; acid: number[]; base: number[]; sse: number };
+
+/** Σ ΔE00² of the vials against the model with parameters x = [pKa, acid(3), base(3)]. */
+function sseOf(x: readonly number[], points: readonly PhPoint[], blank: Lab): number {
+  const model = new TwoFormModel(bandOf(x.slice(1, 4)), bandOf(x.slice(4, 7)), blank);
+  let s = 0;
+  for (const p of points) s += deltaE00(model.labAt(baseFraction(p.pH, x[0])), p.lab) ** 2;
+  return s + 100 * (penalty(x.slice(1, 4)) + penalty(x.slice(4, 7)));
+}
+
+/** A single band whose colour is close to `lab` (start values only), colourless allowed. */
+function startForm(lab: Lab, blank: Lab): number[] {
+  if (deltaE00(lab, blank) < 1.5) return [20, Math.log(4), Math.log(0.001)];
+  let best: { x: number[]; v: number } = { x: [20, Math.log(4), Math.log(0.5)], v: Infinity };
+  for (let nu = 13; nu <= 27; nu += 1) {
+    for (const w of [2.5, 4.5]) {
+      for (const pk of [0.1, 0.4, 1, 2]) {
+        const x = [nu, Math.log(w), Math.log(pk)];
+        const v = deltaE00(new TwoFormModel(bandOf(x), bandOf(x), blank).labAt(0), lab);
+        if (v < best.v) best = { x, v };
+      }
+    }
+  }
+  const r = nelderMead((x) => deltaE00(new TwoFormModel(bandOf(x), bandOf(x), blank).labAt(0), lab) + penalty(x), best.x, { step: [0.5, 0.2, 0.3], maxIterations: 300, fTol: 1e-6 });
+  return r.x;
+}
+
+function fitOnce(points: readonly PhPoint[], blank: Lab, start: number[] | null, maxIterations: number, restart = true): Fitted {
+  let x0 = start;
+  if (!x0) {
+    const sorted = [...points].sort((p, q) => p.pH - q.pH);
+    const acid = startForm(sorted[0].lab, blank);
+    const base = startForm(sorted[sorted.length - 1].lab, blank);
+    const lo = sorted[0].pH;
+    const hi = sorted[sorted.length - 1].pH;
+    let bestPka = (lo + hi) / 2;
+    let bestV = Infinity;
+    for (let p = lo - 1; p <= hi + 1 + 1e-9; p += 0.1) {
+      const v = sseOf([p, ...acid, ...base], points, blank);
+      if (v < bestV) {
+        bestV = v;
+        bestPka = p;
+      }
+    }
+    x0 = [bestPka, ...acid, ...base];
+  }
+  const step = [0.3, 0.5, 0.15, 0.3, 0.5, 0.15, 0.3];
+  let r = nelderMead((x) => sseOf(x, points, blank), x0, { step, maxIterations, fTol: 1e-7, xTol: 1e-5 });
+  // A restart from the optimum escapes a collapsed simplex (Nelder–Mead practice).
+  if (restart) r = nelderMead((x) => sseOf(x, points, blank), r.x, { step: step.map((s) => s / 3), maxIterations, fTol: 1e-8, xTol: 1e-6 });
+  return { pKa: r.x[0], acid: r.x.slice(1, 4), base: r.x.slice(4, 7), sse: r.value };
+}
+
+function validate(points: readonly PhPoint[], blankLab: Lab) {
   if (points.length < 5) throw new ColorInputError(`A pKa fit needs at least 5 vials across the pH range and ${points.length} were given; measure more pH values.`);
   if (!points.every((p) => Number.isFinite(p.pH) && p.lab.every(Number.isFinite))) {
     throw new ColorInputError("A vial of the pH series has a value that is not a number; check the data.");
   }
   if (points.some((p) => p.pH < -2 || p.pH > 16)) throw new ColorInputError("A pH in the series lies outside −2 to 16; check the pH column.");
   if (new Set(points.map((p) => p.pH)).size < 4) throw new ColorInputError("The pH series has fewer than 4 different pH values; spread the vials over the transition.");
-  if (!(blankLab[0] > 0)) throw new ColorInputError("The blank must have a lightness above 0; give the colour of the vial with solvent only.");
-  const blank = labToLinearSrgb(blankLab, "D65");
-  if (blank.some((c) => c <= MIN_LINEAR)) {
-    throw new ColorInputError("The blank colour has a channel with no light in sRGB; give the colour of the clear vial with solvent only.");
-  }
+  if (!(blankLab[0] > 0) || !blankLab.every(Number.isFinite)) throw new ColorInputError("The blank must have a lightness above 0; give the colour of the vial with solvent only.");
+}
+
+/**
+ * Fits pKa and the two forms' absorption bands to the colours of a pH series by the forward model
+ * {@link TwoFormModel}, minimising Σ ΔE00² (CIEDE2000, CIE 142-2001) over the vials with Nelder–Mead
+ * from a grid start. The standard error is the standard deviation of `BOOTSTRAP_RUNS` refits on vials
+ * resampled with replacement (B. Efron & R. Tibshirani, "An Introduction to the Bootstrap", 1993),
+ * seeded so a series always gives the same figure.
+ *
+ * Refuses fewer than 5 vials, fewer than 4 distinct pH values, no colour change and a fitted pKa
+ * outside the measured pH range; flags a missing plateau, a series in which one form dominates, few
+ * vials inside the transition, and a colourless form (one-colour indicator).
+ */
+export function fitPkaFromColours(points: readonly PhPoint[], blankLab: Lab = [100, 0, 0], opts: { bootstrapRuns?: number } = {}): PkaFit {
+  validate(points, blankLab);
+  const fit = fitOnce(points, blankLab, null, 1500);
+  const acidBand = bandOf(fit.acid);
+  const baseBand = bandOf(fit.base);
+  const model = new TwoFormModel(acidBand, baseBand, blankLab);
+  const acidLab = model.labAt(0);
+  const baseLab = model.labAt(1);
+  const contrast = deltaE00(acidLab, baseLab);
   const pHs = points.map((p) => p.pH);
-  const abs = points.map((p) => absorbanceOf(p.lab, blank));
   const lo = Math.min(...pHs);
   const hi = Math.max(...pHs);
-  const searchLo = lo - 1;
-  const searchHi = hi + 1;
+  if (!(contrast >= MIN_FORM_DIFFERENCE)) {
+    throw new ColorInputError(`The colour barely changes across the pH series (ΔE00 ${contrast.toFixed(1)} between the fitted forms); a pKa cannot be read from it.`);
+  }
+  if (fit.pKa < lo || fit.pKa > hi) {
+    throw new ColorInputError(`The fitted pKa ${fit.pKa.toFixed(2)} lies outside the measured pH range ${lo}–${hi}; add vials on that side of the transition.`);
+  }
 
-  const step = 0.01;
-  let best = searchLo;
-  let bestRss = Infinity;
-  for (let p = searchLo; p <= searchHi + 1e-9; p += step) {
-    const { rss } = formsFor(p, pHs, abs);
-    if (rss < bestRss) {
-      bestRss = rss;
-      best = p;
+  const runs = opts.bootstrapRuns ?? BOOTSTRAP_RUNS;
+  const random = mulberry32(0x9ca + points.length);
+  const boot: number[] = [];
+  const start = [fit.pKa, ...fit.acid, ...fit.base];
+  for (let b = 0; b < runs; b++) {
+    const sample = points.map(() => points[Math.floor(random() * points.length)]);
+    if (new Set(sample.map((p) => p.pH)).size < 4) continue;
+    boot.push(fitOnce(sample, blankLab, start, 250, false).pKa);
+  }
+  const mean = boot.reduce((s, v) => s + v, 0) / Math.max(1, boot.length);
+  const pKaStdErr = boot.length > 1 ? Math.sqrt(boot.reduce((s, v) => s + (v - mean) ** 2, 0) / (boot.length - 1)) : Number.NaN;
+
+  const residuals = points.map((p) => deltaE00(p.lab, model.labAt(baseFraction(p.pH, fit.pKa))));
+  const rmsDeltaE00 = Math.sqrt(residuals.reduce((s, d) => s + d * d, 0) / residuals.length);
+
+  const flags: PkaFlag[] = [];
+  const messages: string[] = [];
+  const fLo = baseFraction(lo, fit.pKa);
+  const fHi = baseFraction(hi, fit.pKa);
+  if (fLo > 0.1) {
+    flags.push("acid-plateau-missing");
+    messages.push(`No vial shows the acid form alone (at pH ${lo} ${Math.round(100 * fLo)} % is already in the base form); add vials below pH ${(fit.pKa - 1.5).toFixed(1)}.`);
+  }
+  if (fHi < 0.9) {
+    flags.push("base-plateau-missing");
+    messages.push(`No vial shows the base form alone (at pH ${hi} only ${Math.round(100 * fHi)} % is in the base form); add vials above pH ${(fit.pKa + 1.5).toFixed(1)}.`);
+  }
+  const fractions = pHs.map((pH) => baseFraction(pH, fit.pKa));
+  const inTransition = fractions.filter((f) => f > 0.1 && f < 0.9).length;
+  const mostlyAcid = fractions.filter((f) => f < 0.5).length / fractions.length;
+  if (mostlyAcid > 0.75 || mostlyAcid < 0.25) {
+    flags.push("one-form-dominates");
+    messages.push(`${Math.round(100 * Math.max(mostlyAcid, 1 - mostlyAcid))} % of the vials are mostly in the ${mostlyAcid > 0.5 ? "acid" : "base"} form; spread the pH values more evenly around the pKa.`);
+  }
+  if (inTransition < 2) {
+    flags.push("few-vials-in-transition");
+    messages.push(`Only ${inTransition} vial${inTransition === 1 ? "" : "s"} lie inside the colour change (10–90 % base form); add vials between pH ${(fit.pKa - 1).toFixed(1)} and ${(fit.pKa + 1).toFixed(1)}.`);
+  }
+  if (acidBand.peakAbsorbance < COLOURLESS_PEAK || baseBand.peakAbsorbance < COLOURLESS_PEAK) {
+    flags.push("one-colour-indicator");
+    messages.push(`The ${acidBand.peakAbsorbance < COLOURLESS_PEAK ? "acid" : "base"} form is practically colourless: a one-colour indicator, whose visible change depends on its concentration.`);
+  }
+
+  return {
+    method: "colour-forward-model",
+    pKa: fit.pKa,
+    pKaStdErr,
+    bootstrapRuns: boot.length,
+    transition: visualTransition(model, fit.pKa, acidLab, baseLab),
+    transitionThresholdDeltaE00: TRANSITION_THRESHOLD_DELTA_E00,
+    acidLab,
+    baseLab,
+    acidBand,
+    baseBand,
+    contrastDeltaE00: contrast,
+    rmsDeltaE00,
+    flags,
+    messages,
+  };
+}
+
+/**
+ * The pH range where the model colour differs from both end colours by at least the threshold, scanned
+ * every 0.01 pH over pKa ± 5. Not pKa ± 1: a one-colour indicator's interval is lopsided, and an intense
+ * two-colour one is wider than a faint one.
+ */
+export function visualTransition(model: TwoFormModel, pKa: number, acidLab: Lab, baseLab: Lab, threshold = TRANSITION_THRESHOLD_DELTA_E00): [number, number] {
+  let low = Number.NaN;
+  let high = Number.NaN;
+  for (let k = -500; k <= 500; k++) {
+    const pH = pKa + k / 100;
+    const lab = model.labAt(baseFraction(pH, pKa));
+    if (deltaE00(lab, acidLab) >= threshold && deltaE00(lab, baseLab) >= threshold) {
+      if (Number.isNaN(low)) low = pH;
+      high = pH;
     }
   }
-  // Golden-section refinement within one grid step either side.
-  let a = best - step;
-  let b = best + step;
-  const phi = (Math.sqrt(5) - 1) / 2;
-  for (let k = 0; k < 60; k++) {
-    const x1 = b - phi * (b - a);
-    const x2 = a + phi * (b - a);
-    if (formsFor(x1, pHs, abs).rss < formsFor(x2, pHs, abs).rss) b = x2;
-    else a = x1;
-  }
-  const pKa = (a + b) / 2;
-  const { acid, base, rss } = formsFor(pKa, pHs, abs);
-  const acidLab = labOfAbsorbance(acid, blank);
-  const baseLab = labOfAbsorbance(base, blank);
-  const change = deltaE00(acidLab, baseLab);
-  if (!(change >= MIN_FORM_DIFFERENCE)) {
-    throw new ColorInputError(`The colour barely changes across the pH series (ΔE00 ${change.toFixed(1)} between the fitted forms); a pKa cannot be read from it.`);
-  }
-  if (pKa < lo || pKa > hi) {
-    throw new ColorInputError(
-      `The fitted pKa ${pKa.toFixed(2)} lies outside the measured pH range ${lo}–${hi}; add vials on that side of the transition.`,
-    );
-  }
+  return Number.isNaN(low) ? [pKa, pKa] : [low, high];
+}
 
-  // Standard error from J of the 3n residuals in the 7 parameters (pKa, A_acid ×3, A_base ×3).
-  const jac: number[][] = [];
-  pHs.forEach((pH) => {
-    const f = baseFraction(pH, pKa);
-    const dfdp = -Math.LN10 * f * (1 - f);
-    for (let c = 0; c < 3; c++) {
-      const row = new Array(7).fill(0);
-      row[0] = (base[c] - acid[c]) * dfdp;
-      row[1 + c] = 1 - f;
-      row[4 + c] = f;
-      jac.push(row);
-    }
-  });
-  const jtj = Array.from({ length: 7 }, (_, i) => Array.from({ length: 7 }, (_, j) => jac.reduce((s, r) => s + r[i] * r[j], 0)));
-  const cov = invert(jtj);
-  const dof = jac.length - 7;
-  const pKaStdErr = cov && dof > 0 ? Math.sqrt(Math.max(0, (rss / dof) * cov[0][0])) : Number.NaN;
+/**
+ * Davies equation: log10 γ = −A z² (√I / (1 + √I) − 0.3 I), A = 0.509 (water, 25 °C); C. W. Davies,
+ * "Ion Association", Butterworths, London 1962. Valid for aqueous solutions up to I ≈ 0.1–0.5 mol/L.
+ */
+export function daviesLog10Gamma(charge: number, ionicStrengthMolL: number, a = 0.509): number {
+  const s = Math.sqrt(ionicStrengthMolL);
+  return -a * charge * charge * (s / (1 + s) - 0.3 * ionicStrengthMolL);
+}
 
-  const deltas = points.map((p) => {
-    const f = baseFraction(p.pH, pKa);
-    return deltaE00(p.lab, labOfAbsorbance([0, 1, 2].map((c) => (1 - f) * acid[c] + f * base[c]), blank));
-  });
-  const rmsDeltaE00 = Math.sqrt(deltas.reduce((s, d) => s + d * d, 0) / deltas.length);
-  return { pKa, pKaStdErr, transition: [pKa - LOG10_9, pKa + LOG10_9], acidLab, baseLab, rmsDeltaE00 };
+/**
+ * Thermodynamic pKa (I → 0) from an apparent pKa' measured with a pH electrode (pH = −log a_H+) and
+ * concentration ratios: pKa = pKa' − log10(γ_base / γ_acid), γ by Davies. `acidCharge` is the charge of
+ * the acid form (0 for HIn ⇌ H⁺ + In⁻, −1 for HIn⁻ ⇌ H⁺ + In²⁻ as in sulfonephthaleins' second step).
+ * Aqueous media only.
+ */
+export function daviesCorrectedPka(apparentPka: number, ionicStrengthMolL: number, acidCharge = 0): number {
+  if (!(ionicStrengthMolL >= 0)) throw new ColorInputError("The ionic strength must be a number of mol/L, 0 or more.");
+  return apparentPka - (daviesLog10Gamma(acidCharge - 1, ionicStrengthMolL) - daviesLog10Gamma(acidCharge, ionicStrengthMolL));
 }
 
 /** Reads a pH series CSV with the header columns pH, L, a, b (CIELAB D65). */

@@ -3,6 +3,7 @@ import { regionSpreadDeltaE } from "./region-spread";
 import { ColorInputError } from "./errors";
 import { parseExif, type PhotoExif } from "./exif";
 import { srgbDecode, srgbEncode } from "./srgb";
+import { pixelsPerSampleFromAutocorrelation } from "./uncertainty";
 import type { LinearRgb } from "./types";
 
 export { ColorInputError };
@@ -35,6 +36,19 @@ export type RegionStats = {
   rejected: number;
   /** Robust pixel-to-pixel scatter of the accepted pixels, in ΔE*ab units (see `measureRegion`). */
   spread: number;
+  /**
+   * Robust per-channel pixel standard deviation (1.4826 · MAD of the accepted pixels' codes) carried
+   * to the scale of `linearRgb` through the slope of the sRGB decoding at the mean: the input of the
+   * mean's uncertainty (lib/color/uncertainty.ts).
+   */
+  sd?: LinearRgb;
+  /** Fraction of the region's pixels with a channel at the lowest or highest code (sampled as for the outlier cut). */
+  clippedFraction?: number;
+  /**
+   * Pixels per statistically independent sample, from the region's own autocorrelation
+   * (`pixelsPerSampleFromAutocorrelation`): the mean's uncertainty uses N / this, not N.
+   */
+  pixelsPerSample?: number;
   flags: RegionFlag[];
 };
 
@@ -420,7 +434,15 @@ export function measureRegion(photo: DecodedPhoto, region: RegionSpec): RegionSt
   if (clippedFraction > REGION_LIMITS.maxClippedFraction || encoded.some((e) => e < REGION_LIMITS.clipMargin || e > 1 - REGION_LIMITS.clipMargin)) {
     flags.push("near-clipping");
   }
-  return { linearRgb, pixels, rejected, spread, flags };
+  const sd = linearRgb.map((v, c) => {
+    const e = srgbEncode(v);
+    const step = robustSdCodes[c] / max;
+    const hiE = Math.min(1, e + step);
+    const loE = Math.max(0, e - step);
+    return hiE > loE ? ((srgbDecode(hiE) - srgbDecode(loE)) / (hiE - loE)) * step : 0;
+  }) as LinearRgb;
+  const pixelsPerSample = pixelsPerSampleFromAutocorrelation(photo, region);
+  return { linearRgb, pixels, rejected, spread, sd, clippedFraction, pixelsPerSample, flags };
 }
 
 /** Measures many regions of the one decoded buffer (never decodes again). */

@@ -1,8 +1,10 @@
 /**
  * Settings read from the environment, checked once with zod so a wrong value fails fast with its name.
  */
+import { BlockList } from "node:net";
 import path from "node:path";
 import { z } from "zod";
+import { parseTrustedProxies } from "../net/client-address";
 
 const schema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
@@ -17,6 +19,21 @@ const schema = z.object({
   MAIL_FROM: z.string().min(3).default("Solvatlas <solvatlas@localhost>"),
   /** Set to "false" only behind plain HTTP on a trusted bench network. */
   SECURE_COOKIES: z.enum(["auto", "true", "false"]).default("auto"),
+  /**
+   * Reverse proxies whose X-Forwarded-For/-Host/-Proto are believed: comma-separated addresses or CIDR
+   * ranges. Empty (the default) believes no forwarded header; the socket address is the client.
+   */
+  TRUSTED_PROXIES: z
+    .string()
+    .default("")
+    .superRefine((text, ctx) => {
+      const parsed = parseTrustedProxies(text);
+      if ("error" in parsed) ctx.addIssue({ code: "custom", message: `TRUSTED_PROXIES: ${parsed.error}; give addresses or ranges such as 127.0.0.1, 10.0.0.0/8` });
+    }),
+  /** Largest request body in megabytes for anything but a photo upload (JSON, forms, server actions). */
+  MAX_BODY_MB: z.coerce.number().positive().max(100).default(2),
+  /** Memory for decoded photos kept while people mark them (least recently used dropped first). */
+  DECODED_CACHE_MB: z.coerce.number().positive().max(16384).default(256),
   MAX_UPLOAD_MB: z.coerce.number().positive().max(500).default(40),
   /** Largest photo accepted in megapixels (after decoding); refuses decompression bombs. */
   MAX_PHOTO_MEGAPIXELS: z.coerce.number().positive().max(1000).default(100),
@@ -59,4 +76,19 @@ export function dataDir(): string {
 
 export function appUrl(): string {
   return env().APP_URL ?? `http://localhost:${env().PORT}`;
+}
+
+let proxies: BlockList | undefined;
+
+/** TRUSTED_PROXIES as a matcher (checked by the schema above). */
+export function trustedProxies(): BlockList {
+  if (proxies) return proxies;
+  const parsed = parseTrustedProxies(env().TRUSTED_PROXIES);
+  proxies = "list" in parsed ? parsed.list : new BlockList();
+  return proxies;
+}
+
+/** MAX_BODY_MB in bytes: the most any request body may carry except a photo upload. */
+export function bodyLimitBytes(): number {
+  return Math.round(env().MAX_BODY_MB * 1048576);
 }

@@ -4,7 +4,10 @@
  *
  *  - both ends given (X in A, Y in B): minimise ΔE00(x, X) + ΔE00(y, Y);
  *  - one end given: minimise the distance at that end; equal distances prefer the larger shift;
- *  - no end given: maximise the shift ΔE00(x, y) ("largest change between A and B").
+ *  - no end given: maximise the shift ("largest change between A and B"), measured by ΔEOK
+ *    (Euclidean OKLab distance, lib/color/large-difference.ts): CIEDE2000 was fitted to small
+ *    differences and is discontinuous for large ones, so large shifts are ranked by ΔEOK while ΔE00
+ *    is still reported beside it.
  *
  * Only pairs whose shift is at least `minShift` count (ΔE00 ≈ 1 is about a just-noticeable
  * difference: common practice). With `viewers`, a pair must also keep ΔE00 ≥ `viewerMinShift` when
@@ -13,6 +16,7 @@
  * `sameSolvent` pairs only colours measured in the same solvent (acid vs base in one solvent).
  */
 import type { Lab } from "@/lib/color/types";
+import { deltaEOK } from "@/lib/color/large-difference";
 import { ciede2000 } from "./ciede2000";
 
 export type ViewerKind = "protan" | "deutan" | "tritan";
@@ -38,6 +42,8 @@ export type ShiftResult<T> = {
   b: ShiftColour<T>;
   /** ΔE00 between the two colours (normal colour vision). */
   shift: number;
+  /** ΔEOK between the two colours (OKLab distance ×100): the metric large shifts are ranked by. */
+  shiftOK: number;
   fromDeltaE00: number | null;
   toDeltaE00: number | null;
   /** Lower is better; ranks the results. */
@@ -76,9 +82,10 @@ export function scoreShifts<T>(
         if (shift < query.minShift) continue;
         const fromD = query.from ? de(x.lab, query.from) : null;
         const toD = query.to ? de(y.lab, query.to) : null;
-        // Without targets, rank by the shift (largest first); with one, ties prefer larger shifts.
-        const score = fromD === null && toD === null ? -shift : (fromD ?? 0) + (toD ?? 0) - shift * 1e-9;
-        const candidate: ShiftResult<T> = { dyeId: dye.dyeId, a: x, b: y, shift, fromDeltaE00: fromD, toDeltaE00: toD, score, viewers: [] };
+        const shiftOK = deltaEOK(x.lab, y.lab);
+        // Without targets, rank by the shift in ΔEOK (largest first); with one, ties prefer larger shifts.
+        const score = fromD === null && toD === null ? -shiftOK : (fromD ?? 0) + (toD ?? 0) - shiftOK * 1e-9;
+        const candidate: ShiftResult<T> = { dyeId: dye.dyeId, a: x, b: y, shift, shiftOK, fromDeltaE00: fromD, toDeltaE00: toD, score, viewers: [] };
         if (!bestAny || score < bestAny.score) bestAny = candidate;
         if (best && score >= best.score) continue;
         if (query.viewers.length) {

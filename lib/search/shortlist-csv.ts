@@ -1,4 +1,4 @@
-import Papa from "papaparse";
+import { csvFileName as safeFileName, writeCsv } from "../csv/write";
 
 export type ShortlistCsvRow = { code: string; name: string; dyeClass: string; casNumber: string | null; molarMass: number | null; acceptedMeasurements: number; note: string; hazards: string };
 
@@ -69,7 +69,7 @@ const COLOUR_FIELDS = [
 const blank = (v: number | string | null | undefined) => (v === null || v === undefined ? "" : v);
 
 /**
- * CSV (RFC 4180 quoting via papaparse) of a shortlist: one row per dye and condition, so each colour
+ * CSV of a shortlist (through the shared writer in lib/csv): one row per dye and condition, so each colour
  * travels with the condition it was measured in and that solvent's parameters. A dye without accepted
  * colours still gets one row, its colour columns empty. Values are not rounded.
  */
@@ -91,12 +91,10 @@ export function shortlistToCsv(rows: ShortlistCsvRow[], colours: ConditionSummar
       ]);
     }
   }
-  // escapeFormulae: a cell starting with = + - @ gets a leading quote so spreadsheets do not run it (OWASP, CSV injection).
-  return Papa.unparse({ fields: [...DYE_FIELDS, ...COLOUR_FIELDS], data }, { newline: "\r\n", escapeFormulae: true });
+  return writeCsv([...DYE_FIELDS, ...COLOUR_FIELDS], data);
 }
 
 /** A file name safe on every OS, from the shortlist's name. */
 export function csvFileName(name: string): string {
-  const base = name.normalize("NFKD").replace(/[^\w.-]+/g, "-").replace(/^-+|-+$/g, "").slice(0, 60);
-  return `${base || "shortlist"}.csv`;
+  return safeFileName(name, "shortlist");
 }

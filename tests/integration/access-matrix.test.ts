@@ -142,7 +142,7 @@ const CASES: ActionCase[] = [
   },
   { name: "save a note on one's shortlist", allowed: ["admin", "chemist", "formulator"], run: (c) => updateShortlistNoteAction(null, form({ itemId: `${ensureShortlist(`sl_note_${c}`, ownerOf(c))}_item`, note: "checked" })) },
   { name: "remove a dye from one's shortlist", allowed: ["admin", "chemist", "formulator"], run: (c) => removeFromShortlistAction(null, form({ itemId: `${ensureShortlist(`sl_rm_${c}`, ownerOf(c))}_item` })) },
-  { name: "share a shortlist by e-mail", allowed: ["admin", "chemist", "formulator"], run: (c) => shareShortlistAction(null, form({ shortlistId: ensureShortlist(`sl_share_${c}`, ownerOf(c)), email: "colleague@lab.test", message: "" })) },
+  { name: "share a shortlist by e-mail", allowed: ["admin", "chemist", "formulator"], run: (c) => shareShortlistAction(null, form({ shortlistId: ensureShortlist(`sl_share_${c}`, ownerOf(c)), email: PEOPLE.chemist.email, message: "" })) },
 ];
 
 describe("shortlist ownership", () => {

@@ -1,16 +1,15 @@
 import fs from "node:fs";
 import path from "node:path";
-import { beforeAll, describe, expect, it, vi } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { isRedirectError } from "next/dist/client/components/redirect-error";
 import { db } from "@/db/client";
 import { invitations, passwordResets } from "@/db/schema";
 import { acceptInvitationAction, completeResetAction, requestResetAction, signInAction, signOutAction } from "@/app/actions/auth";
 import { inviteAction } from "@/app/actions/people";
-import { MAX_FAILURES_PER_EMAIL, createInvitation, createPasswordReset, signInWithPassword } from "@/lib/auth/service";
+import { createInvitation, createPasswordReset, signInWithPassword } from "@/lib/auth/service";
 import { SESSION_COOKIE } from "@/lib/auth/lucia";
 import { mailboxDir } from "@/lib/mail";
-import { AppError } from "@/lib/errors";
 import { requestContext } from "../support/request-context";
 import { actAs, buildWorld, form, PASSWORD, PEOPLE } from "../support/world";
 
@@ -119,24 +118,7 @@ describe("sign-in", () => {
     await expect(signInWithPassword(db(), { email: PEOPLE.retired.email, password: PASSWORD, ip: "t" })).rejects.toThrow(/deactivated/);
   });
 
-  it(`throttles after ${MAX_FAILURES_PER_EMAIL} failures for one address, even with the right password`, async () => {
-    const email = PEOPLE.admin.email;
-    for (let i = 0; i < MAX_FAILURES_PER_EMAIL; i++) {
-      await expect(signInWithPassword(db(), { email, password: "wrong password", ip: `10.0.0.${i}` })).rejects.toMatchObject({ code: "unauthenticated" });
-    }
-    const blocked = signInWithPassword(db(), { email, password: PASSWORD, ip: "10.0.0.99" });
-    await expect(blocked).rejects.toBeInstanceOf(AppError);
-    await expect(signInWithPassword(db(), { email, password: PASSWORD, ip: "10.0.0.99" })).rejects.toMatchObject({ code: "rate_limited" });
-    // Another account from the same addresses is unaffected.
-    await expect(signInWithPassword(db(), { email: PEOPLE.chemist.email, password: PASSWORD, ip: "10.0.0.1" })).resolves.toBeTruthy();
-    // The window passes.
-    vi.useFakeTimers({ now: Date.now() + 16 * 60 * 1000, toFake: ["Date"] });
-    try {
-      await expect(signInWithPassword(db(), { email, password: PASSWORD, ip: "10.0.0.99" })).resolves.toBeTruthy();
-    } finally {
-      vi.useRealTimers();
-    }
-  });
+  // Throttling has its own file: sign-in-throttle.test.ts.
 });
 
 describe("changing one's password", () => {

@@ -151,7 +151,7 @@ describe("saving measurements", () => {
   });
 
   it("with a lighting profile: stores the profile matrix folded with the reference scaling, sets the photo's profile, audits it", async () => {
-    db().insert(lightingProfiles).values({ id: "lp_t", name: "Test box", illuminant: "D65", lightSource: "LED", camera: "cam", correctionKind: "matrix-3x3", correction: [1.1, 0, 0, 0, 1, 0, 0, 0, 0.9], validFrom: new Date("2020-01-01") }).run();
+    db().insert(lightingProfiles).values({ id: "lp_t", name: "Test box", illuminant: "D65", lightSource: "LED", camera: "cam", correctionKind: "matrix-3x3", correction: [1.1, 0, 0, 0, 1, 0, 0, 0, 0.9], validFrom: new Date("2020-01-01"), state: "approved" }).run();
     await actAs("admin");
     const refs = [{ region: whiteRegion, lab: labOf8(WHITE_8) }];
     // This photo's light is not the profile's: the white seen through the profile is off by more than

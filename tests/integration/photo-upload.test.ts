@@ -182,7 +182,7 @@ describe("POST /api/photos", () => {
     const res = await uploadPhoto(new Request("http://localhost:3000/api/photos", { method: "POST", body: form, headers: { authorization: `Bearer ${tokenFor("chemist")}` } }));
     expect(res.status).toBe(422);
     expect((await res.json()).error.message).toMatch(/field 'file'/);
-    await refused(await smallJpeg(901), 422, /lightingProfileId/, { extra: { lightingProfileId: "lp_nope" } });
+    await refused(await smallJpeg(901), 422, /lighting profile/i, { extra: { lightingProfileId: "lp_nope" } });
   });
 
   it("takes 50 uploads in parallel and loses none: 50 rows, every file present, one row per distinct photo", async () => {

@@ -10,7 +10,7 @@ import { db } from "@/db/client";
 import { databaseFile, openDatabase } from "@/db/connection";
 import { searchByColour } from "@/db/queries/search";
 import { acceptedMeasurements } from "@/db/queries/bench";
-import { measurements, solvents } from "@/db/schema";
+import { conditions, measurements, solvents } from "@/db/schema";
 import { seedDemo } from "@/db/seed/demo";
 import { dataDir } from "@/lib/config/env";
 import { createApiToken } from "@/lib/auth/service";
@@ -23,7 +23,7 @@ import { ciede2000 } from "@/lib/search/ciede2000";
 import { GET as shiftSearch } from "@/app/api/search/shift/route";
 
 let token = "";
-type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: { solvent: string; medium: string; acidBase: string; pH: number | null }; predicted: boolean; measurements: number };
+type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: { solvent: string; medium: string; acidBase: string; pH: number | null }; predicted: boolean; measurements: number; replicates: number; spreadDeltaE00: number };
 
 beforeAll(async () => {
   await seedDemo(db(), dataDir());
@@ -35,14 +35,38 @@ async function call(query: string, auth = true) {
   return { status: res.status, body: await res.json() };
 }
 
+type Row = ReturnType<typeof acceptedMeasurements>[number];
+/**
+ * The reference: every accepted measurement grouped here by dye, solvent, acid/base and pH (written
+ * out in the test, not lib/search/replicates), each group's component-wise mean, then an exhaustive
+ * CIEDE2000 scan of the means that match the filter.
+ */
+function groupMeans(): { lab: Lab; rows: Row[] }[] {
+  const groups = new Map<string, Row[]>();
+  for (const r of acceptedMeasurements(db())) {
+    const key = JSON.stringify([r.dye.id, r.solvent.id, r.condition.acidBase, r.condition.ph]);
+    groups.set(key, [...(groups.get(key) ?? []), r]);
+  }
+  return [...groups.values()].map((rows) => ({
+    rows,
+    lab: [0, 1, 2].map((c) => rows.reduce((s, r) => s + [r.m.l, r.m.a, r.m.b][c], 0) / rows.length) as Lab,
+  }));
+}
+
 function brute(target: Lab, filter: ConditionFilter & { solventName?: string }, limit: number, accept?: (l: number, a: number, b: number) => boolean) {
-  const rows = acceptedMeasurements(db()).filter(
-    (r) =>
+  const means = groupMeans().filter(
+    ({ lab, rows: [r] }) =>
       conditionMatches(filter, { solventId: r.solvent.id, medium: r.solvent.medium, acidBase: r.condition.acidBase, ph: r.condition.ph }) &&
       (!filter.solventName || r.solvent.name === filter.solventName) &&
-      (!accept || accept(r.m.l, r.m.a, r.m.b)),
+      (!accept || accept(...lab)),
   );
-  return rankByColourExhaustive(target, rows.map((r) => ({ dyeId: r.dye.id, lab: [r.m.l, r.m.a, r.m.b] as Lab, payload: r })), limit);
+  return rankByColourExhaustive(target, means.map((g) => ({ dyeId: g.rows[0].dye.id, lab: g.lab, payload: { ...g.rows[0], replicates: g.rows } })), limit);
+}
+
+/** A fresh condition (a pH no demo condition uses), so a test colour forms a group of its own. */
+function freshCondition(id: string, solventId: string, ph: number): string {
+  db().insert(conditions).values({ id, solventId, acidBase: "acid", ph, additive: "" }).run();
+  return id;
 }
 
 describe("GET /api/search", () => {
@@ -72,11 +96,16 @@ describe("GET /api/search", () => {
         expect(body.results.map((r: Hit) => r.dye.id)).toEqual(expected.map((e) => e.dyeId));
         body.results.forEach((r: Hit, i: number) => {
           expect(r.deltaE00).toBeCloseTo(expected[i].deltaE00, 9);
-          expect(r.lab).toEqual(expected[i].lab);
+          for (let c = 0; c < 3; c++) expect(r.lab[c]).toBeCloseTo(expected[i].lab[c], 9);
           expect(r.predicted).toBe(false);
           expect(r.condition.solvent).toBe(expected[i].payload.solvent.name);
           expect(r.condition.acidBase).toBe(expected[i].payload.condition.acidBase);
-          expect(r.measurements).toBeGreaterThanOrEqual(1);
+          expect(r.condition.pH).toBe(expected[i].payload.condition.ph);
+          const reps = expected[i].payload.replicates;
+          expect(r.replicates).toBe(reps.length);
+          // Spread: RMS ΔE00 of the replicates from their mean (0 for one replicate).
+          const rms = Math.sqrt(reps.reduce((s, x) => s + ciede2000(x.m.l, x.m.a, x.m.b, ...expected[i].lab) ** 2, 0) / reps.length);
+          expect(r.spreadDeltaE00).toBeCloseTo(rms, 6);
         });
       }
     }
@@ -91,33 +120,57 @@ describe("GET /api/search", () => {
     expect(ids).toEqual(expected.map((e) => e.dyeId));
   });
 
-  it("finds the betaine dyes for 'violet in an aprotic medium', in dipolar aprotic solvents", async () => {
-    const { body } = await call("word=violet&medium=aprotic&limit=10");
-    expect(body.target.word).toBe("violet");
-    const violet = findColourWord("violet")!;
-    for (const r of body.results as Hit[]) expect(matchesColourWord(violet, ...r.lab)).toBe(true);
+  it("finds the betaine dyes for 'blue in an aprotic medium', in dipolar aprotic solvents", async () => {
+    // The demo betaines sit at hab 260–308° there: blue, like the sRGB blue primary (306°).
+    const { body } = await call("word=blue&medium=aprotic&limit=10");
+    expect(body.target.word).toBe("blue");
+    const blue = findColourWord("blue")!;
+    for (const r of body.results as Hit[]) expect(matchesColourWord(blue, ...r.lab)).toBe(true);
     const codes = body.results.map((r: Hit) => r.dye.code);
     expect(codes.some((c: string) => c.startsWith("KB-BT-"))).toBe(true);
     const betaine = (body.results as Hit[]).find((r) => r.dye.code.startsWith("KB-BT-"))!;
     expect(betaine.condition.medium).toBe("dipolar-aprotic");
-    const expected = brute(prototypeLab(violet), { medium: "aprotic", acidBase: "any" }, 10, (l, a, b) => matchesColourWord(violet, l, a, b));
+    const expected = brute(prototypeLab(blue), { medium: "aprotic", acidBase: "any" }, 10, (l, a, b) => matchesColourWord(blue, l, a, b));
     expect(codes).toEqual(expected.map((e) => e.payload.dye.code));
+  });
+
+  it("ranks the mean of the replicates, not the luckiest vial: a dye with one far-off replicate drops", async () => {
+    const target: Lab = [22, 64, -84];
+    const template = acceptedMeasurements(db())[0];
+    const cond = freshCondition("cond_it_reps", template.solvent.id, 2.71);
+    // Two replicates: one exactly on the target, one 20 L* units off; the mean sits 10 L* away.
+    db().insert(measurements).values({ ...template.m, id: "ms_it_rep1", conditionId: cond, l: target[0], a: target[1], b: target[2], reviewState: "accepted" }).run();
+    db().insert(measurements).values({ ...template.m, id: "ms_it_rep2", conditionId: cond, l: target[0] + 20, a: target[1], b: target[2], reviewState: "accepted" }).run();
+    const { body } = await call(`lab=${target.join(",")}&limit=3`);
+    const hit = (body.results as (Hit & { replicates: number; spreadDeltaE00: number })[]).find((r) => r.dye.id === template.dye.id && r.condition.pH === 2.71)!;
+    expect(hit.replicates).toBe(2);
+    expect(hit.lab[0]).toBeCloseTo(target[0] + 10, 9);
+    expect(hit.deltaE00).toBeCloseTo(ciede2000(...target, target[0] + 10, target[1], target[2]), 9);
+    const mean: Lab = [target[0] + 10, target[1], target[2]];
+    const rms = Math.sqrt((ciede2000(...target, ...mean) ** 2 + ciede2000(target[0] + 20, target[1], target[2], ...mean) ** 2) / 2);
+    expect(hit.spreadDeltaE00).toBeCloseTo(rms, 6);
+    expect(hit.deltaE00).toBeGreaterThan(1);
+    db().delete(measurements).where(eq(measurements.id, "ms_it_rep1")).run();
+    db().delete(measurements).where(eq(measurements.id, "ms_it_rep2")).run();
   });
 
   it("sees a newly accepted measurement, drops a rejected one and follows a reassigned one (no stale cache)", async () => {
     const { body: before } = await call("lab=12,70,-90&limit=1");
     const far = [12, 70, -90];
     const template = acceptedMeasurements(db())[0];
-    db().insert(measurements).values({ ...template.m, id: "ms_it_new", l: far[0], a: far[1], b: far[2], reviewState: "accepted" }).run();
+    const cond = freshCondition("cond_it_new", template.solvent.id, 3.33);
+    db().insert(measurements).values({ ...template.m, id: "ms_it_new", conditionId: cond, l: far[0], a: far[1], b: far[2], reviewState: "accepted" }).run();
     const { body: after } = await call("lab=12,70,-90&limit=1");
     expect(after.results[0].deltaE00).toBeLessThan(1e-9);
-    expect(after.results[0].measurementId).toBe("ms_it_new");
+    expect(after.results[0]).toMatchObject({ dye: { id: template.dye.id }, replicates: 1, spreadDeltaE00: 0 });
     expect(before.results[0].deltaE00).toBeGreaterThan(1);
 
     const other = acceptedMeasurements(db()).find((r) => r.dye.id !== template.dye.id && r.solvent.medium !== template.solvent.medium)!;
-    db().update(measurements).set({ dyeId: other.dye.id, conditionId: other.condition.id }).where(eq(measurements.id, "ms_it_new")).run();
+    const otherCond = freshCondition("cond_it_moved", other.solvent.id, 3.34);
+    db().update(measurements).set({ dyeId: other.dye.id, conditionId: otherCond }).where(eq(measurements.id, "ms_it_new")).run();
     const { body: moved } = await call(`lab=12,70,-90&limit=1&medium=${other.solvent.medium}`);
-    expect(moved.results[0]).toMatchObject({ measurementId: "ms_it_new", dye: { id: other.dye.id } });
+    expect(moved.results[0]).toMatchObject({ dye: { id: other.dye.id }, replicates: 1 });
+    expect(moved.results[0].deltaE00).toBeLessThan(1e-9);
 
     db().update(measurements).set({ reviewState: "rejected" }).where(eq(measurements.id, "ms_it_new")).run();
     const { body: gone } = await call("lab=12,70,-90&limit=1");
@@ -128,12 +181,14 @@ describe("GET /api/search", () => {
     const target: Lab = [88, -75, 70];
     const before = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 1 });
     const template = acceptedMeasurements(db())[0];
+    const cond = freshCondition("cond_it_tx", template.solvent.id, 3.35);
     expect(() =>
       db().transaction((tx) => {
-        tx.insert(measurements).values({ ...template.m, id: "ms_it_tx", l: target[0], a: target[1], b: target[2], reviewState: "accepted" }).run();
+        tx.insert(measurements).values({ ...template.m, id: "ms_it_tx", conditionId: cond, l: target[0], a: target[1], b: target[2], reviewState: "accepted" }).run();
         // Same connection, so the search runs inside the open transaction.
         const inside = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 1 });
-        expect(inside.results[0].measurementId).toBe("ms_it_tx");
+        expect(inside.results[0].deltaE00).toBeLessThan(1e-9);
+        expect(inside.results[0].condition.pH).toBe(3.35);
         throw new Error("roll back");
       }),
     ).toThrow("roll back");
@@ -144,15 +199,16 @@ describe("GET /api/search", () => {
   it("drops a measurement deleted through another connection after the in-memory index was built", async () => {
     const target: Lab = [5, 40, 60];
     const template = acceptedMeasurements(db())[0];
-    db().insert(measurements).values({ ...template.m, id: "ms_it_other", l: target[0], a: target[1], b: target[2], reviewState: "accepted" }).run();
+    const cond = freshCondition("cond_it_other", template.solvent.id, 3.36);
+    db().insert(measurements).values({ ...template.m, id: "ms_it_other", conditionId: cond, l: target[0], a: target[1], b: target[2], reviewState: "accepted" }).run();
     const seen = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 2 });
-    expect(seen.results[0].measurementId).toBe("ms_it_other");
+    expect(seen.results[0].deltaE00).toBeLessThan(1e-9);
     const other = openDatabase(databaseFile(dataDir()));
     other.$client.prepare("DELETE FROM measurements WHERE id = 'ms_it_other'").run();
     other.$client.close();
     const after = searchByColour(db(), { target, filter: { medium: "any", acidBase: "any" }, limit: 2 });
     expect(after.results).toHaveLength(2);
-    expect(after.results.map((r) => r.measurementId)).not.toContain("ms_it_other");
+    expect(after.results.map((r) => r.condition.pH)).not.toContain(3.36);
     expect(after.results[0]).toEqual(seen.results[1]);
   });
 
@@ -202,7 +258,7 @@ describe("GET /api/search/shift", () => {
   }
   type ShiftHit = { dye: { code: string }; shift: number; a: { lab: Lab; condition: { solvent: string; acidBase: string; medium: string } }; b: { lab: Lab; condition: { solvent: string; acidBase: string; medium: string } }; viewers: { kind: string; deltaE00: number; passes: boolean }[] };
 
-  it("ranks acid → base in one solvent by the largest ΔE00, each shift exact for its pair", async () => {
+  it("ranks acid → base in one solvent by the largest ΔEOK, each shift exact for its pair", async () => {
     const { status, body } = await shift("aAcidBase=acid&bAcidBase=base&sameSolvent=true&minShift=5&limit=50");
     expect(status).toBe(200);
     expect(body.results.length).toBeGreaterThan(0);
@@ -213,7 +269,8 @@ describe("GET /api/search/shift", () => {
       expect(r.shift).toBeGreaterThanOrEqual(5);
       expect(r.shift).toBeCloseTo(ciede2000(...r.a.lab, ...r.b.lab), 12);
     }
-    const shifts = (body.results as ShiftHit[]).map((r) => r.shift);
+    // Ranked by ΔEOK (the large-difference metric), ΔE00 reported beside it.
+    const shifts = (body.results as (ShiftHit & { shiftDeltaEOK: number })[]).map((r) => r.shiftDeltaEOK);
     expect([...shifts].sort((x, y) => y - x)).toEqual(shifts);
     // Dyes never measured in acid and base are listed with the reason, not silently dropped.
     expect(body.failures.some((f: { reason: string }) => /No accepted colour|same solvent|below the minimum/.test(f.reason))).toBe(true);

@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { gaussian, mulberry32 as rng } from "@/lib/random";
 import { ColorInputError } from "@/lib/color/errors";
 import { WHITE_POINTS_2DEG, type WhitePointName } from "@/lib/color/illuminants";
 import {
@@ -74,13 +75,50 @@ describe("λmax and transition energy", () => {
     const peak = 551.3;
     const wavelengths = [500, 520, 540, 545, 560, 580, 600];
     const s = { wavelengths, values: wavelengths.map((w) => 1 - ((w - peak) / 80) ** 2) };
-    expect(lambdaMax(s)).toBeCloseTo(peak, 9);
+    expect(lambdaMax(s)!).toBeCloseTo(peak, 9);
   });
 
   it("ignores a stronger UV band and takes the visible band's maximum", () => {
     const wavelengths = Array.from({ length: 56 }, (_, i) => 250 + 10 * i);
     const values = wavelengths.map((w) => 2 * Math.exp(-(((w - 280) / 20) ** 2)) + 0.8 * Math.exp(-(((w - 603) / 40) ** 2)));
-    expect(Math.abs(lambdaMax({ wavelengths, values }) - 603)).toBeLessThan(1);
+    expect(Math.abs(lambdaMax({ wavelengths, values })! - 603)).toBeLessThan(1);
+  });
+
+  it("takes the longest-wavelength visible band, not a stronger near-UV band at 372 nm (E_T(30) definition, Reichardt 1994)", () => {
+    // 1 nm data with noise; the band at 372 nm is 1.8× stronger than the visible charge-transfer band at 520 nm.
+    const random = rng(11);
+    const wavelengths = Array.from({ length: 551 }, (_, i) => 300 + i);
+    const values = wavelengths.map(
+      (w) => 1.8 * Math.exp(-(((w - 372) / 25) ** 2)) + 1.0 * Math.exp(-(((w - 520) / 45) ** 2)) + 0.002 * gaussian(random),
+    );
+    const peak = lambdaMax({ wavelengths, values });
+    expect(peak).not.toBeNull();
+    expect(Math.abs(peak! - 520)).toBeLessThan(2);
+    const colour = spectrumColour({ wavelengths, values }, "D65");
+    expect(Math.abs(colour.transitionEnergyKcalMol! - 28591 / 520)).toBeLessThan(0.3);
+    // The old "strongest band" rule would have reported 372 nm, E_T ≈ 77 kcal/mol.
+    expect(colour.transitionEnergyKcalMol!).toBeLessThan(60);
+  });
+
+  it("a rising UV tail only (no band maximum in the visible) gives λmax null and E_T null", () => {
+    const random = rng(12);
+    const wavelengths = Array.from({ length: 481 }, (_, i) => 300 + i);
+    const values = wavelengths.map((w) => 2.5 * Math.exp(-(w - 300) / 30) + 0.002 * gaussian(random));
+    expect(lambdaMax({ wavelengths, values })).toBeNull();
+    const colour = spectrumColour({ wavelengths, values }, "D65");
+    expect(colour.lambdaMaxNm).toBeNull();
+    expect(colour.transitionEnergyKcalMol).toBeNull();
+    // A band maximum at the edge of the measured range is not a band either.
+    expect(lambdaMax({ wavelengths: [400, 450, 500], values: [1, 0.6, 0.2] })).toBeNull();
+  });
+
+  it("a weak visible band far longer than a strong one still counts; noise wiggles on a shoulder do not", () => {
+    const random = rng(13);
+    const wavelengths = Array.from({ length: 401 }, (_, i) => 380 + i);
+    const values = wavelengths.map((w) => 1.2 * Math.exp(-(((w - 450) / 30) ** 2)) + 0.15 * Math.exp(-(((w - 640) / 30) ** 2)) + 0.002 * gaussian(random));
+    expect(Math.abs(lambdaMax({ wavelengths, values })! - 640)).toBeLessThan(3);
+    const single = wavelengths.map((w) => 1.2 * Math.exp(-(((w - 450) / 30) ** 2)) + 0.002 * gaussian(random));
+    expect(Math.abs(lambdaMax({ wavelengths, values: single })! - 450)).toBeLessThan(2);
   });
 
   it("E_T = 28591/λmax kcal/mol (Reichardt, Chem. Rev. 94 (1994) 2319): 453 nm → 63.1", () => {

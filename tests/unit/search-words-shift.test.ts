@@ -30,6 +30,34 @@ describe("colour words", () => {
     expect(colourWordsFor(...hexToLabD65(hex)!)).toContain(word);
   });
 
+  // Anchors: CSS Color Module Level 4 (W3C) §6.1 named colours, converted with IEC 61966-2-1.
+  it.each([
+    ["lemonchiffon", "fffacd", "yellow"],
+    ["lightgoldenrodyellow", "fafad2", "yellow"],
+    ["lightyellow", "ffffe0", "yellow"],
+    ["khaki", "f0e68c", "yellow"],
+    ["gold", "ffd700", "yellow"],
+    ["blue", "0000ff", "blue"],
+    ["mediumblue", "0000cd", "blue"],
+    ["navy", "000080", "blue"],
+    ["royalblue", "4169e1", "blue"],
+    ["slateblue", "6a5acd", "blue"],
+    ["steelblue", "4682b4", "blue"],
+    ["blueviolet", "8a2be2", "violet"],
+    ["indigo", "4b0082", "violet"],
+    ["darkviolet", "9400d3", "violet"],
+    ["darkmagenta", "8b008b", "purple"],
+    ["darkorange", "ff8c00", "orange"],
+  ])("CSS named colour %s (#%s) is called %s", (_name, hex, word) => {
+    expect(colourWordsFor(...hexToLabD65(hex)!)).toContain(word);
+  });
+
+  it("a pale yellow of L* 92, C* 25 is yellow, and the sRGB blue primary is blue, not violet", () => {
+    const h = (100 * Math.PI) / 180;
+    expect(colourWordsFor(92, 25 * Math.cos(h), 25 * Math.sin(h))).toEqual(["yellow"]);
+    expect(colourWordsFor(...hexToLabD65("0000ff")!)).toEqual(["blue"]);
+  });
+
   it("gives every hue word a prototype inside its own region", () => {
     for (const w of COLOUR_WORDS) expect(matchesColourWord(w, ...prototypeLab(w)), w.word).toBe(true);
   });

@@ -61,7 +61,7 @@ describe("shortlist export: colours per condition", () => {
       ],
       summariseByCondition([colour([40, 10, -20]), colour([42, 14, -20])]),
     );
-    const parsed = Papa.parse<Record<string, string>>(csv, { header: true }).data;
+    const parsed = Papa.parse<Record<string, string>>(csv, { header: true, skipEmptyLines: true }).data;
     expect(parsed).toHaveLength(2);
     expect(parsed[0]).toMatchObject({ code: "KB-T-1", condition: "1,4-Dioxane, neutral", solvent: "1,4-Dioxane", replicates: "2", L: "41", a: "12", b: "-20", solvent_et30_kcal_mol: "36", white_point: "D65, CIE 1931 2°" });
     // A note that a spreadsheet would run as a formula is quoted (OWASP, CSV injection).

@@ -1,7 +1,9 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { db } from "@/db/client";
-import { countPhotos, listLightingProfiles, listRecentPhotos } from "@/db/queries/bench";
+import { countPhotos, listRecentPhotos } from "@/db/queries/bench";
+import { benchProfiles } from "@/db/queries/lighting";
+import { AccuracyNotes } from "@/components/lighting/accuracy-notes";
 import { PhotoUploader } from "@/components/bench/photo-uploader";
 import { Card, PageHeader } from "@/components/ui/card";
 import { SafetyNotice } from "@/components/ui/safety";
@@ -23,15 +25,17 @@ export default async function BenchPage({ searchParams }: { searchParams: Promis
   const requested = Number((await searchParams).page ?? "1");
   const page = Number.isInteger(requested) && requested >= 1 ? Math.min(requested, pages) : 1;
   const photos = listRecentPhotos(handle, { limit: PAGE_SIZE, offset: (page - 1) * PAGE_SIZE });
-  const profiles = listLightingProfiles(handle).map(({ profile }) => ({ id: profile.id, name: profile.name }));
+  // Only approved profiles inside their validity window can be chosen (the server refuses the others too).
+  const profiles = benchProfiles(handle);
   return (
     <>
       <PageHeader
         title="Bench"
         lead="Upload rack photos, then mark each vial and the white or grey reference on them. Colours are measured on the stored photo, corrected for the light, and wait for a second person's review."
       />
-      <div className="mb-4">
+      <div className="mb-4 grid gap-4 lg:grid-cols-2">
         <SafetyNotice />
+        <AccuracyNotes />
       </div>
       <Card title="Upload rack photos" className="mb-4">
         <PhotoUploader maxBytes={photoLimits().maxBytes} profiles={profiles} />

@@ -1,10 +1,10 @@
-import Papa from "papaparse";
 import { db } from "@/db/client";
 import { exportAudit } from "@/db/queries/audit";
 import { listUsers } from "@/db/queries/users";
 import { apiRoute } from "@/lib/auth/guard";
 import { ADMIN_ONLY } from "@/lib/auth/roles";
 import { auditDiff } from "@/lib/audit/diff";
+import { writeCsv } from "@/lib/csv/write";
 import { auditParams, toAuditFilters } from "./filters";
 
 /**
@@ -29,8 +29,7 @@ export const GET = apiRoute({ access: ADMIN_ONLY, query: auditParams }, async ({
       .map((c) => `${c.field}: ${c.before} → ${c.after}`)
       .join("; "),
   ]);
-  // escapeFormulae: cells starting with = + - @ are quoted so spreadsheets do not run them (OWASP, CSV injection).
-  const csv = Papa.unparse({ fields: ["id", "at_utc", "who", "what", "record", "record_id", "changes"], data }, { newline: "\r\n", escapeFormulae: true });
+  const csv = writeCsv(["id", "at_utc", "who", "what", "record", "record_id", "changes"], data);
   const stamp = new Date().toISOString().slice(0, 10);
-  return new Response(csv + "\r\n", { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="solvatlas-audit-${stamp}.csv"` } });
+  return new Response(csv, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="solvatlas-audit-${stamp}.csv"` } });
 });

@@ -1,4 +1,4 @@
-import Papa from "papaparse";
+import { writeCsv } from "@/lib/csv/write";
 import type { MeasurementRow } from "@/db/queries/measurements";
 
 /** The public JSON shape of a measurement (CONTRACT.md: id, dye, lab, condition; the rest added). */
@@ -29,18 +29,17 @@ export function measurementJson(r: MeasurementRow) {
     pixels: m.pixelCount,
     rejected: m.rejectedCount,
     spread: m.spread,
+    /** Standard uncertainties of L*, a*, b* and the combined ± ΔE00 (null for rows made before they were stored). */
+    uncertainty: m.uDeltaE00 === null ? null : { l: m.uL, a: m.uA, b: m.uB },
+    uncertaintyDeltaE00: m.uDeltaE00,
+    /** "white-card-only": corrected by an in-photo white reference alone, with no lighting profile. */
+    correctionBasis: m.lightingProfileId ? "profile" : m.correctionKind === "white-scaling" ? "white-card-only" : m.correctionKind && m.correctionKind !== "none" ? "other" : "uncorrected",
     flags: m.flags,
     flagReason: m.flagReason,
     reviewState: m.reviewState,
     measuredAt: m.createdAt.toISOString(),
     measuredBy: r.author,
   };
-}
-
-/** Spreadsheet programs run a cell starting with = + - @ as a formula; text cells get a leading quote. */
-function safeText(v: string | null | undefined): string {
-  const s = v ?? "";
-  return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
 }
 
 export const CSV_COLUMNS = [
@@ -50,16 +49,17 @@ export const CSV_COLUMNS = [
   "solvent_et30_kcal_mol", "solvent_etn", "solvent_kt_alpha", "solvent_kt_beta", "solvent_kt_pi_star", "solvent_permittivity",
 ] as const;
 
+/** The shared writer (lib/csv) defuses formula-looking text; numbers stay numbers. */
 export function measurementsCsv(rows: MeasurementRow[]): string {
   const data = rows.map((r) => {
     const { m } = r;
     return [
-      m.id, safeText(r.dye.code), safeText(r.dye.name), safeText(r.solvent.name), r.solvent.medium, r.condition.acidBase, r.condition.ph ?? "",
-      safeText(r.condition.additive), r.condition.concentrationUmolL ?? "", m.l, m.a, m.b, r.chroma, r.hue, m.x, m.y, m.z, m.rawR, m.rawG, m.rawB,
-      m.illuminant, m.observer, safeText(r.profile?.name ?? ""), m.pixelCount, m.rejectedCount, m.spread, m.flags.join(" "), safeText(m.flagReason),
-      m.reviewState, m.createdAt.toISOString(), safeText(r.author), m.photoId ?? "",
+      m.id, r.dye.code, r.dye.name, r.solvent.name, r.solvent.medium, r.condition.acidBase, r.condition.ph ?? "",
+      r.condition.additive, r.condition.concentrationUmolL ?? "", m.l, m.a, m.b, r.chroma, r.hue, m.x, m.y, m.z, m.rawR, m.rawG, m.rawB,
+      m.illuminant, m.observer, r.profile?.name ?? "", m.pixelCount, m.rejectedCount, m.spread, m.flags.join(" "), m.flagReason,
+      m.reviewState, m.createdAt.toISOString(), r.author, m.photoId ?? "",
       r.solvent.et30 ?? "", r.solvent.etn ?? "", r.solvent.ktAlpha ?? "", r.solvent.ktBeta ?? "", r.solvent.ktPiStar ?? "", r.solvent.permittivity ?? "",
     ];
   });
-  return Papa.unparse({ fields: [...CSV_COLUMNS], data }, { newline: "\r\n" }) + "\r\n";
+  return writeCsv(CSV_COLUMNS, data);
 }

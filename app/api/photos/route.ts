@@ -3,7 +3,8 @@ import { storePhoto } from "@/db/queries/photos";
 import { listRecentPhotos } from "@/db/queries/bench";
 import { apiRoute } from "@/lib/auth/guard";
 import { ANY_ROLE, BENCH_ROLES } from "@/lib/auth/roles";
-import { AppError } from "@/lib/errors";
+import { AppError, isAppError } from "@/lib/errors";
+import { readLimited } from "@/lib/net/limited-body";
 import { objectStore } from "@/lib/storage";
 import { photoLimits } from "@/lib/storage/limits";
 import { z } from "zod";
@@ -15,16 +16,20 @@ const MULTIPART_OVERHEAD = 64 * 1024;
 /** Upload one rack photo: multipart field `file`, optional `lightingProfileId`. */
 export const POST = apiRoute({ access: BENCH_ROLES }, async ({ req, user }) => {
   const limits = photoLimits();
+  const tooBig = `The upload is too large: photos up to ${(limits.maxBytes / 1048576).toFixed(0)} MB are accepted. Export a smaller JPEG.`;
   const declared = Number(req.headers.get("content-length") ?? "NaN");
-  if (Number.isFinite(declared) && declared > limits.maxBytes + MULTIPART_OVERHEAD) {
-    throw new AppError("too_large", `The upload is ${(declared / 1048576).toFixed(1)} MB; photos up to ${(limits.maxBytes / 1048576).toFixed(0)} MB are accepted. Export a smaller JPEG.`);
-  }
-  if (!(req.headers.get("content-type") ?? "").toLowerCase().startsWith("multipart/form-data")) {
+  if (Number.isFinite(declared) && declared > limits.maxBytes + MULTIPART_OVERHEAD) throw new AppError("too_large", tooBig);
+  const contentType = req.headers.get("content-type") ?? "";
+  if (!contentType.toLowerCase().startsWith("multipart/form-data")) {
     throw new AppError("invalid_input", "Send the photo as multipart/form-data with the file in the field 'file'.", { file: ["Missing."] });
   }
+  // Counted as it streams: a chunked upload without Content-Length stops at the limit.
+  const raw = await readLimited(req.body, limits.maxBytes + MULTIPART_OVERHEAD).catch((error) => {
+    throw isAppError(error) ? new AppError("too_large", tooBig) : error;
+  });
   let form: FormData;
   try {
-    form = await req.formData();
+    form = await new Response(raw, { headers: { "content-type": contentType } }).formData();
   } catch {
     throw new AppError("invalid_input", "The multipart body could not be read. Send the photo as multipart/form-data with the file in the field 'file'.");
   }

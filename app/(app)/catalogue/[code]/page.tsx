@@ -12,6 +12,7 @@ import { ButtonLink } from "@/components/ui/button";
 import { listShortlists } from "@/db/queries/shortlists";
 import { lightingProfiles, photos } from "@/db/schema";
 import { Badge, Card, PageHeader } from "@/components/ui/card";
+import { UncertaintyText } from "@/components/lighting/uncertainty";
 import { Swatch, SwatchKey } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE, BENCH_ROLES, hasRole } from "@/lib/auth/roles";
@@ -19,11 +20,15 @@ import { labToLch } from "@/lib/color/lab";
 import type { Lab } from "@/lib/color/types";
 import { MEDIUM_LABELS, type MediumClass } from "@/lib/solvents/parameters";
 import { count } from "@/lib/text/count";
+import { DyeModelSection } from "@/components/models/dye-model-section";
+import { ensureDyeModel } from "@/db/queries/models";
+import { listSolvents } from "@/db/queries/solvents";
 
 const SCALES = {
   et30: { label: "ET(30)", unit: "kcal/mol", pick: (s: { et30: number | null }) => s.et30 },
   alpha: { label: "Kamlet–Taft α", unit: "", pick: (s: { ktAlpha: number | null }) => s.ktAlpha },
   pistar: { label: "Kamlet–Taft π*", unit: "", pick: (s: { ktPiStar: number | null }) => s.ktPiStar },
+  beta: { label: "Kamlet–Taft β", unit: "", pick: (s: { ktBeta: number | null }) => s.ktBeta },
   permittivity: { label: "permittivity εr", unit: "", pick: (s: { permittivity: number | null }) => s.permittivity },
 } as const;
 type ScaleKey = keyof typeof SCALES;
@@ -170,6 +175,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             ))}
           </div>
         </Card>
+        <DyeModelSection model={ensureDyeModel(handle, { dyeId: dye.id })} solvents={listSolvents(handle)} dyeCode={dye.code} />
         <Card title="a*b* plane, one point per condition" className="lg:col-span-1">
           {planePoints.length ? <AbPlane points={planePoints} /> : <p className="text-sm text-ink-soft">No accepted colours yet.</p>}
         </Card>
@@ -204,6 +210,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
                   <th className="py-2 pr-2 text-right">L*</th>
                   <th className="py-2 pr-2 text-right">C*ab</th>
                   <th className="py-2 pr-2 text-right">hab (°)</th>
+                  <th className="py-2 pr-2 text-right">± ΔE00</th>
                   <th className="py-2 pr-2">State</th>
                 </tr>
               </thead>
@@ -223,6 +230,9 @@ export default async function DyePage({ params, searchParams }: { params: Promis
                       <td className="py-1.5 pr-2 text-right tabular-nums">{lch[0].toFixed(1)}</td>
                       <td className="py-1.5 pr-2 text-right tabular-nums">{lch[1].toFixed(1)}</td>
                       <td className="py-1.5 pr-2 text-right tabular-nums">{lch[2].toFixed(0)}</td>
+                      <td className="py-1.5 pr-2 text-right tabular-nums">
+                        <UncertaintyText value={m.uDeltaE00} />
+                      </td>
                       <td className="py-1.5 pr-2">
                         <Badge tone={m.reviewState === "accepted" ? "ok" : m.reviewState === "pending" ? "warn" : "bad"}>{m.reviewState}</Badge>
                       </td>

@@ -9,7 +9,7 @@ import { scoreShifts } from "@/lib/search/shift";
 /**
  * GET /api/search/shift?aMedium=&aAcidBase=&bMedium=&bAcidBase=&from=&to=&minShift=&sameSolvent=&viewers=protan,deutan&viewerMinShift=&limit=
  * Dyes ranked by how well their colour change from condition A to condition B fits the request
- * (lib/search/shift); dyes that fail the minimum shift or a viewer check are listed with the reason.
+ * (lib/search/shift; the largest shifts ranked by ΔEOK, ΔE00 shown too); dyes that fail the minimum shift or a viewer check are listed with the reason.
  */
 export const GET = apiRoute({ access: ANY_ROLE, query: shiftSearchQuerySchema }, async ({ query }) => {
   const { dyes, candidates } = shiftCandidates(db(), { a: query.a, b: query.b });
@@ -23,6 +23,7 @@ export const GET = apiRoute({ access: ANY_ROLE, query: shiftSearchQuerySchema },
     results: results.slice(0, query.limit).map((r) => ({
       dye: dyes.get(r.dyeId)!,
       shift: r.shift,
+      shiftDeltaEOK: r.shiftOK,
       fromDeltaE00: r.fromDeltaE00,
       toDeltaE00: r.toDeltaE00,
       a: side(r.a),

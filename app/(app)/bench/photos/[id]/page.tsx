@@ -2,8 +2,10 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { db } from "@/db/client";
-import { listCalibrationTargets, listLightingProfiles, listRackTemplates, photoMeasurements } from "@/db/queries/bench";
+import { listCalibrationTargets, listRackTemplates, photoMeasurements } from "@/db/queries/bench";
 import { listDyes } from "@/db/queries/dyes";
+import { benchProfiles } from "@/db/queries/lighting";
+import { labD50ToLabD65 } from "@/lib/color/convert";
 import { getPhoto } from "@/db/queries/photos";
 import { listSolvents } from "@/db/queries/solvents";
 import { MarkingEditor } from "@/components/bench/marking-editor";
@@ -23,14 +25,15 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
   const handle = db();
   const photo = getPhoto(handle, id);
   if (!photo) notFound();
-  const now = Date.now();
-  const profiles = listLightingProfiles(handle).map(({ profile }) => ({
-    id: profile.id,
-    name: profile.name,
-    approved: !!profile.approvedAt,
-    validNow: profile.validFrom.getTime() <= now && (!profile.validUntil || profile.validUntil.getTime() >= now),
-  }));
-  const patches = listCalibrationTargets(handle).flatMap((t) => t.patches.map((p) => ({ label: `${t.name}: ${p.name} (L* ${p.lab[0].toFixed(2)}, a* ${p.lab[1].toFixed(2)}, b* ${p.lab[2].toFixed(2)})`, lab: p.lab })));
+  // Only approved profiles inside their validity window can be chosen (the server refuses the others too).
+  const profiles = benchProfiles(handle).map((p) => ({ ...p, approved: true, validNow: true }));
+  // The editor works in D65; a D50 card's values are Bradford-adapted here, never read as D65.
+  const patches = listCalibrationTargets(handle).flatMap((t) =>
+    t.patches.map((p) => {
+      const lab = t.whitePoint === "D50" ? labD50ToLabD65(p.lab) : p.lab;
+      return { label: `${t.name}: ${p.name} (L* ${lab[0].toFixed(2)}, a* ${lab[1].toFixed(2)}, b* ${lab[2].toFixed(2)}, D65${t.whitePoint === "D50" ? ", adapted from D50" : ""})`, lab };
+    }),
+  );
   const dyes = listDyes(handle).map((d) => ({ id: d.id, code: d.code, name: d.name, synonyms: d.synonyms, dyeClass: d.dyeClass }));
   const solvents = listSolvents(handle).map((s) => ({ id: s.id, name: s.name, medium: s.medium, cautions: s.cautions }));
   const templates = listRackTemplates(handle).map((t) => ({ id: t.id, name: t.name, regions: t.regions }));

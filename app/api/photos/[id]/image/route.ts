@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { db } from "@/db/client";
-import { getPhoto, photoDerivative } from "@/db/queries/photos";
+import { getPhoto, photoDerivative, readPhotoBytes } from "@/db/queries/photos";
 import { apiRoute } from "@/lib/auth/guard";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { AppError } from "@/lib/errors";
@@ -25,7 +25,7 @@ export const GET = apiRoute(
       "cache-control": "private, max-age=31536000, immutable",
     };
     if (query.size === "original") {
-      const bytes = await store.read(photo.storageKey);
+      const bytes = await readPhotoBytes(store, photo);
       const safeName = photo.originalName.replace(/[^A-Za-z0-9._-]+/g, "_") || "photo";
       return new Response(new Uint8Array(bytes), { headers: { ...headers, "content-type": photo.mimeType, "content-disposition": `attachment; filename="${safeName}"` } });
     }

@@ -1,0 +1,42 @@
+import { db } from "@/db/client";
+import { listProfiles } from "@/db/queries/lighting";
+import { apiRoute } from "@/lib/auth/guard";
+import { ANY_ROLE } from "@/lib/auth/roles";
+import { profileStatus } from "@/lib/lighting/status";
+
+/**
+ * Every lighting profile with its state (draft | approved | retired), its status now (expired and
+ * not-yet-valid are derived from the validity window), method, illuminant, residuals (training and
+ * leave-one-out ΔE00 per patch) and validity window. Read by every role; writes go through the
+ * admin-only actions of the Lighting page.
+ */
+export const GET = apiRoute({ access: ANY_ROLE }, async () => {
+  const now = new Date();
+  return {
+    profiles: listProfiles(db()).map(({ profile: p, target }) => ({
+      id: p.id,
+      name: p.name,
+      state: p.state,
+      status: profileStatus(p, now),
+      usableOnBench: profileStatus(p, now) === "approved",
+      illuminant: p.illuminant,
+      colourTemperatureK: p.colourTemperatureK,
+      lightSource: p.lightSource,
+      camera: p.camera,
+      cameraSettings: p.cameraSettings,
+      method: p.method,
+      correctionKind: p.correctionKind,
+      target: target ? { id: target.id, name: target.name, whitePoint: target.whitePoint } : null,
+      residuals: {
+        unit: "ΔE00 (CIEDE2000)",
+        looMean: p.looMeanDeltaE00,
+        looMax: p.looMaxDeltaE00,
+        patches: p.residuals ?? [],
+      },
+      validFrom: p.validFrom.toISOString(),
+      validUntil: p.validUntil?.toISOString() ?? null,
+      approvedAt: p.approvedAt?.toISOString() ?? null,
+      retiredAt: p.retiredAt?.toISOString() ?? null,
+    })),
+  };
+});

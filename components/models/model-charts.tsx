@@ -1,0 +1,65 @@
+"use client";
+
+import { CartesianGrid, Legend, Line, ComposedChart, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis, ErrorBar } from "recharts";
+
+export type ScalePoint = { solvent: string; x: number; observed: number; fitted: number; loo: number };
+
+const fmt = (v: number) => Math.round(v).toLocaleString("en-GB");
+
+/**
+ * ν̃ against the scale (for Kamlet–Taft, the fitted combination s·π* + a·α + b·β), the fitted line, and
+ * predicted-vs-observed with the leave-one-out points. Filled circles are measured band positions,
+ * open triangles the leave-one-out predictions, so the chart reads without colour.
+ */
+export function ScaleChart({ points, xLabel, predictions }: { points: ScalePoint[]; xLabel: string; predictions?: { solvent: string; x: number; value: number; halfWidth: number }[] }) {
+  const xs = points.map((p) => p.x);
+  const lo = Math.min(...xs);
+  const hi = Math.max(...xs);
+  const slopeLine = [...points].sort((a, b) => a.x - b.x).map((p) => ({ x: p.x, line: p.fitted }));
+  return (
+    <figure>
+      <div style={{ width: "100%", height: 280 }}>
+        <ResponsiveContainer>
+          <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
+            <CartesianGrid stroke="#e4e1da" />
+            <XAxis type="number" dataKey="x" domain={[lo - 0.05 * (hi - lo || 1), hi + 0.05 * (hi - lo || 1)]} tickFormatter={(v: number) => v.toFixed(2)} label={{ value: xLabel, position: "insideBottom", offset: -16 }} />
+            <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={64} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
+            <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
+            <Legend verticalAlign="top" height={28} />
+            <Line data={slopeLine} dataKey="line" name="fit" stroke="#1d2433" dot={false} strokeWidth={1.5} isAnimationActive={false} />
+            <Scatter data={points.map((p) => ({ x: p.x, y: p.observed, solvent: p.solvent }))} dataKey="y" name="measured ν̃ (apparent band)" fill="#1d2433" shape="circle" isAnimationActive={false} />
+            <Scatter data={points.map((p) => ({ x: p.x, y: p.loo, solvent: p.solvent }))} dataKey="y" name="leave-one-out prediction" fill="none" stroke="#8a4b00" shape="triangle" isAnimationActive={false} />
+            {predictions && predictions.length > 0 && (
+              <Scatter data={predictions.map((p) => ({ x: p.x, y: p.value, e: p.halfWidth, solvent: p.solvent }))} dataKey="y" name="predicted (unmeasured solvent, 95 % interval)" fill="#ffffff" stroke="#3b4cc0" shape="diamond" isAnimationActive={false}>
+                <ErrorBar dataKey="e" direction="y" stroke="#3b4cc0" />
+              </Scatter>
+            )}
+          </ComposedChart>
+        </ResponsiveContainer>
+      </div>
+    </figure>
+  );
+}
+
+/** Observed vs leave-one-out predicted ν̃ with the 1:1 line; residuals are the vertical distances. */
+export function ObservedPredictedChart({ points }: { points: ScalePoint[] }) {
+  const all = points.flatMap((p) => [p.observed, p.loo]);
+  const lo = Math.min(...all);
+  const hi = Math.max(...all);
+  return (
+    <div style={{ width: "100%", height: 280 }}>
+      <ResponsiveContainer>
+        <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
+          <CartesianGrid stroke="#e4e1da" />
+          <XAxis type="number" dataKey="x" domain={[lo, hi]} tickFormatter={fmt} label={{ value: "observed ν̃ / cm⁻¹", position: "insideBottom", offset: -16 }} />
+          <YAxis type="number" domain={[lo, hi]} tickFormatter={fmt} width={64} label={{ value: "predicted ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
+          <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
+          <Legend verticalAlign="top" height={28} />
+          <Line data={[{ x: lo, y: lo }, { x: hi, y: hi }]} dataKey="y" name="observed = predicted" stroke="#8b8578" strokeDasharray="4 4" dot={false} isAnimationActive={false} />
+          <Scatter data={points.map((p) => ({ x: p.observed, y: p.fitted, solvent: p.solvent }))} dataKey="y" name="fitted (all solvents)" fill="#1d2433" shape="circle" isAnimationActive={false} />
+          <Scatter data={points.map((p) => ({ x: p.observed, y: p.loo, solvent: p.solvent }))} dataKey="y" name="leave-one-out" fill="none" stroke="#8a4b00" shape="triangle" isAnimationActive={false} />
+        </ComposedChart>
+      </ResponsiveContainer>
+    </div>
+  );
+}
