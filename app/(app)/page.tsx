@@ -6,6 +6,7 @@ import { listSolvents } from "@/db/queries/solvents";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
+import { count } from "@/lib/text/count";
 
 export default async function OverviewPage() {
   const { user } = await pageAccess(ANY_ROLE);
@@ -14,43 +15,38 @@ export default async function OverviewPage() {
   const solvents = listSolvents(handle);
   const states = Object.fromEntries(countMeasurements(handle).map((s) => [s.state, s.n]));
   const photos = listRecentPhotos(handle, { limit: 5 });
+  const bench = user.role !== "formulator";
+  // Each tile opens the list it counts.
   const stats = [
     { label: "Dyes in the catalogue", value: dyes.length, href: "/catalogue" },
-    { label: "Accepted measurements", value: states.accepted ?? 0, href: "/catalogue" },
-    { label: "Waiting for review", value: states.pending ?? 0, href: user.role === "formulator" ? undefined : "/review" },
+    { label: "Accepted measurements", value: states.accepted ?? 0, href: "/measurements?state=accepted" },
+    { label: "Waiting for review", value: states.pending ?? 0, href: bench ? "/review" : "/measurements?state=pending" },
     { label: "Solvents with parameters", value: solvents.length, href: "/solvents" },
   ];
   return (
     <>
       <PageHeader title={`Hello, ${user.name.split(" ")[0]}`} lead="Calibrated CIELAB records of every dye across the solvent panel and acid/base conditions." />
-      <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-        {stats.map((s) => {
-          const body = (
-            <>
-              <p className="text-3xl font-bold tabular-nums">{s.value}</p>
-              <p className="mt-1 text-sm text-ink-soft">{s.label}</p>
-            </>
-          );
-          return s.href ? (
-            <Link key={s.label} href={s.href} className="rounded-xl border border-line bg-white p-5 hover:border-accent">
-              {body}
+      <ul className="grid grid-cols-2 gap-3 lg:grid-cols-4">
+        {stats.map((s) => (
+          <li key={s.label}>
+            <Link href={s.href} className="group flex h-full flex-col border border-line bg-white p-4 hover:border-ink sm:p-5">
+              <span className="text-3xl font-bold tabular-nums">{s.value.toLocaleString("en")}</span>
+              <span className="mt-1 text-sm text-ink-soft group-hover:underline">{s.label} →</span>
             </Link>
-          ) : (
-            <div key={s.label} className="rounded-xl border border-line bg-white p-5">
-              {body}
-            </div>
-          );
-        })}
-      </div>
+          </li>
+        ))}
+      </ul>
       <div className="mt-6 grid gap-4 lg:grid-cols-2">
         <Card title="Latest rack photos">
           <ul className="divide-y divide-line text-sm">
-            {photos.map(({ photo, uploader, profile, count }) => (
-              <li key={photo.id} className="py-2">
-                <p className="font-mono text-xs">{photo.originalName}</p>
-                <p className="text-ink-soft">
-                  {photo.takenAt?.toISOString().slice(0, 10) ?? "undated"} · {count} vials · {profile ?? "no lighting profile"} · {uploader}
-                </p>
+            {photos.map(({ photo, uploader, profile, count: n }) => (
+              <li key={photo.id}>
+                <Link href={bench ? `/bench/photos/${photo.id}` : `/measurements?photoId=${encodeURIComponent(photo.id)}`} className="block py-2 hover:bg-paper">
+                  <span className="block break-all font-mono text-xs underline">{photo.originalName}</span>
+                  <span className="block text-ink-soft">
+                    {photo.takenAt?.toISOString().slice(0, 10) ?? "undated"} · {count(n, "vial")} · {profile ?? "no lighting profile"} · {uploader}
+                  </span>
+                </Link>
               </li>
             ))}
           </ul>

@@ -12,7 +12,7 @@ export function SignInForm({ next }: { next?: string }) {
     <form action={action} className="space-y-4" noValidate>
       <input type="hidden" name="next" value={next ?? "/"} />
       <Field label="E-mail" name="email" error={state?.fieldErrors?.email}>
-        <TextInput name="email" type="email" autoComplete="username" required autoFocus error={state?.fieldErrors?.email} />
+        <TextInput name="email" type="email" autoComplete="username" required autoFocus defaultValue={state?.values?.email ?? ""} error={state?.fieldErrors?.email} />
       </Field>
       <Field label="Password" name="password" error={state?.fieldErrors?.password}>
         <TextInput name="password" type="password" autoComplete="current-password" required error={state?.fieldErrors?.password} />
@@ -20,7 +20,7 @@ export function SignInForm({ next }: { next?: string }) {
       <FormMessage state={state} />
       <div className="flex items-center justify-between gap-3">
         <SubmitButton pendingText="Signing in…">Sign in</SubmitButton>
-        <Link href="/forgot-password" className="text-sm font-medium text-accent underline-offset-2 hover:underline">
+        <Link href="/forgot-password" className="text-sm font-medium text-accent">
           Forgot your password?
         </Link>
       </div>
@@ -33,7 +33,7 @@ export function ResetRequestForm() {
   return (
     <form action={action} className="space-y-4" noValidate>
       <Field label="E-mail of your account" name="email" error={state?.fieldErrors?.email}>
-        <TextInput name="email" type="email" autoComplete="username" required error={state?.fieldErrors?.email} />
+        <TextInput name="email" type="email" autoComplete="username" required defaultValue={state?.values?.email ?? ""} error={state?.fieldErrors?.email} />
       </Field>
       <FormMessage state={state} />
       <SubmitButton pendingText="Sending…">Send reset link</SubmitButton>

@@ -22,9 +22,9 @@ export function AbPlane({ points, size = 360 }: { points: PlanePoint[]; size?: n
   return (
     <figure>
       <svg viewBox={`0 0 ${size} ${size}`} width="100%" style={{ maxWidth: size }} role="img" aria-label={`a*b* plane with ${points.length} conditions`}>
-        <rect x={0} y={0} width={size} height={size} fill="#fbfaf7" />
+        <rect x={0} y={0} width={size} height={size} fill="#f7f7f6" />
         {ticks.map((t) => (
-          <g key={t} stroke="#e4e1da" strokeWidth={t === 0 ? 1.5 : 0.75}>
+          <g key={t} stroke="#dcdcda" strokeWidth={t === 0 ? 1.5 : 0.75}>
             <line x1={x(t)} x2={x(t)} y1={pad / 2} y2={size - pad / 2} />
             <line y1={y(t)} y2={y(t)} x1={pad / 2} x2={size - pad / 2} />
           </g>
@@ -32,7 +32,7 @@ export function AbPlane({ points, size = 360 }: { points: PlanePoint[]; size?: n
         {ticks
           .filter((t) => t !== 0)
           .map((t) => (
-            <g key={`l${t}`} fontSize={9} fill="#6b7280">
+            <g key={`l${t}`} fontSize={9} fill="#4a4a48">
               <text x={x(t)} y={size / 2 + 11} textAnchor="middle">
                 {t}
               </text>
@@ -41,17 +41,17 @@ export function AbPlane({ points, size = 360 }: { points: PlanePoint[]; size?: n
               </text>
             </g>
           ))}
-        <text x={size - 6} y={size / 2 - 6} textAnchor="end" fontSize={11} fill="#374151">
+        <text x={size - 6} y={size / 2 - 6} textAnchor="end" fontSize={11} fill="#161616">
           +a* (red)
         </text>
-        <text x={size / 2 + 6} y={14} fontSize={11} fill="#374151">
+        <text x={size / 2 + 6} y={14} fontSize={11} fill="#161616">
           +b* (yellow)
         </text>
         {points.map((p, i) => {
           const cx = x(p.lab[1]);
           const cy = y(p.lab[2]);
           const fill = labD65ToHex(p.lab);
-          const stroke = p.acidBase === "neutral" ? "#1d2433" : "#7a1f1f";
+          const stroke = p.acidBase === "neutral" ? "#161616" : "#7a1f1f";
           const sw = p.acidBase === "neutral" ? 0.8 : 2;
           const title = <title>{`${p.label}: L* ${p.lab[0].toFixed(1)}, a* ${p.lab[1].toFixed(1)}, b* ${p.lab[2].toFixed(1)}`}</title>;
           if (MARKER[p.medium] === "circle") return <circle key={i} cx={cx} cy={cy} r={6} fill={fill} stroke={stroke} strokeWidth={sw}>{title}</circle>;
@@ -59,7 +59,7 @@ export function AbPlane({ points, size = 360 }: { points: PlanePoint[]; size?: n
           return <polygon key={i} points={`${cx},${cy - 7} ${cx + 7},${cy} ${cx},${cy + 7} ${cx - 7},${cy}`} fill={fill} stroke={stroke} strokeWidth={sw}>{title}</polygon>;
         })}
       </svg>
-      <figcaption className="mt-1 text-xs text-ink-soft">● protic · ■ dipolar aprotic · ◆ non-polar; a red ring marks acid or base conditions. Hover a point for its values.</figcaption>
+      <figcaption className="mt-1 text-xs text-ink-soft">● protic · ■ dipolar aprotic · ◆ non-polar; a red ring marks acid or base conditions. Hover a point for its values; every value is also in the Measurements table.</figcaption>
     </figure>
   );
 }

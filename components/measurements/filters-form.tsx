@@ -10,7 +10,7 @@ const MEDIUM_LABEL: Record<string, string> = { protic: "protic", "dipolar-aproti
 export function MeasurementFiltersForm({ choices, values }: { choices: Choices; values: TableParams }) {
   const field = (id: string, label: string, control: React.ReactNode) => (
     <div className="min-w-40 flex-1 space-y-1">
-      <label htmlFor={id} className="block text-xs font-semibold uppercase tracking-wide text-ink-soft">
+      <label htmlFor={id} className="block text-xs font-semibold text-ink-soft">
         {label}
       </label>
       {control}

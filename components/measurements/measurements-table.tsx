@@ -55,10 +55,10 @@ const columns = [
   col.accessor("medium", { header: "Medium", cell: (c) => c.getValue().replace("-", " ") }),
   col.accessor("acidBase", { header: "Condition" }),
   col.accessor("ph", { header: "pH", cell: (c) => (c.getValue() === null ? "—" : c.getValue()) }),
-  col.accessor("l", { header: "L*", cell: (c) => num(c.getValue()) }),
+  col.accessor("l", { header: "L* (D65)", cell: (c) => num(c.getValue()) }),
   col.display({ id: "ab", header: "a*, b*", cell: ({ row }) => `${num(row.original.a)}, ${num(row.original.b)}` }),
-  col.accessor("c", { header: "C*", cell: (c) => num(c.getValue()) }),
-  col.accessor("h", { header: "h°", cell: (c) => num(c.getValue(), 0) }),
+  col.accessor("c", { header: "C*ab", cell: (c) => num(c.getValue()) }),
+  col.accessor("h", { header: "hab (°)", cell: (c) => num(c.getValue(), 0) }),
   col.accessor("uDeltaE00", { header: "± ΔE00", cell: (c) => (c.getValue() === null || c.getValue() === undefined ? "not recorded" : `± ${num(c.getValue()!, 1)}`) }),
   col.accessor("profile", { header: "Profile", cell: (c) => c.getValue() ?? "none" }),
   col.accessor("flags", { header: "Flags", cell: (c) => (c.getValue().length ? c.getValue().join(", ") : "—") }),
@@ -126,7 +126,7 @@ export function MeasurementsTable(props: { rows: TableRow[]; total: number; page
       </div>
       <div className="overflow-x-auto">
         <table className="w-full text-left text-sm">
-          <thead className="bg-paper-deep/50 text-xs uppercase tracking-wide text-ink-soft">
+          <thead className="bg-paper-deep/50 text-xs text-ink-soft">
             {table.getHeaderGroups().map((group) => (
               <tr key={group.id}>
                 {group.headers.map((header) => {
@@ -135,7 +135,7 @@ export function MeasurementsTable(props: { rows: TableRow[]; total: number; page
                   return (
                     <th key={header.id} scope="col" className="whitespace-nowrap px-3 py-2" aria-sort={state ? (state === "desc" ? "descending" : "ascending") : undefined}>
                       {sortable ? (
-                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex min-h-11 items-center gap-1 font-semibold uppercase hover:text-ink">
+                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex min-h-11 items-center gap-1 font-semibold hover:text-ink">
                           {flexRender(header.column.columnDef.header, header.getContext())}
                           <span aria-hidden>{state === "asc" ? "▲" : state === "desc" ? "▼" : "↕"}</span>
                         </button>

@@ -12,6 +12,8 @@ import type { Lab } from "@/lib/color/types";
 import { COLOUR_WORDS } from "@/lib/search/colour-words";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
+import { count } from "@/lib/text/count";
+import { KeepHit } from "@/components/shortlists/keep-hit";
 
 type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number; replicates?: number; spreadDeltaE00?: number; uncertaintyDeltaE00?: number | null; tieWithPrevious?: boolean };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
@@ -26,7 +28,7 @@ type TargetKind = (typeof TARGET_KINDS)[number]["kind"];
 
 const FILTER_KEYS = ["medium", "acidBase", "solvent", "phMin", "phMax", "limit", "predicted"] as const;
 
-export function ColourSearch({ solvents }: { solvents: { id: string; name: string }[] }) {
+export function ColourSearch({ solvents, lists = [] }: { solvents: { id: string; name: string }[]; lists?: { id: string; name: string }[] }) {
   const params = useSearchParams();
   const router = useRouter();
   const pathname = usePathname();
@@ -85,11 +87,11 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
               </label>
             )}
             {kind === "hex" && (
-              <input name="hex" aria-label="Hex colour" value={hex} onChange={(e) => setHex(e.target.value)} placeholder="7a3fa0" className="min-h-11 w-48 rounded-lg border border-line px-3" />
+              <input name="hex" aria-label="Hex colour" value={hex} onChange={(e) => setHex(e.target.value)} placeholder="7a3fa0" className="min-h-11 w-48 rounded-md border border-field px-3" />
             )}
-            {kind === "lab" && <input name="lab" aria-label="CIELAB D65 as L,a,b" defaultValue={params.get("lab") ?? ""} placeholder="40,45,-50" className="min-h-11 w-48 rounded-lg border border-line px-3" />}
+            {kind === "lab" && <input name="lab" aria-label="CIELAB D65 as L,a,b" defaultValue={params.get("lab") ?? ""} placeholder="40,45,-50" className="min-h-11 w-48 rounded-md border border-field px-3" />}
             {kind === "word" && (
-              <select name="word" aria-label="Colour name" defaultValue={params.get("word") ?? "violet"} className="min-h-11 w-48 rounded-lg border border-line bg-white px-3">
+              <select name="word" aria-label="Colour name" defaultValue={params.get("word") ?? "violet"} className="min-h-11 w-48 rounded-md border border-field bg-white px-3">
                 {COLOUR_WORDS.map((w) => (
                   <option key={w.word} value={w.word}>
                     {w.word}
@@ -105,7 +107,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
           <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5">
             <label className="text-sm font-medium">
               Medium
-              <select name="medium" defaultValue={params.get("medium") ?? "any"} className="mt-1 min-h-11 w-full rounded-lg border border-line bg-white px-3 font-normal">
+              <select name="medium" defaultValue={params.get("medium") ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
                 <option value="any">any</option>
                 <option value="protic">protic</option>
                 <option value="dipolar-aprotic">dipolar aprotic</option>
@@ -115,7 +117,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
             </label>
             <label className="text-sm font-medium">
               Acid / base
-              <select name="acidBase" defaultValue={params.get("acidBase") ?? "any"} className="mt-1 min-h-11 w-full rounded-lg border border-line bg-white px-3 font-normal">
+              <select name="acidBase" defaultValue={params.get("acidBase") ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
                 <option value="any">any</option>
                 <option value="acid">acid</option>
                 <option value="neutral">neutral</option>
@@ -124,7 +126,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
             </label>
             <label className="text-sm font-medium">
               One solvent
-              <select name="solvent" defaultValue={params.get("solvent") ?? ""} className="mt-1 min-h-11 w-full rounded-lg border border-line bg-white px-3 font-normal">
+              <select name="solvent" defaultValue={params.get("solvent") ?? ""} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
                 <option value="">any solvent</option>
                 {solvents.map((s) => (
                   <option key={s.id} value={s.name}>
@@ -135,11 +137,11 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
             </label>
             <label className="text-sm font-medium">
               pH from
-              <input name="phMin" inputMode="decimal" defaultValue={params.get("phMin") ?? ""} placeholder="any" className="mt-1 min-h-11 w-full rounded-lg border border-line px-3 font-normal" />
+              <input name="phMin" inputMode="decimal" defaultValue={params.get("phMin") ?? ""} placeholder="any" className="mt-1 min-h-11 w-full rounded-md border border-field px-3 font-normal" />
             </label>
             <label className="text-sm font-medium">
               pH to
-              <input name="phMax" inputMode="decimal" defaultValue={params.get("phMax") ?? ""} placeholder="any" className="mt-1 min-h-11 w-full rounded-lg border border-line px-3 font-normal" />
+              <input name="phMax" inputMode="decimal" defaultValue={params.get("phMax") ?? ""} placeholder="any" className="mt-1 min-h-11 w-full rounded-md border border-field px-3 font-normal" />
             </label>
           </div>
           <div className="flex items-center gap-3">
@@ -154,11 +156,11 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
       {hasTarget && answer && (
         <Card
           className="mt-4"
-          title={`${answer.results.length} dyes, closest first${answer.target.word ? ` (colours called “${answer.target.word}”)` : ""}`}
+          title={`${count(answer.results.length, "dye")}, closest first${answer.target.word ? ` (colours called “${answer.target.word}”)` : ""}`}
           actions={
             selected.length >= 2 ? (
               <ButtonLink href={`/compare?dyes=${selected.map(encodeURIComponent).join(",")}`} variant="primary">
-                Compare {selected.length} dyes
+                Compare {count(selected.length, "dye")}
               </ButtonLink>
             ) : (
               <span className="text-sm text-ink-soft">Tick 2–6 dyes to compare them</span>
@@ -177,7 +179,7 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                     <Swatch lab={answer.target.lab} label="target" size="sm" />
                     {r.predicted ? <PredictedSwatch lab={r.lab} uncertaintyDeltaE00={r.uncertaintyDeltaE00 ?? 0} label={r.condition.solvent} size="md" /> : <Swatch lab={r.lab} label={r.condition.solvent} />}
                   </span>
-                  <div className="min-w-48 flex-1">
+                  <div className="min-w-0 flex-1 basis-48">
                     <Link href={`/catalogue/${encodeURIComponent(r.dye.code)}`} className="font-semibold text-accent hover:underline">
                       {r.dye.code} · {r.dye.name}
                     </Link>
@@ -197,12 +199,13 @@ export function ColourSearch({ solvents }: { solvents: { id: string; name: strin
                       </span>
                     )}
                   </span>
+                  <KeepHit dyeId={r.dye.id} code={r.dye.code} lists={lists} note={`Search: ΔE00 ${r.deltaE00.toFixed(1)} to ${answer.target.word ?? "the target"} in ${describeCondition(r.condition)}`} />
                 </li>
               ))}
             </ol>
           )}
           <p className="mt-3 text-xs text-ink-soft">
-            Each dye's colour in a condition (solvent, acid/base, pH) is the mean CIELAB (D65) of its accepted replicates there. Swatches are screen approximations; decide on the numbers. ΔE00 ≈ 1 is about a just-noticeable difference.
+            ≈ Each dye's colour in a condition (solvent, acid/base, pH) is the mean CIELAB (D65) of its accepted replicates there. Swatches are screen approximations; decide on the numbers. ΔE00 is the CIEDE2000 difference to the target (CIE 142-2001); ΔE00 ≈ 1 is about a just-noticeable difference.
           </p>
         </Card>
       )}

@@ -19,6 +19,20 @@ type Answer = {
 };
 
 const KEYS = ["aMedium", "aAcidBase", "bMedium", "bAcidBase", "from", "to", "minShift", "sameSolvent", "viewers", "viewerMinShift", "limit"] as const;
+/** What each query parameter is called on this page, for the server's messages. */
+const SCREEN_LABELS: Record<string, string> = {
+  from: "Colour in A",
+  to: "Colour in B",
+  minShift: "Minimum shift (ΔE00)",
+  viewerMinShift: "The colour-vision threshold (ΔE00)",
+  viewers: "Must stay visible to",
+  sameSolvent: "Pair colours in the same solvent",
+  aMedium: "Medium of A",
+  bMedium: "Medium of B",
+  aAcidBase: "Acid / base of A",
+  bAcidBase: "Acid / base of B",
+};
+
 const PRESETS = [
   { label: "Protic → aprotic", q: "aMedium=protic&bMedium=aprotic" },
   { label: "Acid → base, same solvent", q: "aAcidBase=acid&bAcidBase=base&sameSolvent=true" },
@@ -30,7 +44,7 @@ function ConditionPicker({ prefix, params }: { prefix: "a" | "b"; params: URLSea
     <>
       <label className="text-sm font-medium">
         Medium
-        <select name={`${prefix}Medium`} defaultValue={params.get(`${prefix}Medium`) ?? "any"} className="mt-1 min-h-11 w-full rounded-lg border border-line bg-white px-3 font-normal">
+        <select name={`${prefix}Medium`} defaultValue={params.get(`${prefix}Medium`) ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
           <option value="any">any</option>
           <option value="protic">protic</option>
           <option value="dipolar-aprotic">dipolar aprotic</option>
@@ -40,7 +54,7 @@ function ConditionPicker({ prefix, params }: { prefix: "a" | "b"; params: URLSea
       </label>
       <label className="text-sm font-medium">
         Acid / base
-        <select name={`${prefix}AcidBase`} defaultValue={params.get(`${prefix}AcidBase`) ?? "any"} className="mt-1 min-h-11 w-full rounded-lg border border-line bg-white px-3 font-normal">
+        <select name={`${prefix}AcidBase`} defaultValue={params.get(`${prefix}AcidBase`) ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
           <option value="any">any</option>
           <option value="acid">acid</option>
           <option value="neutral">neutral</option>
@@ -93,27 +107,27 @@ export function ShiftSearch() {
       <Card>
         <form key={qs} onSubmit={submit} aria-label="Search by colour shift" className="space-y-4">
           <div className="grid gap-4 md:grid-cols-2">
-            <fieldset className="grid grid-cols-2 gap-3 rounded-lg border border-line p-3">
+            <fieldset className="grid grid-cols-2 gap-3 rounded-md border border-field p-3">
               <legend className="px-1 text-sm font-semibold">Condition A</legend>
               <ConditionPicker prefix="a" params={params} />
               <label className="col-span-2 text-sm font-medium">
                 Colour in A (optional: word, hex or L,a,b)
-                <input name="from" defaultValue={params.get("from") ?? ""} placeholder="e.g. violet" className="mt-1 min-h-11 w-full rounded-lg border border-line px-3 font-normal" />
+                <input name="from" defaultValue={params.get("from") ?? ""} placeholder="e.g. violet" className="mt-1 min-h-11 w-full rounded-md border border-field px-3 font-normal" />
               </label>
             </fieldset>
-            <fieldset className="grid grid-cols-2 gap-3 rounded-lg border border-line p-3">
+            <fieldset className="grid grid-cols-2 gap-3 rounded-md border border-field p-3">
               <legend className="px-1 text-sm font-semibold">Condition B</legend>
               <ConditionPicker prefix="b" params={params} />
               <label className="col-span-2 text-sm font-medium">
                 Colour in B (optional)
-                <input name="to" defaultValue={params.get("to") ?? ""} placeholder="e.g. yellow" className="mt-1 min-h-11 w-full rounded-lg border border-line px-3 font-normal" />
+                <input name="to" defaultValue={params.get("to") ?? ""} placeholder="e.g. yellow" className="mt-1 min-h-11 w-full rounded-md border border-field px-3 font-normal" />
               </label>
             </fieldset>
           </div>
           <div className="flex flex-wrap items-end gap-4">
             <label className="text-sm font-medium">
               Minimum shift (ΔE00)
-              <input name="minShift" inputMode="decimal" defaultValue={params.get("minShift") ?? ""} placeholder="0" className="mt-1 min-h-11 w-28 rounded-lg border border-line px-3 font-normal" />
+              <input name="minShift" inputMode="decimal" defaultValue={params.get("minShift") ?? ""} placeholder="0" className="mt-1 min-h-11 w-28 rounded-md border border-field px-3 font-normal" />
             </label>
             <label className="flex min-h-11 items-center gap-2 text-sm">
               <input type="checkbox" name="sameSolvent" value="true" defaultChecked={params.get("sameSolvent") === "true"} className="h-5 w-5" />
@@ -130,7 +144,7 @@ export function ShiftSearch() {
               ))}
               <label className="flex items-center gap-1">
                 with ΔE00 ≥
-                <input name="viewerMinShift" inputMode="decimal" defaultValue={params.get("viewerMinShift") ?? "10"} className="min-h-11 w-20 rounded-lg border border-line px-3" />
+                <input name="viewerMinShift" inputMode="decimal" defaultValue={params.get("viewerMinShift") ?? "10"} className="min-h-11 w-20 rounded-md border border-field px-3" />
               </label>
             </fieldset>
             <Button type="submit">Search</Button>
@@ -138,10 +152,10 @@ export function ShiftSearch() {
           </div>
         </form>
       </Card>
-      <SearchFailed error={search.isError ? search.error : null} />
+      <SearchFailed error={search.isError ? search.error : null} labels={SCREEN_LABELS} />
       {asked && answer && (
         <>
-          <Card className="mt-4" title={`${answer.results.length} dyes with a fitting shift`}>
+          <Card className="mt-4" title={`${answer.results.length} ${answer.results.length === 1 ? "dye" : "dyes"} with a fitting shift (ΔE00 between A and B, CIEDE2000)`}>
             {answer.results.length === 0 ? (
               <p className="text-sm text-ink-soft">No dye passes. Lower the minimum shift or the viewer threshold, or widen a condition; the reasons are listed below.</p>
             ) : (
@@ -159,7 +173,7 @@ export function ShiftSearch() {
                       <span aria-hidden>→</span>
                       <Swatch lab={r.b.lab} label={`B: ${r.b.condition.solvent}`} />
                     </span>
-                    <div className="min-w-56 flex-1">
+                    <div className="min-w-0 flex-1 basis-56">
                       <Link href={`/catalogue/${encodeURIComponent(r.dye.code)}`} className="font-semibold text-accent hover:underline">
                         {r.dye.code} · {r.dye.name}
                       </Link>
@@ -169,10 +183,10 @@ export function ShiftSearch() {
                       {r.viewers.length > 0 && <p className="text-ink-soft">{r.viewers.map((v) => `${v.kind} ΔE00 ${v.deltaE00.toFixed(1)}`).join(" · ")}</p>}
                     </div>
                     <Badge tone="ok">measured</Badge>
-                    {r.fromDeltaE00 !== null && <span className="tabular-nums text-ink-soft">to A target {r.fromDeltaE00.toFixed(1)}</span>}
-                    {r.toDeltaE00 !== null && <span className="tabular-nums text-ink-soft">to B target {r.toDeltaE00.toFixed(1)}</span>}
-                    <span className="w-40 text-right tabular-nums">
-                      <span className="font-semibold">ΔEOK {r.shiftDeltaEOK.toFixed(1)}</span>
+                    {r.fromDeltaE00 !== null && <span className="tabular-nums text-ink-soft">ΔE00 to the A colour {r.fromDeltaE00.toFixed(1)}</span>}
+                    {r.toDeltaE00 !== null && <span className="tabular-nums text-ink-soft">ΔE00 to the B colour {r.toDeltaE00.toFixed(1)}</span>}
+                    <span className="text-right tabular-nums">
+                      <span className="font-semibold">shift A→B: ΔEOK {r.shiftDeltaEOK.toFixed(1)}</span>
                       <span className="block text-ink-soft">ΔE00 {r.shift.toFixed(1)}</span>
                     </span>
                   </li>
@@ -182,7 +196,7 @@ export function ShiftSearch() {
             )}
           </Card>
           {answer.failures.length > 0 && (
-            <Card className="mt-4" title={`${answer.failures.length} dyes left out, and why`}>
+            <Card className="mt-4" title={`${answer.failures.length} ${answer.failures.length === 1 ? "dye" : "dyes"} left out, and why`}>
               <ul className="divide-y divide-line text-sm" aria-label="Dyes left out">
                 {answer.failures.map((f) => (
                   <li key={f.dye.id} className="py-2" data-testid="shift-failure">

@@ -3,16 +3,17 @@ import type { ComponentProps } from "react";
 
 type Variant = "primary" | "secondary" | "danger" | "ghost";
 
+// Achromatic controls, so the only chromatic things on a page are measured colours (see app/globals.css).
 const VARIANTS: Record<Variant, string> = {
-  primary: "bg-accent text-white hover:bg-[#5a2588] border border-accent",
-  secondary: "bg-white text-ink border border-line hover:bg-paper-deep",
-  danger: "bg-white text-bad border border-bad/50 hover:bg-red-50",
-  ghost: "bg-transparent text-ink-soft border border-transparent hover:bg-paper-deep",
+  primary: "bg-ink text-white border border-ink hover:bg-[#3a3a3a]",
+  secondary: "bg-white text-ink border border-field hover:bg-paper",
+  danger: "bg-white text-bad border border-bad hover:bg-red-50",
+  ghost: "bg-transparent text-ink border border-transparent underline hover:bg-paper-deep",
 };
 
 // 44 px minimum height: large enough to hit with gloves on.
 const BASE =
-  "inline-flex min-h-11 items-center justify-center gap-2 rounded-lg px-4 text-sm font-semibold transition-colors disabled:cursor-not-allowed disabled:opacity-50";
+  "inline-flex min-h-11 items-center justify-center gap-2 rounded-md px-4 text-sm font-semibold no-underline transition-colors disabled:cursor-not-allowed disabled:opacity-50";
 
 export function Button({ variant = "primary", className = "", ...props }: ComponentProps<"button"> & { variant?: Variant }) {
   return <button className={`${BASE} ${VARIANTS[variant]} ${className}`} {...props} />;

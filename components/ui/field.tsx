@@ -1,7 +1,7 @@
 import type { ComponentProps } from "react";
 
 const INPUT =
-  "min-h-11 w-full rounded-lg border border-line bg-white px-3 text-base text-ink placeholder:text-ink-soft/60 focus:border-accent focus:outline-none";
+  "min-h-11 w-full rounded-md border border-field bg-white px-3 text-base text-ink placeholder:text-ink-soft aria-[invalid=true]:border-2 aria-[invalid=true]:border-bad";
 
 export function Field({ label, name, error, hint, children }: { label: string; name: string; error?: string[]; hint?: string; children?: React.ReactNode }) {
   return (
@@ -12,7 +12,8 @@ export function Field({ label, name, error, hint, children }: { label: string; n
       {children}
       {hint && !error && <p className="text-xs text-ink-soft">{hint}</p>}
       {error && (
-        <p id={`${name}-error`} className="text-sm text-bad">
+        <p id={`${name}-error`} className="text-sm font-medium text-bad">
+          <span aria-hidden>× </span>
           {error.join(" ")}
         </p>
       )}

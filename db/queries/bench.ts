@@ -46,7 +46,12 @@ export function listCalibrationTargets(db: Db) {
   return db.select().from(calibrationTargets).orderBy(calibrationTargets.name).all();
 }
 
-export function listRecentPhotos(db: Db, { limit = 30 }: { limit?: number } = {}) {
+/** Number of rack photos, for paging the bench list. */
+export function countPhotos(db: Db): number {
+  return db.select({ n: sql<number>`count(*)` }).from(photos).get()?.n ?? 0;
+}
+
+export function listRecentPhotos(db: Db, { limit = 30, offset = 0 }: { limit?: number; offset?: number } = {}) {
   const rows = db
     .select({
       photo: photos,
@@ -57,8 +62,9 @@ export function listRecentPhotos(db: Db, { limit = 30 }: { limit?: number } = {}
     .from(photos)
     .innerJoin(users, eq(photos.uploadedBy, users.id))
     .leftJoin(lightingProfiles, eq(photos.lightingProfileId, lightingProfiles.id))
-    .orderBy(desc(photos.createdAt))
+    .orderBy(desc(photos.createdAt), desc(photos.id))
     .limit(limit)
+    .offset(offset)
     .all();
   return rows;
 }

@@ -1,6 +1,8 @@
 import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/sqlite-core";
+import type { ConditionColour } from "@/lib/search/shortlist-csv";
 import type { Db } from "../connection";
-import { dyes, measurements, shortlistItems, shortlists, users, type Shortlist } from "../schema";
+import { conditions, dyes, measurements, shortlistItems, shortlists, solvents, users, type Shortlist } from "../schema";
 import { recordAudit } from "./audit";
 
 export function listShortlists(db: Db, { ownerId }: { ownerId?: string } = {}) {
@@ -81,4 +83,59 @@ export function updateShortlistItemNote(db: Db, { actorId, id, note }: { actorId
 
 export function recordShortlistShare(db: Db, { actorId, shortlistId, to }: { actorId: string; shortlistId: string; to: string }) {
   db.transaction((tx) => recordAudit(tx, { actorId, action: "shortlist.share", entity: "shortlist", entityId: shortlistId, after: { to } }));
+}
+
+/**
+ * Every accepted colour of the dyes on a shortlist, with its condition and that solvent's parameters,
+ * for exports that keep the colour (lib/search/shortlist-csv summarises them per condition).
+ */
+export function shortlistConditionColours(db: Db, { shortlistId }: { shortlistId: string }): ConditionColour[] {
+  const second = alias(solvents, "second_solvent");
+  return db
+    .select({
+      dyeCode: dyes.code,
+      conditionId: conditions.id,
+      solvent: solvents.name,
+      medium: solvents.medium,
+      acidBase: conditions.acidBase,
+      ph: conditions.ph,
+      additive: conditions.additive,
+      temperatureC: conditions.temperatureC,
+      secondSolvent: second.name,
+      secondSolventMoleFraction: conditions.secondSolventMoleFraction,
+      et30: solvents.et30,
+      etn: solvents.etn,
+      alpha: solvents.ktAlpha,
+      beta: solvents.ktBeta,
+      piStar: solvents.ktPiStar,
+      permittivity: solvents.permittivity,
+      illuminant: measurements.illuminant,
+      observer: measurements.observer,
+      l: measurements.l,
+      a: measurements.a,
+      b: measurements.b,
+    })
+    .from(shortlistItems)
+    .innerJoin(dyes, eq(shortlistItems.dyeId, dyes.id))
+    .innerJoin(measurements, and(eq(measurements.dyeId, dyes.id), eq(measurements.reviewState, "accepted")))
+    .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
+    .innerJoin(solvents, eq(conditions.solventId, solvents.id))
+    .leftJoin(second, eq(conditions.secondSolventId, second.id))
+    .where(eq(shortlistItems.shortlistId, shortlistId))
+    .all()
+    .map((r) => ({
+      dyeCode: r.dyeCode,
+      conditionId: r.conditionId,
+      solvent: r.solvent,
+      medium: r.medium,
+      acidBase: r.acidBase,
+      ph: r.ph,
+      additive: r.additive,
+      temperatureC: r.temperatureC,
+      secondSolvent: r.secondSolvent,
+      secondSolventMoleFraction: r.secondSolventMoleFraction,
+      solventParameters: { et30: r.et30, etn: r.etn, alpha: r.alpha, beta: r.beta, piStar: r.piStar, permittivity: r.permittivity },
+      whitePoint: `${r.illuminant}, ${r.observer}`,
+      lab: [r.l, r.a, r.b] as [number, number, number],
+    }));
 }

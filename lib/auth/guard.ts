@@ -18,23 +18,35 @@ import { currentUser } from "./session";
 
 export type Access = readonly Role[] | "public";
 
-function flattenIssues(error: z.ZodError): { message: string; fieldErrors: Record<string, string[]> } {
+// zod's own wording ("Invalid input: expected string…") is for programmers; a form shows this instead.
+const GENERIC_ZOD_MESSAGE = /^(Invalid|Too (small|big)|Expected|Unrecognized)/;
+
+/**
+ * API callers get the field's name in front of the message ("lab: …"): they wrote the JSON. A person
+ * filling in a form gets only the sentence, shown beside the field they typed into.
+ */
+function flattenIssues(error: z.ZodError, audience: "api" | "form"): { message: string; fieldErrors: Record<string, string[]> } {
   const fieldErrors: Record<string, string[]> = {};
+  const say = (message: string) => (audience === "form" && GENERIC_ZOD_MESSAGE.test(message) ? "Check this value and try again." : message);
   for (const issue of error.issues) {
     const key = issue.path.join(".") || "_";
-    (fieldErrors[key] ??= []).push(issue.message);
+    (fieldErrors[key] ??= []).push(say(issue.message));
   }
   const first = error.issues[0];
   const field = first.path.join(".");
+  if (audience === "form") {
+    const more = error.issues.length > 1 ? ` (${error.issues.length} fields need a change; each is marked.)` : "";
+    return { message: `${say(first.message)}${more}`, fieldErrors };
+  }
   // Name the field unless the message already starts with it ("lab must be …").
   const where = field && !first.message.startsWith(field) ? `${field}: ` : "";
   return { message: `${where}${first.message}`, fieldErrors };
 }
 
-export function parseInput<S extends z.ZodType>(schema: S, input: unknown): z.infer<S> {
+export function parseInput<S extends z.ZodType>(schema: S, input: unknown, audience: "api" | "form" = "api"): z.infer<S> {
   const result = schema.safeParse(input);
   if (!result.success) {
-    const { message, fieldErrors } = flattenIssues(result.error);
+    const { message, fieldErrors } = flattenIssues(result.error, audience);
     throw new AppError("invalid_input", message, fieldErrors);
   }
   return result.data;
@@ -111,7 +123,21 @@ export type ActionState = {
   message?: string;
   fieldErrors?: Record<string, string[]>;
   data?: Record<string, unknown>;
+  /** On failure, what was typed (text fields only, never passwords or tokens), so the form can show it again. */
+  values?: Record<string, string>;
 } | null;
+
+const NEVER_ECHOED = /password|confirm|token|secret/i;
+
+/** The text a person typed, to put back into the form after a refusal. */
+export function typedValues(formData: FormData): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [key, value] of formData.entries()) {
+    if (key.startsWith("$ACTION") || NEVER_ECHOED.test(key) || typeof value !== "string") continue;
+    out[key] = key in out ? `${out[key]}\n${value}` : value;
+  }
+  return out;
+}
 
 export function formDataToObject(formData: FormData): Record<string, unknown> {
   const out: Record<string, unknown> = {};
@@ -137,13 +163,14 @@ export function formAction<S extends z.ZodType>(
     try {
       const user = await currentUser();
       authorize(user, spec.access);
-      const input = parseInput(spec.schema, formDataToObject(formData));
+      const input = parseInput(spec.schema, formDataToObject(formData), "form");
       return (await handler(input, { user })) ?? { ok: true };
     } catch (error) {
       unstable_rethrow(error);
-      if (isAppError(error)) return { ok: false, code: error.code, message: error.message, fieldErrors: error.fieldErrors };
+      const values = typedValues(formData);
+      if (isAppError(error)) return { ok: false, code: error.code, message: error.message, fieldErrors: error.fieldErrors, values };
       console.error("Unhandled error in server action:", error);
-      return { ok: false, code: "internal", message: "Something went wrong on the server. Nothing was saved; try again." };
+      return { ok: false, code: "internal", message: "Something went wrong on the server. Nothing was saved; try again.", values };
     }
   };
 }

@@ -79,10 +79,14 @@ describe("the demo formulator", () => {
     expect(download.suggestedFilename()).toBe("Violet-in-aprotic-media.csv");
     const csv = fs.readFileSync((await download.path())!, "utf8");
     const lines = csv.trim().split(/\r?\n/);
-    expect(lines[0]).toBe("code,name,class,cas_number,molar_mass_g_mol,accepted_measurements,note,hazards");
-    expect(lines).toHaveLength(2);
-    expect(lines[1]).toContain(code);
-    expect(lines[1]).toContain("deep blue in acetonitrile");
+    expect(lines[0]).toMatch(/^code,name,class,cas_number,molar_mass_g_mol,accepted_measurements,note,hazards,condition,solvent,.*,L,a,b,C,h_deg,/);
+    // One row per condition the dye was accepted in, each carrying its colour and the solvent's parameters.
+    expect(lines.length).toBeGreaterThan(2);
+    for (const line of lines.slice(1)) {
+      expect(line).toContain(code);
+      expect(line).toContain("deep blue in acetonitrile");
+    }
+    expect(lines.slice(1).every((l) => /,(protic|dipolar-aprotic|nonpolar),(acid|neutral|base),/.test(l))).toBe(true);
 
     await signIn.signOut();
     expect(errors).toEqual([]);

@@ -156,7 +156,7 @@ describe("shortlist ownership", () => {
     const res = await exportShortlist(new Request(`http://localhost:3000/api/shortlists/${id}/export`, { headers: { authorization: `Bearer ${tokenFor("chemist")}` } }), { params: Promise.resolve({ id }) });
     expect(res.headers.get("content-type")).toMatch(/text\/csv/);
     const csv = await res.text();
-    expect(csv.split("\r\n")[0]).toBe("code,name,class,cas_number,molar_mass_g_mol,accepted_measurements,note,hazards");
+    expect(csv.split("\r\n")[0]).toMatch(/^code,name,class,cas_number,molar_mass_g_mol,accepted_measurements,note,hazards,condition,/);
     expect(csv).toContain("T-001,Test Violet,merocyanine");
     expect(csv).toContain("admin fixed a typo");
   });

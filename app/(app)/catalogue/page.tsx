@@ -4,11 +4,12 @@ import { db } from "@/db/client";
 import { acceptedMeasurements } from "@/db/queries/bench";
 import { listDyes } from "@/db/queries/dyes";
 import { PageHeader } from "@/components/ui/card";
-import { Swatch } from "@/components/ui/swatch";
+import { Swatch, SwatchKey } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE, BENCH_ROLES, hasRole } from "@/lib/auth/roles";
 import type { Lab } from "@/lib/color/types";
 import { searchDyesByText } from "@/lib/search/text";
+import { count } from "@/lib/text/count";
 
 export const metadata: Metadata = { title: "Catalogue" };
 
@@ -26,35 +27,63 @@ export default async function CataloguePage({ searchParams }: { searchParams: Pr
     if (!list.some((s) => s.solvent === row.solvent.name)) list.push({ etn: row.solvent.etn, lab: [row.m.l, row.m.a, row.m.b], solvent: row.solvent.name });
     strips.set(row.dye.id, list);
   }
+  // Hints name codes and classes that exist in this catalogue.
+  const exampleCode = all.find((d) => d.code)?.code;
+  const exampleClass = all[0]?.dyeClass;
+  const hint = ["e.g.", exampleClass, exampleCode].filter(Boolean).join(" ");
   return (
     <>
       <PageHeader
         title="Catalogue"
         actions={
           user && hasRole(user.role, BENCH_ROLES) ? (
-            <Link href="/catalogue/new" className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-white">
+            <Link href="/catalogue/new" className="inline-flex min-h-11 items-center rounded bg-accent px-4 text-sm font-semibold text-white">
               Add a dye
             </Link>
           ) : undefined
         }
-        lead={q ? `${dyes.length} dyes match “${q}” (typo-tolerant over names, codes, synonyms, CAS numbers, classes and notes).` : `${all.length} dyes. The strip shows each dye's colour in neutral solvents from least to most polar (ETN).`}
+        lead={q ? `${count(dyes.length, "dye")} ${dyes.length === 1 ? "matches" : "match"} “${q}” (typo-tolerant over names, codes, synonyms, CAS numbers, classes and notes).` : `${count(all.length, "dye")}. The strip shows each dye's colour in neutral solvents from least to most polar (ETN).`}
       />
       <form className="mb-4 flex max-w-xl gap-2" role="search">
         <label htmlFor="catalogue-q" className="sr-only">
           Search dyes
         </label>
-        <input id="catalogue-q" name="q" defaultValue={q} type="search" placeholder="e.g. merocyanine, KB-AZ-128, Tidewater" className="min-h-11 flex-1 rounded-lg border border-line bg-white px-3" />
-        <button className="min-h-11 rounded-lg bg-accent px-4 font-semibold text-white">Search</button>
+        <input id="catalogue-q" name="q" defaultValue={q} type="search" placeholder={hint} className="min-h-11 min-w-0 flex-1 rounded-md border border-field bg-white px-3" />
+        <button className="min-h-11 rounded-md bg-ink px-4 font-semibold text-white">Search</button>
       </form>
-      <div className="overflow-x-auto rounded-xl border border-line bg-white">
+      <SwatchKey className="mb-3" />
+      {/* Phones: one block per dye, its strip wrapping under the name. */}
+      <ul className="divide-y divide-line border border-line bg-white sm:hidden" aria-label="Dyes">
+        {dyes.map((d) => {
+          const strip = (strips.get(d.id) ?? []).sort((x, y) => x.etn - y.etn);
+          return (
+            <li key={d.id} className="px-3 py-3">
+              <Link href={`/catalogue/${encodeURIComponent(d.code)}`} className="block">
+                <span className="font-mono text-sm font-semibold underline">{d.code}</span> <span className="font-medium">{d.name}</span>
+                <span className="block text-sm text-ink-soft">
+                  {d.dyeClass} · {d.acceptedCount} accepted of {count(d.measurementCount, "measurement")}
+                </span>
+              </Link>
+              {strip.length > 0 && (
+                <div className="mt-2 flex flex-wrap gap-0.5" aria-label="Colour by polarity, ETN rising">
+                  {strip.map((s) => (
+                    <Swatch key={s.solvent} lab={s.lab} size="sm" label={s.solvent} />
+                  ))}
+                </div>
+              )}
+            </li>
+          );
+        })}
+      </ul>
+      <div className="scroll-x hidden border border-line bg-white sm:block">
         <table className="w-full text-left text-sm">
-          <thead className="border-b border-line bg-paper-deep/50 text-xs uppercase tracking-wide text-ink-soft">
+          <thead className="border-b border-ink text-xs text-ink-soft">
             <tr>
               <th className="px-4 py-3">Code</th>
               <th className="px-4 py-3">Name</th>
               <th className="px-4 py-3">Class</th>
-              <th className="px-4 py-3">Colour by polarity (ETN ↑)</th>
-              <th className="px-4 py-3 text-right">Accepted / all</th>
+              <th className="px-4 py-3">Colour by polarity (ETN, dimensionless, rising →)</th>
+              <th className="px-4 py-3 text-right">Accepted / all measurements</th>
             </tr>
           </thead>
           <tbody className="divide-y divide-line">
@@ -63,7 +92,7 @@ export default async function CataloguePage({ searchParams }: { searchParams: Pr
               return (
                 <tr key={d.id} className="hover:bg-paper/60">
                   <td className="px-4 py-2 font-mono text-xs">
-                    <Link href={`/catalogue/${encodeURIComponent(d.code)}`} className="font-semibold text-accent hover:underline">
+                    <Link href={`/catalogue/${encodeURIComponent(d.code)}`} className="font-semibold text-accent">
                       {d.code}
                     </Link>
                   </td>
@@ -84,8 +113,12 @@ export default async function CataloguePage({ searchParams }: { searchParams: Pr
             })}
           </tbody>
         </table>
-        {dyes.length === 0 && <p className="p-6 text-sm text-ink-soft">No dye matches. Try fewer letters, a code such as KB-MC-114, or a class such as azo.</p>}
       </div>
+      {dyes.length === 0 && (
+        <p className="border border-line bg-white p-6 text-sm text-ink-soft">
+          No dye matches. Try fewer letters{exampleCode ? `, a code such as ${exampleCode}` : ""}{exampleClass ? `, or a class such as ${exampleClass}` : ""}.
+        </p>
+      )}
     </>
   );
 }

@@ -111,7 +111,7 @@ export default async function ComparePage({ searchParams }: { searchParams: Prom
                   {ordered.map((row, i) => (
                     <tr key={row.key} className={row.key === at ? "bg-accent-soft/40" : undefined}>
                       <td className="py-1.5 pr-3">
-                        {(i === 0 || ordered[i - 1].medium !== row.medium) && <span className="block text-xs font-semibold uppercase text-ink-soft">{MEDIUM_LABELS[row.medium]}</span>}
+                        {(i === 0 || ordered[i - 1].medium !== row.medium) && <span className="block text-xs font-semibold text-ink-soft">{MEDIUM_LABELS[row.medium]}</span>}
                         <Link href={href(chosen.map((d) => d.code), `&at=${encodeURIComponent(row.key)}`)} className="hover:underline">
                           {row.label}, {row.acidBase}
                           {row.ph !== null ? ` pH ${row.ph}` : ""}

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { Suspense } from "react";
 import { db } from "@/db/client";
+import { listShortlists } from "@/db/queries/shortlists";
 import { listSolvents } from "@/db/queries/solvents";
 import { ColourSearch } from "@/components/search/colour-search";
 import { SearchTabs } from "@/components/search/search-tabs";
@@ -11,8 +12,9 @@ import { ANY_ROLE } from "@/lib/auth/roles";
 export const metadata: Metadata = { title: "Search by colour" };
 
 export default async function SearchPage() {
-  await pageAccess(ANY_ROLE);
+  const { user } = await pageAccess(ANY_ROLE);
   const solvents = listSolvents(db()).map((s) => ({ id: s.id, name: s.name }));
+  const lists = listShortlists(db(), { ownerId: user.id }).map(({ list }) => ({ id: list.id, name: list.name }));
   return (
     <>
       <PageHeader
@@ -21,7 +23,7 @@ export default async function SearchPage() {
       />
       <SearchTabs current="colour" />
       <Suspense fallback={<p className="text-sm text-ink-soft">Loading the search…</p>}>
-        <ColourSearch solvents={solvents} />
+        <ColourSearch solvents={solvents} lists={lists} />
       </Suspense>
     </>
   );

@@ -6,6 +6,7 @@ import { CreateShortlistForm } from "@/components/shortlists/shortlist-forms";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
+import { count } from "@/lib/text/count";
 
 export const metadata: Metadata = { title: "Shortlists" };
 
@@ -21,7 +22,7 @@ export default async function ShortlistsPage() {
           <Link href={`/shortlists/${list.id}`} className="block rounded-xl border border-line bg-white p-4 hover:border-accent">
             <p className="font-semibold">{list.name}</p>
             <p className="text-sm text-ink-soft">
-              {n} dyes · kept by {owner}
+              {count(n, "dye")} · kept by {owner}
             </p>
             {list.notes && <p className="mt-2 text-sm">{list.notes}</p>}
           </Link>

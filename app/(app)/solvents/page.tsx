@@ -4,19 +4,16 @@ import { db } from "@/db/client";
 import { listSolvents } from "@/db/queries/solvents";
 import { Badge, PageHeader } from "@/components/ui/card";
 import { SafetyNotice } from "@/components/ui/safety";
+import { SourcedValue } from "@/components/ui/sourced-value";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { MEDIUM_LABELS } from "@/lib/solvents/parameters";
 
 export const metadata: Metadata = { title: "Solvents" };
 
-function Value({ v, source, digits = 2 }: { v: number | null; source: string | null; digits?: number }) {
-  if (v === null) return <span className="text-ink-soft" title="No published value in the reference data shipped">—</span>;
-  return (
-    <span title={source ?? undefined} className="cursor-help tabular-nums underline decoration-dotted decoration-ink-soft/40 underline-offset-4">
-      {v.toFixed(digits)}
-    </span>
-  );
+function Value({ v, source, digits = 2, label }: { v: number | null; source: string | null; digits?: number; label: string }) {
+  if (v === null) return <span className="text-ink-soft">— <span className="sr-only">no published value in the shipped reference data</span></span>;
+  return <SourcedValue value={v.toFixed(digits)} source={source} label={label} />;
 }
 
 export default async function SolventsPage({ searchParams }: { searchParams: Promise<{ sort?: string }> }) {
@@ -29,11 +26,15 @@ export default async function SolventsPage({ searchParams }: { searchParams: Pro
     if (key === "name") return a.name.localeCompare(b.name);
     return ((b[key] as number | null) ?? -Infinity) - ((a[key] as number | null) ?? -Infinity);
   });
-  const head = (label: string, k: keyof typeof keys, title?: string) => (
-    <th className="px-3 py-3 text-right" title={title}>
-      <a href={`?sort=${k}`} className={sort === k ? "text-accent" : "hover:text-ink"}>
+  // Every column says its unit ("1" for dimensionless scales) and what it measures, in the header itself.
+  const head = (label: string, k: keyof typeof keys, unit: string, what: string) => (
+    <th className="px-3 py-3 text-right align-bottom font-normal">
+      <a href={`?sort=${k}`} aria-current={sort === k ? "true" : undefined} className={`block ${sort === k ? "font-bold text-ink underline" : "hover:text-ink hover:underline"}`}>
         {label}
+        {sort === k ? " ↓" : ""}
       </a>
+      <span className="block text-[11px]">{unit}</span>
+      <span className="block text-[11px]">{what}</span>
     </th>
   );
   return (
@@ -42,31 +43,34 @@ export default async function SolventsPage({ searchParams }: { searchParams: Pro
         title="Solvents"
         actions={
           user.role === "admin" ? (
-            <Link href="/solvents/new" className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-white">
+            <Link href="/solvents/new" className="inline-flex min-h-11 items-center rounded bg-accent px-4 text-sm font-semibold text-white">
               Add a solvent
             </Link>
           ) : undefined
         }
-        lead="Published polarity parameters of the solvent panel. Hover a value for its source. ETN = (ET(30) − 30.7)/32.4 (Reichardt). Medium class by common practice: O–H/N–H donors are protic; aprotic solvents with εr ≥ 5 are dipolar aprotic."
+        lead="Published polarity parameters of the solvent panel. Press a value (marked “src”) for its source. ETN = (ET(30) − 30.7)/32.4 (Reichardt). Medium class by common practice: O–H/N–H donors are protic; aprotic solvents with εr ≥ 5 are dipolar aprotic."
       />
       <div className="mb-4">
         <SafetyNotice />
       </div>
-      <div className="overflow-x-auto rounded-xl border border-line bg-white">
+      <div className="scroll-x border border-line bg-white">
         <table className="w-full text-sm">
-          <thead className="border-b border-line bg-paper-deep/50 text-xs uppercase tracking-wide text-ink-soft">
+          <thead className="border-b border-ink text-xs text-ink-soft">
             <tr>
-              <th className="px-3 py-3 text-left">
-                <a href="?sort=name">Solvent</a>
+              <th className="px-3 py-3 text-left align-bottom">
+                <a href="?sort=name" className="underline">Solvent</a>
               </th>
-              <th className="px-3 py-3 text-left">Medium</th>
-              {head("ET(30)", "et30", "kcal/mol")}
-              <th className="px-3 py-3 text-right">ETN</th>
-              {head("α", "alpha", "Kamlet–Taft H-bond donor acidity")}
-              {head("β", "beta", "Kamlet–Taft H-bond acceptor basicity")}
-              {head("π*", "pistar", "Kamlet–Taft dipolarity/polarizability")}
-              {head("εr", "eps", "relative permittivity")}
-              <th className="px-3 py-3 text-left">Cautions</th>
+              <th className="px-3 py-3 text-left align-bottom">Medium</th>
+              {head("ET(30)", "et30", "kcal/mol", "Reichardt polarity")}
+              <th className="px-3 py-3 text-right align-bottom font-normal">
+                ETN<span className="block text-[11px]">1 (dimensionless)</span>
+                <span className="block text-[11px]">normalised ET(30)</span>
+              </th>
+              {head("α", "alpha", "1 (dimensionless)", "Kamlet–Taft H-bond donor acidity")}
+              {head("β", "beta", "1 (dimensionless)", "Kamlet–Taft H-bond acceptor basicity")}
+              {head("π*", "pistar", "1 (dimensionless)", "Kamlet–Taft dipolarity/polarizability")}
+              {head("εr", "eps", "1 (dimensionless)", "relative permittivity")}
+              <th className="px-3 py-3 text-left align-bottom">Cautions</th>
             </tr>
           </thead>
           <tbody className="divide-y divide-line">
@@ -74,7 +78,7 @@ export default async function SolventsPage({ searchParams }: { searchParams: Pro
               <tr key={s.id} data-testid="solvent-row">
                 <td className="px-3 py-2">
                   {canEdit ? (
-                    <a href={`/solvents/${s.id}`} className="font-medium text-accent hover:underline" title="Edit values and sources">
+                    <a href={`/solvents/${s.id}`} className="font-medium text-accent">
                       {s.name}
                     </a>
                   ) : (
@@ -83,25 +87,25 @@ export default async function SolventsPage({ searchParams }: { searchParams: Pro
                   {s.synonyms.length > 0 && <span className="block text-xs text-ink-soft">{s.synonyms.join(", ")}</span>}
                 </td>
                 <td className="px-3 py-2">
-                  <Badge tone={s.medium === "protic" ? "accent" : s.medium === "dipolar-aprotic" ? "ok" : "neutral"}>{MEDIUM_LABELS[s.medium]}</Badge>
+                  <Badge>{MEDIUM_LABELS[s.medium]}</Badge>
                 </td>
                 <td className="px-3 py-2 text-right">
-                  <Value v={s.et30} source={s.et30Source} digits={1} />
+                  <Value v={s.et30} source={s.et30Source} digits={1} label={`${s.name}, ET(30) in kcal/mol,`} />
                 </td>
                 <td className="px-3 py-2 text-right">
-                  <Value v={s.etn} source="derived: (ET(30) − 30.7)/32.4" digits={3} />
+                  <Value v={s.etn} source="Derived: ETN = (ET(30) − 30.7)/32.4 (Reichardt)" digits={3} label={`${s.name}, ETN,`} />
                 </td>
                 <td className="px-3 py-2 text-right">
-                  <Value v={s.ktAlpha} source={s.ktAlphaSource} />
+                  <Value v={s.ktAlpha} source={s.ktAlphaSource} label={`${s.name}, α,`} />
                 </td>
                 <td className="px-3 py-2 text-right">
-                  <Value v={s.ktBeta} source={s.ktBetaSource} />
+                  <Value v={s.ktBeta} source={s.ktBetaSource} label={`${s.name}, β,`} />
                 </td>
                 <td className="px-3 py-2 text-right">
-                  <Value v={s.ktPiStar} source={s.ktPiStarSource} />
+                  <Value v={s.ktPiStar} source={s.ktPiStarSource} label={`${s.name}, π*,`} />
                 </td>
                 <td className="px-3 py-2 text-right">
-                  <Value v={s.permittivity} source={s.permittivitySource} digits={1} />
+                  <Value v={s.permittivity} source={s.permittivitySource} digits={1} label={`${s.name}, εr,`} />
                 </td>
                 <td className="max-w-xs px-3 py-2 text-xs text-ink-soft">{s.cautions || "Read the supplier's SDS."}</td>
               </tr>

@@ -47,6 +47,7 @@ export const CSV_COLUMNS = [
   "id", "dye_code", "dye_name", "solvent", "medium", "acid_base", "ph", "additive", "concentration_umol_l",
   "L", "a", "b", "C", "h", "X", "Y", "Z", "raw_linear_r", "raw_linear_g", "raw_linear_b", "illuminant", "observer",
   "lighting_profile", "pixels", "rejected", "spread", "flags", "flag_reason", "review_state", "measured_at", "measured_by", "photo_id",
+  "solvent_et30_kcal_mol", "solvent_etn", "solvent_kt_alpha", "solvent_kt_beta", "solvent_kt_pi_star", "solvent_permittivity",
 ] as const;
 
 /** The shared writer (lib/csv) defuses formula-looking text; numbers stay numbers. */
@@ -58,6 +59,7 @@ export function measurementsCsv(rows: MeasurementRow[]): string {
       r.condition.additive, r.condition.concentrationUmolL ?? "", m.l, m.a, m.b, r.chroma, r.hue, m.x, m.y, m.z, m.rawR, m.rawG, m.rawB,
       m.illuminant, m.observer, r.profile?.name ?? "", m.pixelCount, m.rejectedCount, m.spread, m.flags.join(" "), m.flagReason,
       m.reviewState, m.createdAt.toISOString(), r.author, m.photoId ?? "",
+      r.solvent.et30 ?? "", r.solvent.etn ?? "", r.solvent.ktAlpha ?? "", r.solvent.ktBeta ?? "", r.solvent.ktPiStar ?? "", r.solvent.permittivity ?? "",
     ];
   });
   return writeCsv(CSV_COLUMNS, data);

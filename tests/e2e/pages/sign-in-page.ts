@@ -22,6 +22,6 @@ export class SignInPage {
   }
 
   mainNavLabels() {
-    return this.page.locator("aside nav[aria-label=Main]").last().getByRole("link").allInnerTexts();
+    return this.page.locator("nav[aria-label=Main]").last().getByRole("link").allInnerTexts();
   }
 }

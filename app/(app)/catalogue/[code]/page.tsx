@@ -16,22 +16,23 @@ import { listShortlists } from "@/db/queries/shortlists";
 import { lightingProfiles, photos } from "@/db/schema";
 import { Badge, Card, PageHeader } from "@/components/ui/card";
 import { UncertaintyText } from "@/components/lighting/uncertainty";
-import { Swatch } from "@/components/ui/swatch";
+import { Swatch, SwatchKey } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE, BENCH_ROLES, hasRole } from "@/lib/auth/roles";
 import { labToLch } from "@/lib/color/lab";
 import type { Lab } from "@/lib/color/types";
 import { MEDIUM_LABELS, type MediumClass } from "@/lib/solvents/parameters";
+import { count } from "@/lib/text/count";
 import { DyeModelSection } from "@/components/models/dye-model-section";
 import { ensureDyeModel } from "@/db/queries/models";
 import { listSolvents } from "@/db/queries/solvents";
 
 const SCALES = {
-  et30: { label: "ET(30)", pick: (s: { et30: number | null }) => s.et30 },
-  alpha: { label: "Kamlet–Taft α", pick: (s: { ktAlpha: number | null }) => s.ktAlpha },
-  pistar: { label: "Kamlet–Taft π*", pick: (s: { ktPiStar: number | null }) => s.ktPiStar },
-  beta: { label: "Kamlet–Taft β", pick: (s: { ktBeta: number | null }) => s.ktBeta },
-  permittivity: { label: "permittivity εr", pick: (s: { permittivity: number | null }) => s.permittivity },
+  et30: { label: "ET(30)", unit: "kcal/mol", pick: (s: { et30: number | null }) => s.et30 },
+  alpha: { label: "Kamlet–Taft α", unit: "", pick: (s: { ktAlpha: number | null }) => s.ktAlpha },
+  pistar: { label: "Kamlet–Taft π*", unit: "", pick: (s: { ktPiStar: number | null }) => s.ktPiStar },
+  beta: { label: "Kamlet–Taft β", unit: "", pick: (s: { ktBeta: number | null }) => s.ktBeta },
+  permittivity: { label: "permittivity εr", unit: "", pick: (s: { permittivity: number | null }) => s.permittivity },
 } as const;
 type ScaleKey = keyof typeof SCALES;
 
@@ -154,7 +155,8 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             </nav>
           }
         >
-          <p className="mb-3 text-xs text-ink-soft">Neutral conditions, mean of accepted measurements, ordered by {SCALES[scale].label} within each medium class. Screen colours are approximate.</p>
+          <p className="mb-3 text-xs text-ink-soft">Neutral conditions, mean of accepted measurements, ordered by {SCALES[scale].label} within each medium class.</p>
+          <SwatchKey className="mb-3" />
           <div className="space-y-4">
             {byMedium.map(({ medium, items }) => (
               <div key={medium}>
@@ -167,7 +169,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
                       <li key={it.solvent.id} className="flex w-24 flex-col items-center text-center text-[11px] leading-tight">
                         <Swatch lab={it.lab} size="lg" label={it.solvent.name} />
                         <span className="mt-1 font-medium">{it.solvent.name}</span>
-                        <span className="text-ink-soft">{it.value === null ? "no value" : it.value}</span>
+                        <span className="text-ink-soft">{it.value === null ? "no value" : `${it.value}${SCALES[scale].unit ? ` ${SCALES[scale].unit}` : ""}`}</span>
                       </li>
                     ))}
                   </ul>
@@ -204,16 +206,16 @@ export default async function DyePage({ params, searchParams }: { params: Promis
         <SpectraSection db={handle} dyeId={dye.id} />
         <ReplicateGroups rows={accepted} />
         <Card title="Measurements" className="lg:col-span-2">
-          <div className="max-h-96 overflow-auto">
+          <div className="max-h-96 overflow-auto overscroll-contain">
             <table className="w-full text-left text-sm">
-              <thead className="sticky top-0 bg-white text-xs uppercase text-ink-soft">
+              <thead className="sticky top-0 bg-white text-xs text-ink-soft">
                 <tr>
                   <th className="py-2 pr-2"> </th>
                   <th className="py-2 pr-2">Solvent</th>
                   <th className="py-2 pr-2">Condition</th>
                   <th className="py-2 pr-2 text-right">L*</th>
-                  <th className="py-2 pr-2 text-right">C*</th>
-                  <th className="py-2 pr-2 text-right">h°</th>
+                  <th className="py-2 pr-2 text-right">C*ab</th>
+                  <th className="py-2 pr-2 text-right">hab (°)</th>
                   <th className="py-2 pr-2 text-right">± ΔE00</th>
                   <th className="py-2 pr-2">State</th>
                 </tr>
@@ -253,11 +255,13 @@ export default async function DyePage({ params, searchParams }: { params: Promis
           ) : (
             <ul className="grid gap-2 text-sm sm:grid-cols-2 lg:grid-cols-3">
               {photoRows.map((p) => (
-                <li key={p.id} className="rounded-lg border border-line p-2">
-                  <p className="font-medium">{p.name || p.id}</p>
-                  <p className="text-ink-soft">
-                    {(p.takenAt ?? p.createdAt).toISOString().slice(0, 10)} · {p.profile ?? "no lighting profile"} · {perPhoto.get(p.id) ?? 0} vials of this dye
-                  </p>
+                <li key={p.id}>
+                  <Link href={hasRole(user.role, BENCH_ROLES) ? `/bench/photos/${p.id}` : `/measurements?photoId=${encodeURIComponent(p.id)}`} className="block h-full border border-line p-2 hover:border-ink">
+                    <span className="block break-all font-medium underline">{p.name || p.id}</span>
+                    <span className="block text-ink-soft">
+                      {(p.takenAt ?? p.createdAt).toISOString().slice(0, 10)} · {p.profile ?? "no lighting profile"} · {count(perPhoto.get(p.id) ?? 0, "vial")} of this dye
+                    </span>
+                  </Link>
                 </li>
               ))}
             </ul>

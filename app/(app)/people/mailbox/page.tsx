@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { AdminTabs } from "@/components/people/admin-tabs";
+import { LinkedText } from "@/components/people/linked-text";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { Refused } from "@/components/shell/refused";
 import { pageAccess } from "@/lib/auth/page";
@@ -19,7 +20,7 @@ export default async function MailboxPage() {
       <AdminTabs current="/people/mailbox" />
       {!usingLocalMailbox() && <Notice>SMTP is configured: new messages go to the mail server and no longer appear here.</Notice>}
       {messages.length === 0 ? (
-        <p className="rounded-xl border border-line bg-white p-6 text-sm">No messages yet.</p>
+        <p className="border border-line bg-white p-6 text-sm">No messages yet.</p>
       ) : (
         <div className="space-y-3">
           {messages.map((m) => (
@@ -28,7 +29,9 @@ export default async function MailboxPage() {
                 <p className="mb-2 text-xs text-ink-soft">
                   To {m.to} · {m.at.replace("T", " ").slice(0, 19)} UTC
                 </p>
-                <pre className="whitespace-pre-wrap break-words font-sans text-sm">{m.text}</pre>
+                <pre className="whitespace-pre-wrap break-words font-sans text-sm">
+                  <LinkedText text={m.text} />
+                </pre>
               </article>
             </Card>
           ))}

@@ -8,6 +8,7 @@ import { ButtonLink } from "@/components/ui/button";
 import { Card, PageHeader } from "@/components/ui/card";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
+import { count } from "@/lib/text/count";
 
 export const metadata: Metadata = { title: "Shortlist" };
 
@@ -41,7 +42,7 @@ export default async function ShortlistPage({ params }: { params: Promise<{ id: 
         }
       />
       <div className="grid gap-4 lg:grid-cols-3">
-        <Card title={`${items.length} dyes`} className="lg:col-span-2">
+        <Card title={count(items.length, "dye")} className="lg:col-span-2">
           {items.length === 0 ? (
             <p className="text-sm text-ink-soft">No dyes yet: open a dye from the catalogue or a search and add it here.</p>
           ) : (

@@ -1,11 +1,11 @@
 import { db } from "@/db/client";
-import { findShortlist, shortlistDyes } from "@/db/queries/shortlists";
+import { findShortlist, shortlistConditionColours, shortlistDyes } from "@/db/queries/shortlists";
 import { apiRoute } from "@/lib/auth/guard";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { AppError } from "@/lib/errors";
-import { csvFileName, shortlistToCsv } from "@/lib/search/shortlist-csv";
+import { csvFileName, shortlistToCsv, summariseByCondition } from "@/lib/search/shortlist-csv";
 
-/** GET /api/shortlists/:id/export: the shortlist as CSV (one dye per row). */
+/** GET /api/shortlists/:id/export: the shortlist as CSV, one row per dye and condition with its CIELAB and the solvent parameters. */
 export const GET = apiRoute<never, never, { id: string }>({ access: ANY_ROLE }, async ({ params }) => {
   const handle = db();
   const found = findShortlist(handle, { id: params.id });
@@ -21,6 +21,7 @@ export const GET = apiRoute<never, never, { id: string }>({ access: ANY_ROLE }, 
       note: item.note,
       hazards: dye.hazards,
     })),
+    summariseByCondition(shortlistConditionColours(handle, { shortlistId: params.id })),
   );
   return new Response(csv, {
     headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${csvFileName(found.list.name)}"` },
