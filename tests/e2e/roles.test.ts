@@ -19,7 +19,8 @@ describe("each demo user", () => {
     await signIn.signIn(email);
     expect(await signIn.mainNavLabels()).toEqual(nav);
     const role = email.split("@")[0];
-    expect((await page.getByTestId("current-role").innerText()).toLowerCase()).toBe(role);
+    // The role shows in the top bar and again in the phone menu: read the first.
+    expect((await page.getByTestId("current-role").first().innerText()).toLowerCase()).toBe(role);
     await page.goto(`${base}/catalogue`);
     expect(await page.locator("tbody tr").count()).toBeGreaterThanOrEqual(30);
     await page.goto(`${base}/solvents`);

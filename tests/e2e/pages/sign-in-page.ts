@@ -9,6 +9,8 @@ export class SignInPage {
   ) {}
 
   async signIn(email: string, password = DEMO_PASSWORD) {
+    // Start signed out: a case that failed before signing out must not leave the next one signed in.
+    await this.page.context().clearCookies();
     await this.page.goto(`${this.base}/sign-in`);
     await this.page.getByLabel("E-mail").fill(email);
     await this.page.getByLabel("Password").fill(password);
