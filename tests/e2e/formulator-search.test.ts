@@ -76,7 +76,7 @@ describe("the demo formulator", () => {
     await page.goto(shortlistUrl);
     await page.getByTestId("shortlist-item").first().waitFor();
     const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Export CSV" }).click()]);
-    expect(download.suggestedFilename()).toBe("Violet-in-aprotic-media.csv");
+    expect(download.suggestedFilename()).toBe("Blue-in-aprotic-media.csv");
     const csv = fs.readFileSync((await download.path())!, "utf8");
     const lines = csv.trim().split(/\r?\n/);
     expect(lines[0]).toMatch(/^code,name,class,cas_number,molar_mass_g_mol,accepted_measurements,note,hazards,condition,solvent,.*,L,a,b,C,h_deg,/);
