@@ -29,15 +29,15 @@ describe("an indicator dye's page", () => {
     await expect(pka.innerText()).resolves.toMatch(/^pKa \d+\.\d\d ± \d+\.\d\d$/);
     const curve = page.getByTestId("titration-curve").first();
     await curve.waitFor();
-    // The fitted line and one dot per vial are drawn.
-    expect(await curve.locator("svg path").count()).toBeGreaterThan(0);
-    expect(await curve.locator("circle").count()).toBeGreaterThanOrEqual(5);
+    // The fitted line and one dot per vial are drawn (the chart draws after it has measured its box: wait for it).
+    await curve.locator("svg path").first().waitFor({ state: "attached", timeout: 30_000 });
+    await expect.poll(() => curve.locator("circle").count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(5);
     await expect(page.getByText(/Apparent pKa in Water/).first().innerText()).resolves.toMatch(/ionic strength/);
 
     await page.getByRole("heading", { name: /Absorption spectra/ }).waitFor();
     const chart = page.getByTestId("spectra-chart");
     await chart.waitFor();
-    expect(await chart.locator("svg path").count()).toBeGreaterThan(0);
+    await chart.locator("svg path").first().waitFor({ state: "attached", timeout: 30_000 });
     const rows = page.getByTestId("spectrum-row");
     expect(await rows.count()).toBeGreaterThanOrEqual(2);
     await expect(rows.first().innerText()).resolves.toMatch(/\d{3}\.\d/);
