@@ -11,26 +11,31 @@ import { AppError } from "@/lib/errors";
 import { etnFromEt30 } from "@/lib/solvents/parameters";
 import { solventEditSchema } from "@/lib/validation/solvent";
 
+/** The stored columns of a checked solvent form (each value beside its source; ETN derived from ET(30)). */
+function solventColumns(input: z.infer<typeof solventEditSchema>) {
+  return {
+    medium: input.medium,
+    mediumSource: input.mediumSource,
+    cautions: input.cautions,
+    et30: input.et30.value,
+    et30Source: input.et30.source,
+    etn: input.et30.value === null ? null : etnFromEt30(input.et30.value),
+    ktAlpha: input.alpha.value,
+    ktAlphaSource: input.alpha.source,
+    ktBeta: input.beta.value,
+    ktBetaSource: input.beta.source,
+    ktPiStar: input.piStar.value,
+    ktPiStarSource: input.piStar.source,
+    permittivity: input.permittivity.value,
+    permittivitySource: input.permittivity.source,
+  };
+}
+
 export const updateSolventAction = formAction({ access: ADMIN_ONLY, schema: solventEditSchema }, async (input, { user }) => {
   const after = updateSolvent(db(), {
     actorId: user.id,
     id: input.id,
-    changes: {
-      medium: input.medium,
-      mediumSource: input.mediumSource,
-      cautions: input.cautions,
-      et30: input.et30.value,
-      et30Source: input.et30.source,
-      etn: input.et30.value === null ? null : etnFromEt30(input.et30.value),
-      ktAlpha: input.alpha.value,
-      ktAlphaSource: input.alpha.source,
-      ktBeta: input.beta.value,
-      ktBetaSource: input.beta.source,
-      ktPiStar: input.piStar.value,
-      ktPiStarSource: input.piStar.source,
-      permittivity: input.permittivity.value,
-      permittivitySource: input.permittivity.source,
-    },
+    changes: solventColumns(input),
   });
   if (!after) throw new AppError("not_found", "This solvent no longer exists.");
   revalidatePath("/solvents");
@@ -54,20 +59,7 @@ export const createSolventAction = formAction({ access: ADMIN_ONLY, schema: solv
     solvent: {
       name: raw.name,
       synonyms: raw.synonyms,
-      medium: input.medium,
-      mediumSource: input.mediumSource,
-      cautions: input.cautions,
-      et30: input.et30.value,
-      et30Source: input.et30.source,
-      etn: input.et30.value === null ? null : etnFromEt30(input.et30.value),
-      ktAlpha: input.alpha.value,
-      ktAlphaSource: input.alpha.source,
-      ktBeta: input.beta.value,
-      ktBetaSource: input.beta.source,
-      ktPiStar: input.piStar.value,
-      ktPiStarSource: input.piStar.source,
-      permittivity: input.permittivity.value,
-      permittivitySource: input.permittivity.source,
+      ...solventColumns(input),
     },
   });
   revalidatePath("/solvents");
