@@ -641,10 +641,24 @@ export type AuditEntry = typeof auditLog.$inferSelect;
 // ---------------------------------------------------------------- change counters
 
 /**
- * One counter per cached read model ("dyes": the dye list with measurement counts), bumped by SQL
- * triggers (migration 0009) in every transaction that changes what the model reads.
+ * One counter per cached read model ("dyes": the dye list with measurement counts, migration 0009;
+ * "search_means": the search's replicate means, migration 0013), bumped by SQL triggers in every
+ * transaction that changes what the model reads.
  */
 export const changeCounters = sqliteTable("change_counters", {
   name: text("name").primaryKey(),
   n: integer("n").notNull().default(0),
+});
+
+/**
+ * One row per change of an accepted measurement that the search's replicate means read (migration 0013),
+ * numbered with the 'search_means' counter's new value: the (dye, condition) groups before and after.
+ * Written by SQL triggers only; pruned 8192 rows behind.
+ */
+export const searchMeanChanges = sqliteTable("search_mean_changes", {
+  seq: integer("seq").primaryKey(),
+  oldDyeId: text("old_dye_id"),
+  oldConditionId: text("old_condition_id"),
+  newDyeId: text("new_dye_id"),
+  newConditionId: text("new_condition_id"),
 });

@@ -3,9 +3,9 @@ import { sql } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
 import type { LabBox } from "../../lib/search/bound";
 import { conditionMatches, type ConditionFilter } from "../../lib/search/filters";
-import { buildLabGrid, queryLabGrid, type LabGrid } from "../../lib/search/grid";
+import { ReplicateMeansIndex } from "../../lib/search/means-index";
 import { rankByColourIndexed, type ColourColumns } from "../../lib/search/rank";
-import { replicateMeans, type ReplicateMean } from "../../lib/search/replicates";
+import { replicateGroupKey, replicateMeanGroups, replicateMeans, type ReplicateRow } from "../../lib/search/replicates";
 import type { ShiftDye } from "../../lib/search/shift";
 import type { Db } from "../connection";
 import { solvents, type AcidBase, type Medium } from "../schema";
@@ -26,7 +26,9 @@ export type ColourHit = {
   measurements: number;
 };
 
-export type ColourSearch = { results: ColourHit[]; stats: { radius: number; rounds: number; scanned: number } };
+/** How the in-memory means were brought to the current state for this search. */
+export type MeansRefresh = "reused" | "replayed" | "rebuilt";
+export type ColourSearch = { results: ColourHit[]; stats: { radius: number; rounds: number; scanned: number; means: MeansRefresh } };
 
 const catalogueStatements = new WeakMap<Database.Database, Database.Statement>();
 
@@ -48,88 +50,114 @@ export function conditionCatalogue(db: Db): ConditionInfo[] {
 }
 
 /**
- * The replicate means of one database state, with the in-memory grid index over them
- * (lib/search/grid: bucketed by condition, then by a coarse CIELAB cell). `stamp` identifies the state:
- * SQLite's `data_version` (changes when any other connection commits) and this connection's
- * `total_changes()` (changes with each of its own writes), so a mean is never stale.
+ * The replicate means kept per connection (lib/search/means-index) and the counter value they reflect
+ * (migration 0013: 'search_means' moves only when something a mean reads changes, whichever connection
+ * or process wrote it). `conditions` maps a condition to its group fields for replaying changes.
  */
-type MeansIndex = {
-  stamp: string;
-  means: ReplicateMean[];
-  dyeIds: string[];
-  /** Dense dye index per mean. */
-  dye: Int32Array;
-  condIds: string[];
-  grid: LabGrid;
-  /** Reused output columns of a box fetch. */
-  out: { dye: Int32Array; l: Float64Array; a: Float64Array; b: Float64Array; ref: Int32Array };
-};
+type MeansState = { counter: number; index: ReplicateMeansIndex; conditions: Map<string, GroupFields> };
+type GroupFields = { solventId: string; acidBase: string; ph: number | null };
 
-const meansIndexes = new WeakMap<Database.Database, MeansIndex>();
-const rowStatements = new WeakMap<Database.Database, Database.Statement>();
+/** Changes replayed one group at a time up to this many; beyond, a rebuild is cheaper. */
+const MAX_REPLAY = 4096;
 
-function stampOf(client: Database.Database): string {
-  const version = client.pragma("data_version", { simple: true }) as number;
-  const own = client.prepare("SELECT total_changes()").pluck(true).get() as number;
-  return `${version}:${own}`;
+const meansStates = new WeakMap<Database.Database, MeansState>();
+const meansStatements = new WeakMap<Database.Database, ReturnType<typeof prepareMeansStatements>>();
+
+function prepareMeansStatements(client: Database.Database) {
+  const groupColumns = "m.dye_id, m.condition_id, c.solvent_id, c.acid_base, c.ph, m.l, m.a, m.b";
+  return {
+    counter: client.prepare("SELECT n FROM change_counters WHERE name = 'search_means'").pluck(true),
+    // Ordered by condition and id within a dye, so a group's sums add up in the same order either way.
+    all: client
+      .prepare(`SELECT ${groupColumns} FROM measurements m JOIN conditions c ON c.id = m.condition_id WHERE m.review_state = 'accepted' ORDER BY m.dye_id, m.condition_id, m.id`)
+      .raw(true),
+    group: client
+      .prepare(
+        `SELECT ${groupColumns} FROM measurements m JOIN conditions c ON c.id = m.condition_id
+         WHERE m.dye_id = ? AND m.review_state = 'accepted' AND c.solvent_id = ? AND c.acid_base = ? AND c.ph IS ? ORDER BY m.condition_id, m.id`,
+      )
+      .raw(true),
+    conditions: client.prepare("SELECT id, solvent_id, acid_base, ph FROM conditions").raw(true),
+    condition: client.prepare("SELECT id, solvent_id, acid_base, ph FROM conditions WHERE id = ?").raw(true),
+    changes: client.prepare("SELECT old_dye_id, old_condition_id, new_dye_id, new_condition_id FROM search_mean_changes WHERE seq > ? AND seq <= ?").raw(true),
+  };
 }
 
-function buildMeansIndex(client: Database.Database, stamp: string): MeansIndex {
-  let st = rowStatements.get(client);
-  if (!st) {
-    st = client
-      .prepare(
-        `SELECT m.dye_id, m.condition_id, c.solvent_id, c.acid_base, c.ph, m.l, m.a, m.b
-         FROM measurements m JOIN conditions c ON c.id = m.condition_id
-         WHERE m.review_state = 'accepted' ORDER BY m.dye_id, m.condition_id, m.id`,
-      )
-      .raw(true);
-    rowStatements.set(client, st);
-  }
-  const rows = st.all() as [string, string, string, string, number | null, number, number, number][];
-  const means = replicateMeans(rows.map(([dyeId, conditionId, solventId, acidBase, ph, l, a, b]) => ({ dyeId, conditionId, solventId, acidBase, ph, lab: [l, a, b] as Lab })));
-  const dyeIds: string[] = [];
-  const dyeIndex = new Map<string, number>();
-  const condIds: string[] = [];
-  const condIndex = new Map<string, number>();
-  const intern = (ids: string[], index: Map<string, number>, id: string) => {
-    let i = index.get(id);
-    if (i === undefined) {
-      i = ids.length;
-      ids.push(id);
-      index.set(id, i);
-    }
-    return i;
-  };
-  const n = means.length;
-  const dye = new Int32Array(n);
-  const cond = new Int32Array(n);
-  const key = new Int32Array(n);
-  const l = new Float64Array(n);
-  const a = new Float64Array(n);
-  const b = new Float64Array(n);
-  means.forEach((m, i) => {
-    dye[i] = intern(dyeIds, dyeIndex, m.dyeId);
-    cond[i] = intern(condIds, condIndex, m.conditionId);
-    key[i] = i;
-    [l[i], a[i], b[i]] = m.lab;
-  });
-  const grid = buildLabGrid({ key, cond, l, a, b, count: n, conditions: condIds.length });
-  return { stamp, means, dyeIds, dye, condIds, grid, out: { dye: new Int32Array(n), l: new Float64Array(n), a: new Float64Array(n), b: new Float64Array(n), ref: new Int32Array(n) } };
+function meansStatementsOf(client: Database.Database) {
+  let st = meansStatements.get(client);
+  if (!st) meansStatements.set(client, (st = prepareMeansStatements(client)));
+  return st;
+}
+
+type GroupRow = [dyeId: string, conditionId: string, solventId: string, acidBase: string, ph: number | null, l: number, a: number, b: number];
+const replicateRows = function* (rows: Iterable<GroupRow>): Generator<ReplicateRow> {
+  for (const [dyeId, conditionId, solventId, acidBase, ph, l, a, b] of rows) yield { dyeId, conditionId, solventId, acidBase, ph, lab: [l, a, b] };
+};
+
+function buildMeansState(client: Database.Database, counter: number): MeansState {
+  const st = meansStatementsOf(client);
+  const conditions = new Map(
+    (st.conditions.all() as [string, string, string, number | null][]).map(([id, solventId, acidBase, ph]) => [id, { solventId, acidBase, ph }]),
+  );
+  return { counter, conditions, index: new ReplicateMeansIndex(replicateMeanGroups(replicateRows(st.all.iterate() as IterableIterator<GroupRow>))) };
 }
 
 /**
- * The index for the current state: reused while nothing has changed. Inside a transaction it is built
- * afresh and not kept (what the transaction wrote may still roll back).
+ * Brings `state` from its counter to `counter` by recomputing, from SQLite, each group named by the
+ * change rows in between. False (state untouched) when a number is missing — a condition or dye change,
+ * or rows pruned — or too many groups changed: the caller rebuilds.
  */
-function meansIndex(client: Database.Database): MeansIndex {
-  const stamp = stampOf(client);
-  if (client.inTransaction) return buildMeansIndex(client, stamp);
-  const cached = meansIndexes.get(client);
-  if (cached && cached.stamp === stamp) return cached;
-  const fresh = buildMeansIndex(client, stamp);
-  meansIndexes.set(client, fresh);
-  return fresh;
+function replayChanges(client: Database.Database, state: MeansState, counter: number): boolean {
+  if (counter - state.counter > MAX_REPLAY) return false;
+  const st = meansStatementsOf(client);
+  const changes = st.changes.all(state.counter, counter) as [string | null, string | null, string | null, string | null][];
+  if (changes.length !== counter - state.counter) return false;
+  const touched = new Map<string, ReplicateRow>();
+  const newConditions: [string, GroupFields][] = [];
+  for (const [oldDye, oldCond, newDye, newCond] of changes) {
+    for (const [dyeId, conditionId] of [[oldDye, oldCond], [newDye, newCond]]) {
+      if (dyeId === null || conditionId === null) continue;
+      let fields = state.conditions.get(conditionId);
+      if (!fields) {
+        const row = st.condition.get(conditionId) as [string, string, string, number | null] | undefined;
+        if (!row) return false;
+        fields = { solventId: row[1], acidBase: row[2], ph: row[3] };
+        newConditions.push([conditionId, fields]);
+      }
+      const probe = { dyeId, conditionId, ...fields, lab: [0, 0, 0] as Lab };
+      touched.set(replicateGroupKey(probe), probe);
+    }
+  }
+  // Read every touched group first, then change the index, so a failed read leaves it as it was.
+  const updates = [...touched].map(([key, g]) => {
+    const rows = st.group.all(g.dyeId, g.solventId, g.acidBase, g.ph) as GroupRow[];
+    return { key, mean: replicateMeans(replicateRows(rows))[0] };
+  });
+  for (const [id, fields] of newConditions) state.conditions.set(id, fields);
+  for (const { key, mean } of updates) state.index.set(key, mean);
+  state.counter = counter;
+  return true;
+}
+
+/**
+ * The means for the current database state. The counter is one indexed read; when it moved, the
+ * changes are replayed (or the means rebuilt) inside one read transaction, so the counter, the change
+ * rows and the groups come from one snapshot. Inside a caller's transaction the means are built afresh
+ * and not kept when anything changed (what the transaction wrote may still roll back).
+ */
+function meansIndex(client: Database.Database): { index: ReplicateMeansIndex; means: MeansRefresh } {
+  const st = meansStatementsOf(client);
+  const cached = meansStates.get(client);
+  const counter = st.counter.get() as number;
+  if (cached && cached.counter === counter) return { index: cached.index, means: "reused" };
+  if (client.inTransaction) return { index: buildMeansState(client, counter).index, means: "rebuilt" };
+  return client.transaction(() => {
+    const now = st.counter.get() as number;
+    if (cached && now >= cached.counter && replayChanges(client, cached, now)) return { index: cached.index, means: "replayed" as const };
+    const fresh = buildMeansState(client, now);
+    meansStates.set(client, fresh);
+    return { index: fresh.index, means: "rebuilt" as const };
+  })();
 }
 
 /**
@@ -147,36 +175,22 @@ export function searchByColour(
   const catalogue = conditionCatalogue(db);
   const byId = new Map(catalogue.map((c) => [c.id, c]));
   const allowedIds = new Set(catalogue.filter((c) => conditionMatches(filter, c)).map((c) => c.id));
-  if (allowedIds.size === 0) return { results: [], stats: { radius: 0, rounds: 0, scanned: 0 } };
+  if (allowedIds.size === 0) return { results: [], stats: { radius: 0, rounds: 0, scanned: 0, means: "reused" } };
   const client = db.$client;
-  const index = meansIndex(client);
-  const allowed = index.condIds.map((id) => allowedIds.has(id));
-
-  const fetch = (box: LabBox): ColourColumns => {
-    const out = index.out;
-    let k = 0;
-    queryLabGrid(index.grid, box, allowed, (key, l, a, b) => {
-      if (accept && !accept(l, a, b)) return;
-      out.dye[k] = index.dye[key];
-      out.l[k] = l;
-      out.a[k] = a;
-      out.b[k] = b;
-      out.ref[k] = key;
-      k++;
-    });
-    return { ...out, count: k };
-  };
+  const { index, means } = meansIndex(client);
+  const allowed = index.allowedConditions((id) => allowedIds.has(id));
+  const fetch = (box: LabBox): ColourColumns => index.fetch(box, allowed, accept);
 
   // Start wider when the filter leaves fewer means (radius ∝ cube root of the density); speed only.
-  const matching = index.means.reduce((sum, m) => sum + (allowedIds.has(m.conditionId) ? 1 : 0), 0);
-  const startRadius = 0.5 * Math.min(4, Math.max(1, Math.cbrt(index.means.length / Math.max(1, matching))));
+  const matching = index.countAllowed(allowed);
+  const startRadius = 0.5 * Math.min(4, Math.max(1, Math.cbrt(index.size / Math.max(1, matching))));
   const ranking = rankByColourIndexed(target, fetch, { limit, dyeKey: (d) => index.dyeIds[d], startRadius });
   const dyeFacts = dyeStatement(client);
   const facts = new Map(
     (dyeFacts.all(JSON.stringify(ranking.hits.map((h) => index.dyeIds[h.dye]))) as [string, string, string][]).map((r) => [r[0], r]),
   );
   const results = ranking.hits.flatMap((h): ColourHit[] => {
-    const mean = index.means[h.ref];
+    const mean = index.mean(h.ref);
     const f = facts.get(mean.dyeId);
     const c = byId.get(mean.conditionId);
     if (!f || !c) return [];
@@ -193,7 +207,7 @@ export function searchByColour(
       },
     ];
   });
-  return { results, stats: { radius: ranking.radius, rounds: ranking.rounds, scanned: ranking.scanned } };
+  return { results, stats: { radius: ranking.radius, rounds: ranking.rounds, scanned: ranking.scanned, means } };
 }
 
 const dyeStatements = new WeakMap<Database.Database, Database.Statement>();

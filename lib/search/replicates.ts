@@ -33,6 +33,11 @@ export function replicateGroupKey(r: Pick<ReplicateRow, "dyeId" | "solventId" | 
 
 /** Groups replicates and returns each group's mean CIELAB, count and spread, in first-seen order. */
 export function replicateMeans(rows: Iterable<ReplicateRow>): ReplicateMean[] {
+  return replicateMeanGroups(rows).map((g) => g.mean);
+}
+
+/** {@link replicateMeans} with each group's {@link replicateGroupKey}. */
+export function replicateMeanGroups(rows: Iterable<ReplicateRow>): { key: string; mean: ReplicateMean }[] {
   const groups = new Map<string, { first: ReplicateRow; labs: Lab[] }>();
   for (const r of rows) {
     const key = replicateGroupKey(r);
@@ -40,15 +45,15 @@ export function replicateMeans(rows: Iterable<ReplicateRow>): ReplicateMean[] {
     if (g) g.labs.push(r.lab);
     else groups.set(key, { first: r, labs: [r.lab] });
   }
-  const out: ReplicateMean[] = [];
-  for (const { first, labs } of groups.values()) {
+  const out: { key: string; mean: ReplicateMean }[] = [];
+  for (const [key, { first, labs }] of groups) {
     const n = labs.length;
     const mean: Lab = [0, 0, 0];
     for (const l of labs) for (let c = 0; c < 3; c++) mean[c] += l[c];
     for (let c = 0; c < 3; c++) mean[c] /= n;
     let sq = 0;
     if (n > 1) for (const l of labs) sq += ciede2000(l[0], l[1], l[2], mean[0], mean[1], mean[2]) ** 2;
-    out.push({ dyeId: first.dyeId, conditionId: first.conditionId, lab: mean, replicates: n, spreadDeltaE00: n > 1 ? Math.sqrt(sq / n) : 0 });
+    out.push({ key, mean: { dyeId: first.dyeId, conditionId: first.conditionId, lab: mean, replicates: n, spreadDeltaE00: n > 1 ? Math.sqrt(sq / n) : 0 } });
   }
   return out;
 }
