@@ -1,8 +1,11 @@
 /**
  * `npm run bench:search`: the colour search on 1,000,000 accepted measurements in a temporary SQLite
- * database built with the real migrations (schema, R*Tree and its triggers). Prints p50/p95 of top-20
- * queries through `searchByColour` (R*Tree prefilter + exact CIEDE2000), the same queries by brute
- * force, the ratios, and recall (the ranking is meant to be identical). Two brute-force baselines:
+ * database built with the real migrations (schema, triggers). Prints the cold build of the in-memory
+ * replicate means (the first search) with the process's RSS after it, p50/p95 of top-20 queries through
+ * `searchByColour` (box prefilter over the means + exact CIEDE2000), the same queries by brute force,
+ * the ratios, and recall (the ranking is meant to be identical). Then writes: the search after a write
+ * the means do not read (an audit row), after one accepted measurement (replayed, one group), and after
+ * a condition's pH change (a rebuild), p50 of each. Two brute-force baselines:
  * the honest one scans every colour already held in memory (typed arrays) with the same CIEDE2000,
  * for the ratio of the ranking work alone, checked on every query; the other also reads every
  * accepted row from SQLite per query (the first `--brute` queries). Each ratio is labelled with its
@@ -161,12 +164,14 @@ const quantile = (xs: number[], q: number) => {
   return s[Math.min(s.length - 1, Math.floor(q * s.length))];
 };
 
-// Warm-up, reported but not in the percentiles: the first search reads every R*Tree key's facts into
-// memory once per process and builds the in-memory grid index (db/queries/search.ts); a few more
+// Warm-up, reported but not in the percentiles: the first search reads every accepted measurement and
+// builds the replicate means with their grid (db/queries/search.ts, lib/search/means-index); a few more
 // warm the JIT and the page cache.
+const rssBeforeMiB = Math.round(process.memoryUsage().rss / 1048576);
 const tw = performance.now();
 searchByColour(db, { target: [50, 0, 0], filter: FILTERS[0], limit: LIMIT });
 const firstSearchMs = performance.now() - tw;
+const rssAfterBuildMiB = Math.round(process.memoryUsage().rss / 1048576);
 for (const q of queries.slice(0, 10)) searchByColour(db, { target: q.target, filter: q.filter, limit: LIMIT });
 
 const fastTimes: number[] = [];
@@ -224,7 +229,8 @@ const report = {
   buildSeconds: Number(buildSeconds.toFixed(1)),
   queries: queries.length,
   limit: LIMIT,
-  firstSearchMs: Math.round(firstSearchMs),
+  coldBuildMs: Math.round(firstSearchMs),
+  rssMiB: { beforeBuild: rssBeforeMiB, afterColdBuild: rssAfterBuildMiB },
   indexedMs: { p50: Number(fast50.toFixed(2)), p95: Number(fast95.toFixed(2)), max: Number(Math.max(...fastTimes).toFixed(2)) },
   // Baseline 1 (the honest one): every colour already in memory, exhaustive CIEDE2000 over those the
   // filter allows, best per dye. Baseline 2: the same, but reading every accepted row from SQLite.
@@ -262,6 +268,33 @@ console.log(
     `goal recall 100 %: ${memFound === memExpected && memIdentical === queries.length ? "met" : "NOT met"} (${memIdentical}/${queries.length} identical)`,
   ].join("\n"),
 );
+// Searches after writes (after the exactness checks above, which read SQLite): each cycle writes, then
+// times one search and records how the means were brought up to date.
+function afterWrites(cycles: number, write: (i: number) => void) {
+  const times: number[] = [];
+  const refresh: number[] = [];
+  const how = new Set<string>();
+  for (let i = 0; i < cycles; i++) {
+    write(i);
+    const q = queries[i % queries.length];
+    const t = performance.now();
+    const res = searchByColour(db, { target: q.target, filter: q.filter, limit: LIMIT });
+    times.push(performance.now() - t);
+    refresh.push(res.stats.meansMs);
+    how.add(res.stats.means);
+  }
+  const ms = (xs: number[]) => ({ p50: Number(quantile(xs, 0.5).toFixed(2)), max: Number(Math.max(...xs).toFixed(2)) });
+  return { means: [...how].join(","), searchMs: ms(times), meansRefreshMs: ms(refresh) };
+}
+const insAudit = client.prepare("INSERT INTO audit_log (at, actor_id, action, entity, entity_id) VALUES (?, 'usr_bench', 'bench', 'bench', ?)");
+const writes = {
+  unrelatedWrite: afterWrites(20, (i) => insAudit.run(Date.now(), String(i))),
+  oneAcceptedMeasurement: afterWrites(20, (i) =>
+    insMeas.run(`ms_b_w${i}`, `dye_b_${i % dyeCount}`, conds[i % conds.length].id, 40 + i, 10, -10),
+  ),
+  conditionPhChange: afterWrites(3, (i) => client.prepare("UPDATE conditions SET ph = ? WHERE id = ?").run(3 + 0.1 * (i + 1), conds[0].id)),
+};
+console.log(JSON.stringify({ searchAfterWrite: writes }, null, 2));
 const { token } = createApiToken(db, { userId: "usr_bench", name: "bench", actorId: null });
 db.$client.close();
 console.log(`in-process RSS after the searches (database, search grid and the brute-force arrays): ${Math.round(process.memoryUsage().rss / 1048576)} MiB`);

@@ -1,3 +1,4 @@
+import { performance } from "node:perf_hooks";
 import type Database from "better-sqlite3";
 import { sql } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
@@ -28,7 +29,11 @@ export type ColourHit = {
 
 /** How the in-memory means were brought to the current state for this search. */
 export type MeansRefresh = "reused" | "replayed" | "rebuilt";
-export type ColourSearch = { results: ColourHit[]; stats: { radius: number; rounds: number; scanned: number; means: MeansRefresh } };
+export type ColourSearch = {
+  results: ColourHit[];
+  /** `meansMs`: time spent bringing the means up to date (reading the counter included). */
+  stats: { radius: number; rounds: number; scanned: number; means: MeansRefresh; meansMs: number };
+};
 
 const catalogueStatements = new WeakMap<Database.Database, Database.Statement>();
 
@@ -175,9 +180,11 @@ export function searchByColour(
   const catalogue = conditionCatalogue(db);
   const byId = new Map(catalogue.map((c) => [c.id, c]));
   const allowedIds = new Set(catalogue.filter((c) => conditionMatches(filter, c)).map((c) => c.id));
-  if (allowedIds.size === 0) return { results: [], stats: { radius: 0, rounds: 0, scanned: 0, means: "reused" } };
+  if (allowedIds.size === 0) return { results: [], stats: { radius: 0, rounds: 0, scanned: 0, means: "reused", meansMs: 0 } };
   const client = db.$client;
+  const started = performance.now();
   const { index, means } = meansIndex(client);
+  const meansMs = performance.now() - started;
   const allowed = index.allowedConditions((id) => allowedIds.has(id));
   const fetch = (box: LabBox): ColourColumns => index.fetch(box, allowed, accept);
 
@@ -207,7 +214,7 @@ export function searchByColour(
       },
     ];
   });
-  return { results, stats: { radius: ranking.radius, rounds: ranking.rounds, scanned: ranking.scanned, means } };
+  return { results, stats: { radius: ranking.radius, rounds: ranking.rounds, scanned: ranking.scanned, means, meansMs } };
 }
 
 const dyeStatements = new WeakMap<Database.Database, Database.Statement>();
