@@ -653,7 +653,7 @@ export const changeCounters = sqliteTable("change_counters", {
 /**
  * One row per change of an accepted measurement that the search's replicate means read (migration 0013),
  * numbered with the 'search_means' counter's new value: the (dye, condition) groups before and after.
- * Written by SQL triggers only; pruned 8192 rows behind.
+ * Written by SQL triggers only; pruned 65,536 rows behind.
  */
 export const searchMeanChanges = sqliteTable("search_mean_changes", {
   seq: integer("seq").primaryKey(),

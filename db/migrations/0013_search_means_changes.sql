@@ -5,7 +5,7 @@
 -- condition or dye deleted. Each measurement change also leaves one row in search_mean_changes, numbered
 -- with the counter's new value, naming the (dye, condition) groups it touched before and after; a reader
 -- that finds every number between its own and the counter's replays those groups, and rebuilds when a
--- number is missing (a condition or dye change, or rows already pruned). Rows are pruned 8192 behind.
+-- number is missing (a condition or dye change, or rows already pruned). Rows are pruned 65,536 behind.
 INSERT INTO `change_counters` (`name`, `n`) VALUES ('search_means', 0);
 --> statement-breakpoint
 CREATE TABLE `search_mean_changes` (
@@ -37,8 +37,8 @@ CREATE TRIGGER `search_means_meas_del` AFTER DELETE ON `measurements` WHEN OLD.`
 		SELECT `n`, OLD.`dye_id`, OLD.`condition_id` FROM `change_counters` WHERE `name` = 'search_means';
 END;
 --> statement-breakpoint
-CREATE TRIGGER `search_means_prune` AFTER INSERT ON `search_mean_changes` WHEN NEW.`seq` % 1024 = 0 BEGIN
-	DELETE FROM `search_mean_changes` WHERE `seq` <= NEW.`seq` - 8192;
+CREATE TRIGGER `search_means_prune` AFTER INSERT ON `search_mean_changes` WHEN NEW.`seq` % 4096 = 0 BEGIN
+	DELETE FROM `search_mean_changes` WHERE `seq` <= NEW.`seq` - 65536;
 END;
 --> statement-breakpoint
 CREATE TRIGGER `search_means_cond_upd` AFTER UPDATE OF `solvent_id`, `acid_base`, `ph` ON `conditions`

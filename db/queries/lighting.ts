@@ -514,6 +514,8 @@ export function uncertaintiesOf(db: Db, ids: string[]): Map<string, number | nul
   return new Map(db.select({ id: measurements.id, u: measurements.uDeltaE00 }).from(measurements).where(inArray(measurements.id, ids)).all().map((r) => [r.id, r.u]));
 }
 
+const replicateUStatements = new WeakMap<Db["$client"], ReturnType<Db["$client"]["prepare"]>>();
+
 /**
  * ± ΔE00 of a replicate mean (one search hit: a dye in one solvent, acid/base state and pH): the
  * replicates' own uncertainties do not average down (the calibration part is shared by all of them), so
@@ -524,12 +526,16 @@ export function replicateMeanUncertainty(
   db: Db,
   hit: { dyeId: string; solvent: string; acidBase: string; pH: number | null; replicates: number; spreadDeltaE00: number },
 ): number | null {
-  const rows = db.$client
-    .prepare(
+  // Called once per search hit: the statement is prepared once per connection.
+  let st = replicateUStatements.get(db.$client);
+  if (!st) {
+    st = db.$client.prepare(
       `SELECT m.u_delta_e00 AS u FROM measurements m JOIN conditions c ON c.id = m.condition_id JOIN solvents s ON s.id = c.solvent_id
        WHERE m.dye_id = ? AND m.review_state = 'accepted' AND s.name = ? AND c.acid_base = ? AND (c.ph IS ? OR c.ph = ?)`,
-    )
-    .all(hit.dyeId, hit.solvent, hit.acidBase, hit.pH, hit.pH) as { u: number | null }[];
+    );
+    replicateUStatements.set(db.$client, st);
+  }
+  const rows = st.all(hit.dyeId, hit.solvent, hit.acidBase, hit.pH, hit.pH) as { u: number | null }[];
   const known = rows.map((r) => r.u).filter((u): u is number => typeof u === "number");
   if (known.length === 0) return null;
   const meanSq = known.reduce((s, u) => s + u * u, 0) / known.length;

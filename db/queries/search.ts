@@ -4,7 +4,7 @@ import { sql } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
 import type { LabBox } from "../../lib/search/bound";
 import { conditionMatches, type ConditionFilter } from "../../lib/search/filters";
-import { ReplicateMeansIndex } from "../../lib/search/means-index";
+import { ReplicateMeansIndex, type KeyedMean } from "../../lib/search/means-index";
 import { rankByColourIndexed, type ColourColumns } from "../../lib/search/rank";
 import { replicateGroupKey, replicateMeanGroups, replicateMeans, type ReplicateRow } from "../../lib/search/replicates";
 import type { ShiftDye } from "../../lib/search/shift";
@@ -62,8 +62,12 @@ export function conditionCatalogue(db: Db): ConditionInfo[] {
 type MeansState = { counter: number; index: ReplicateMeansIndex; conditions: Map<string, GroupFields> };
 type GroupFields = { solventId: string; acidBase: string; ph: number | null };
 
-/** Changes replayed one group at a time up to this many; beyond, a rebuild is cheaper. */
-const MAX_REPLAY = 4096;
+/**
+ * Changes are replayed one group at a time up to a sixteenth of the means (at least 4096), beyond
+ * which a rebuild costs about the same; never more than the change rows kept (migration 0013 prunes
+ * them 65,536 behind, every 4096).
+ */
+const maxReplay = (means: number) => Math.min(65_536 - 4096, Math.max(4096, Math.floor(means / 16)));
 
 const meansStates = new WeakMap<Database.Database, MeansState>();
 const meansStatements = new WeakMap<Database.Database, ReturnType<typeof prepareMeansStatements>>();
@@ -104,7 +108,20 @@ function buildMeansState(client: Database.Database, counter: number): MeansState
   const conditions = new Map(
     (st.conditions.all() as [string, string, string, number | null][]).map(([id, solventId, acidBase, ph]) => [id, { solventId, acidBase, ph }]),
   );
-  return { counter, conditions, index: new ReplicateMeansIndex(replicateMeanGroups(replicateRows(st.all.iterate() as IterableIterator<GroupRow>))) };
+  return { counter, conditions, index: new ReplicateMeansIndex(meansDyeByDye(st.all.iterate() as IterableIterator<GroupRow>)) };
+}
+
+/** Groups rows ordered by dye one dye at a time, so only one dye's rows are held at once. */
+function* meansDyeByDye(rows: Iterable<GroupRow>): Generator<KeyedMean> {
+  let dye: GroupRow[] = [];
+  for (const row of rows) {
+    if (dye.length > 0 && row[0] !== dye[0][0]) {
+      yield* replicateMeanGroups(replicateRows(dye));
+      dye = [];
+    }
+    dye.push(row);
+  }
+  yield* replicateMeanGroups(replicateRows(dye));
 }
 
 /**
@@ -113,7 +130,7 @@ function buildMeansState(client: Database.Database, counter: number): MeansState
  * or rows pruned — or too many groups changed: the caller rebuilds.
  */
 function replayChanges(client: Database.Database, state: MeansState, counter: number): boolean {
-  if (counter - state.counter > MAX_REPLAY) return false;
+  if (counter - state.counter > maxReplay(state.index.size)) return false;
   const st = meansStatementsOf(client);
   const changes = st.changes.all(state.counter, counter) as [string | null, string | null, string | null, string | null][];
   if (changes.length !== counter - state.counter) return false;

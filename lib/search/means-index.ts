@@ -30,7 +30,6 @@ export class ReplicateMeansIndex {
   private liveByCond: number[] = [];
 
   private slotMean: (ReplicateMean | undefined)[] = [];
-  private slotKey: string[] = [];
   private slotDye: number[] = [];
   private slotCond: number[] = [];
   private slotLab: number[] = [];
@@ -137,7 +136,6 @@ export class ReplicateMeansIndex {
     while (this.liveByCond.length <= cond) this.liveByCond.push(0);
     this.liveByCond[cond]++;
     this.slotMean.push(mean);
-    this.slotKey.push(key);
     this.slotDye.push(this.intern(this.dyeIds, this.dyeIndex, mean.dyeId));
     this.slotCond.push(cond);
     this.slotLab.push(mean.lab[0], mean.lab[1], mean.lab[2]);
@@ -178,17 +176,14 @@ export class ReplicateMeansIndex {
   }
 
   private compact(): void {
-    const old = { mean: this.slotMean, key: this.slotKey, dye: this.slotDye, cond: this.slotCond, lab: this.slotLab };
+    const old = { mean: this.slotMean, dye: this.slotDye, cond: this.slotCond, lab: this.slotLab };
     this.slotMean = [];
-    this.slotKey = [];
     this.slotDye = [];
     this.slotCond = [];
     this.slotLab = [];
-    this.groups = new Map();
-    for (let s = 0; s < old.mean.length; s++) {
-      if (!old.mean[s]) continue;
-      this.groups.set(old.key[s], this.slotMean.push(old.mean[s]) - 1);
-      this.slotKey.push(old.key[s]);
+    // Every live slot has exactly one group pointing at it.
+    for (const [key, s] of this.groups) {
+      this.groups.set(key, this.slotMean.push(old.mean[s]) - 1);
       this.slotDye.push(old.dye[s]);
       this.slotCond.push(old.cond[s]);
       this.slotLab.push(old.lab[3 * s], old.lab[3 * s + 1], old.lab[3 * s + 2]);
