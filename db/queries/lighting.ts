@@ -1,3 +1,4 @@
+import type Database from "better-sqlite3";
 /**
  * Lighting profiles (draft → approved → retired), calibration targets, check standards, drift
  * readings and re-derivation. Every change is one transaction with its audit entry.
@@ -514,7 +515,7 @@ export function uncertaintiesOf(db: Db, ids: string[]): Map<string, number | nul
   return new Map(db.select({ id: measurements.id, u: measurements.uDeltaE00 }).from(measurements).where(inArray(measurements.id, ids)).all().map((r) => [r.id, r.u]));
 }
 
-const replicateUStatements = new WeakMap<Db["$client"], ReturnType<Db["$client"]["prepare"]>>();
+const replicateUStatements = new WeakMap<Database.Database, Database.Statement>();
 
 /**
  * ± ΔE00 of a replicate mean (one search hit: a dye in one solvent, acid/base state and pH): the
