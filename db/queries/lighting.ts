@@ -1,9 +1,9 @@
-import type Database from "better-sqlite3";
 /**
  * Lighting profiles (draft → approved → retired), calibration targets, check standards, drift
  * readings and re-derivation. Every change is one transaction with its audit entry.
  */
 import { randomUUID } from "node:crypto";
+import type Database from "better-sqlite3";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { labD65ToLabD50, linearSrgbToLab, linearSrgbToXyz, type LabWhite } from "../../lib/color/convert";
 import { deltaE00 } from "../../lib/color/difference";
