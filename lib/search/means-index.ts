@@ -13,7 +13,8 @@ import type { ReplicateMean } from "./replicates";
  * A box query reads the grid (skipping dead slots) and scans the overflow list, so it returns exactly the
  * live means inside the box, whatever was changed. When the overflow list outgrows a sixteenth of the
  * means (at least {@link MIN_OVERFLOW}), the grid is rebuilt from the live slots (renumbered when more
- * than half the slots are dead).
+ * than half the slots are dead). A slot's mean is kept in columns (no object per mean: at a million
+ * measurements the objects alone took about 100 MB); {@link mean} assembles one on demand.
  */
 const MIN_OVERFLOW = 1024;
 
@@ -29,7 +30,9 @@ export class ReplicateMeansIndex {
   /** Live means per condition number (the filter's share of the means, for the start radius). */
   private liveByCond: number[] = [];
 
-  private slotMean: (ReplicateMean | undefined)[] = [];
+  /** Replicates per slot; 0 marks a dead slot. */
+  private slotReplicates: number[] = [];
+  private slotSpread: number[] = [];
   private slotDye: number[] = [];
   private slotCond: number[] = [];
   private slotLab: number[] = [];
@@ -54,15 +57,21 @@ export class ReplicateMeansIndex {
 
   /** The mean in a slot returned by {@link fetch} (live at the time of the fetch). */
   mean(slot: number): ReplicateMean {
-    const m = this.slotMean[slot];
-    if (!m) throw new RangeError(`slot ${slot} holds no mean`);
-    return m;
+    if (!(this.slotReplicates[slot] > 0)) throw new RangeError(`slot ${slot} holds no mean`);
+    const lab = this.slotLab;
+    return {
+      dyeId: this.dyeIds[this.slotDye[slot]],
+      conditionId: this.condIds[this.slotCond[slot]],
+      lab: [lab[3 * slot], lab[3 * slot + 1], lab[3 * slot + 2]],
+      replicates: this.slotReplicates[slot],
+      spreadDeltaE00: this.slotSpread[slot],
+    };
   }
 
   /** The mean of one group, if it has accepted replicates. */
   get(key: string): ReplicateMean | undefined {
     const slot = this.groups.get(key);
-    return slot === undefined ? undefined : this.slotMean[slot];
+    return slot === undefined ? undefined : this.mean(slot);
   }
 
   /** Replaces a group's mean, or removes the group (`undefined`: no accepted replicate left). */
@@ -97,10 +106,10 @@ export class ReplicateMeansIndex {
   fetch(box: LabBox, allowed: ArrayLike<boolean>, accept?: (l: number, a: number, b: number) => boolean): ColourColumns {
     this.ensureOut();
     const out = this.out;
-    const { slotMean, slotDye } = this;
+    const { slotReplicates, slotDye } = this;
     let k = 0;
     const take = (slot: number, l: number, a: number, b: number) => {
-      if (!slotMean[slot] || (accept && !accept(l, a, b))) return;
+      if (slotReplicates[slot] === 0 || (accept && !accept(l, a, b))) return;
       out.dye[k] = slotDye[slot];
       out.l[k] = l;
       out.a[k] = a;
@@ -131,11 +140,13 @@ export class ReplicateMeansIndex {
   }
 
   private add(key: string, mean: ReplicateMean): number {
-    const slot = this.slotMean.length;
+    if (!(mean.replicates > 0)) throw new RangeError(`a mean needs at least one replicate, got ${mean.replicates}`);
+    const slot = this.slotReplicates.length;
     const cond = this.intern(this.condIds, this.condIndex, mean.conditionId);
     while (this.liveByCond.length <= cond) this.liveByCond.push(0);
     this.liveByCond[cond]++;
-    this.slotMean.push(mean);
+    this.slotReplicates.push(mean.replicates);
+    this.slotSpread.push(mean.spreadDeltaE00);
     this.slotDye.push(this.intern(this.dyeIds, this.dyeIndex, mean.dyeId));
     this.slotCond.push(cond);
     this.slotLab.push(mean.lab[0], mean.lab[1], mean.lab[2]);
@@ -145,8 +156,8 @@ export class ReplicateMeansIndex {
   }
 
   private kill(slot: number): void {
-    if (!this.slotMean[slot]) return;
-    this.slotMean[slot] = undefined;
+    if (this.slotReplicates[slot] === 0) return;
+    this.slotReplicates[slot] = 0;
     this.liveByCond[this.slotCond[slot]]--;
     this.live--;
     // A dead overflow slot is dropped from the list; a dead gridded slot is skipped by fetch.
@@ -158,9 +169,9 @@ export class ReplicateMeansIndex {
 
   /** Rebuilds the grid over the live slots, renumbering them first when most slots are dead. */
   private regrid(): void {
-    if (this.slotMean.length > 2 * this.live) this.compact();
+    if (this.slotReplicates.length > 2 * this.live) this.compact();
     const slots: number[] = [];
-    for (let s = 0; s < this.slotMean.length; s++) if (this.slotMean[s]) slots.push(s);
+    for (let s = 0; s < this.slotReplicates.length; s++) if (this.slotReplicates[s] > 0) slots.push(s);
     const lab = this.slotLab;
     this.grid = buildLabGrid({
       key: slots,
@@ -171,19 +182,21 @@ export class ReplicateMeansIndex {
       count: slots.length,
       conditions: this.condIds.length,
     });
-    this.gridded = this.slotMean.length;
+    this.gridded = this.slotReplicates.length;
     this.overflow = [];
   }
 
   private compact(): void {
-    const old = { mean: this.slotMean, dye: this.slotDye, cond: this.slotCond, lab: this.slotLab };
-    this.slotMean = [];
+    const old = { replicates: this.slotReplicates, spread: this.slotSpread, dye: this.slotDye, cond: this.slotCond, lab: this.slotLab };
+    this.slotReplicates = [];
+    this.slotSpread = [];
     this.slotDye = [];
     this.slotCond = [];
     this.slotLab = [];
     // Every live slot has exactly one group pointing at it.
     for (const [key, s] of this.groups) {
-      this.groups.set(key, this.slotMean.push(old.mean[s]) - 1);
+      this.groups.set(key, this.slotReplicates.push(old.replicates[s]) - 1);
+      this.slotSpread.push(old.spread[s]);
       this.slotDye.push(old.dye[s]);
       this.slotCond.push(old.cond[s]);
       this.slotLab.push(old.lab[3 * s], old.lab[3 * s + 1], old.lab[3 * s + 2]);
@@ -191,7 +204,7 @@ export class ReplicateMeansIndex {
   }
 
   private ensureOut(): void {
-    const n = this.slotMean.length;
+    const n = this.slotReplicates.length;
     if (this.out.ref.length >= n) return;
     const size = Math.max(n, 2 * this.out.ref.length);
     this.out = { dye: new Int32Array(size), l: new Float64Array(size), a: new Float64Array(size), b: new Float64Array(size), ref: new Int32Array(size) };

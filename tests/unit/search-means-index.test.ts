@@ -71,7 +71,7 @@ describe("ReplicateMeansIndex", () => {
       expect(ranked.hits.map((h) => index.dyeIds[h.dye])).toEqual(expected.map((e) => e.dyeId));
       ranked.hits.forEach((h, i) => {
         expect(h.deltaE00).toBe(expected[i].deltaE00);
-        expect(index.mean(h.ref)).toBe(expected[i].payload);
+        expect(index.mean(h.ref)).toEqual(expected[i].payload);
       });
     }
     expect(checks).toBe(61);
@@ -80,10 +80,10 @@ describe("ReplicateMeansIndex", () => {
   it("answers get() per group and forgets removed groups", () => {
     const m: ReplicateMean = { dyeId: "d", conditionId: "c", lab: [50, 1, 2], replicates: 2, spreadDeltaE00: 0.3 };
     const index = new ReplicateMeansIndex([{ key: "k", mean: m }]);
-    expect(index.get("k")).toBe(m);
+    expect(index.get("k")).toEqual(m);
     const moved = { ...m, lab: [60, 1, 2] as Lab };
     index.set("k", moved);
-    expect(index.get("k")).toBe(moved);
+    expect(index.get("k")).toEqual(moved);
     expect(index.size).toBe(1);
     index.set("k", undefined);
     expect(index.get("k")).toBeUndefined();
