@@ -1,4 +1,4 @@
-import { and, eq, isNotNull } from "drizzle-orm";
+import { and, eq, isNotNull, isNull } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
 import type { Db } from "../connection";
 import { conditions, measurements, solvents, spectra } from "../schema";
@@ -13,7 +13,7 @@ export type PhSeries = {
 };
 
 /**
- * A dye's pH series: its accepted colours with a recorded pH, one series per solvent (each vial a
+ * A dye's implicit pH series: its accepted colours with a recorded pH, one series per neat solvent (each vial a
  * point; replicates at one pH stay separate vials). Series with fewer than 5 vials are left out.
  */
 export function phSeriesForDye(db: Db, { dyeId }: { dyeId: string }): PhSeries[] {
@@ -22,7 +22,7 @@ export function phSeriesForDye(db: Db, { dyeId }: { dyeId: string }): PhSeries[]
     .from(measurements)
     .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
     .innerJoin(solvents, eq(conditions.solventId, solvents.id))
-    .where(and(eq(measurements.dyeId, dyeId), eq(measurements.reviewState, "accepted"), isNotNull(conditions.ph)))
+    .where(and(eq(measurements.dyeId, dyeId), eq(measurements.reviewState, "accepted"), isNotNull(conditions.ph), isNull(conditions.secondSolventId)))
     .all();
   const bySolvent = new Map<string, PhSeries>();
   for (const { m, condition, solvent } of rows) {

@@ -202,7 +202,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             ))}
           </ul>
         </Card>
-        <TitrationSection db={handle} dyeId={dye.id} />
+        <TitrationSection db={handle} dyeId={dye.id} canEdit={hasRole(user.role, BENCH_ROLES)} />
         <SpectraSection db={handle} dyeId={dye.id} />
         <ReplicateGroups rows={accepted} />
         <Card title="Measurements" className="lg:col-span-2">
