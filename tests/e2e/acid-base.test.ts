@@ -1,6 +1,6 @@
 /**
  * An indicator dye's page on the demo, in Chromium: the titration curve of its pH series, its pKa with
- * an uncertainty, and its absorption spectra with λmax.
+ * an uncertainty, and its absorption spectra with λmax; the pH series page lists its grouped series.
  */
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { BrowserContext } from "playwright-core";
@@ -45,7 +45,13 @@ describe("an indicator dye's page", () => {
     const before = await rows.first().locator("span").first().getAttribute("style");
     await page.getByLabel("Path length (mm)").fill("40");
     await expect.poll(async () => rows.first().locator("span").first().getAttribute("style")).not.toBe(before);
+
+    // The demo's series arrive grouped: the pH series page lists this one with its stored pKa and transition.
+    await page.goto(`${base}/acid-base`);
+    const row = page.getByTestId("ph-series-row").filter({ hasText: "KB-SP-205" }).first();
+    await row.waitFor({ timeout: 60_000 });
+    await expect(row.innerText()).resolves.toMatch(/\d+\.\d\d ± \d+\.\d\d[\s\S]*pH \d+\.\d–\d+\.\d/);
     expect(errors).toEqual([]);
     await page.close();
-  }, 120_000);
+  }, 180_000);
 });
