@@ -1,7 +1,8 @@
 "use client";
 
 import Link from "next/link";
-import { useActionState, useState } from "react";
+import { useRouter } from "next/navigation";
+import { useActionState, useEffect, useState } from "react";
 import { deletePhSeriesAction, savePhSeriesAction } from "@/app/actions/ph-series";
 import { Badge } from "@/components/ui/card";
 import { Field, TextArea, TextInput } from "@/components/ui/field";
@@ -32,6 +33,11 @@ export function SeriesEditor({ seriesId, head, mediumLabel, candidates, selected
     vials: chosen.map((c) => ({ measurementId: c.measurementId, pH: rows[c.measurementId].pH.trim() === "" ? null : Number(rows[c.measurementId].pH.replace(",", ".")) })),
   });
   const savedId = (state?.data?.id as string | undefined) ?? seriesId;
+  const router = useRouter();
+  // A new series, once saved, is edited on its own page (saving again here would make a second one).
+  useEffect(() => {
+    if (state?.ok && !seriesId && savedId) router.push(`/acid-base/${encodeURIComponent(savedId)}`);
+  }, [state, seriesId, savedId, router]);
   if (removeState?.ok) {
     return (
       <p role="status" className="text-sm text-ok">
