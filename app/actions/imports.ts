@@ -9,7 +9,7 @@ import { addDyes, existingDyeCodes } from "@/db/queries/dyes";
 import { formAction } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
 import { AppError } from "@/lib/errors";
-import { checkDyeRows, parseCsv, type RowProblem } from "@/lib/import/csv";
+import { checkDyeRows, checkedImport, parseCsv, type RowProblem } from "@/lib/import/csv";
 
 const importSchema = z.object({
   kind: z.enum(["dyes", "measurements"], { error: "Choose what the file holds: dyes or measurements." }),
@@ -53,20 +53,8 @@ export const importCsvAction = formAction({ access: BENCH_ROLES, schema: importS
     store = () => saveInstrumentMeasurements(handle, { actorId: user.id, items: items.map((i) => i.item) }).length;
   }
 
-  problems.sort((a, b) => a.line - b.line);
-  const summary = { rows: rows.length, good, problems: problems.slice(0, 200), moreProblems: Math.max(0, problems.length - 200), preview };
-  if (mode === "preview") {
-    return {
-      ok: true,
-      message: problems.length
-        ? `${rows.length} rows checked: ${good} good, ${rows.length - good} with problems (listed by line and column). Nothing is stored yet.`
-        : `${rows.length} rows checked, all good. Nothing is stored until you import.`,
-      data: summary,
-    };
-  }
-  if (mode === "all" && problems.length) {
-    throw new AppError("invalid_input", `Nothing was stored: ${rows.length - good} of ${rows.length} rows have problems. The first is line ${problems[0].line}, column ${problems[0].column}: ${problems[0].message}`);
-  }
+  const { summary, previewMessage } = checkedImport({ mode, rows: rows.length, good, problems, preview });
+  if (previewMessage) return { ok: true, message: previewMessage, data: summary };
   if (good === 0) throw new AppError("invalid_input", "Nothing was stored: no row is good.");
   const n = store();
   revalidatePath(kind === "dyes" ? "/catalogue" : "/review");

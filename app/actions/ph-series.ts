@@ -8,18 +8,23 @@ import { deletePhSeries, ensurePhSeriesFit, importPhSeries, savePhSeries } from 
 import { formAction, parseInput } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
 import { AppError } from "@/lib/errors";
-import { parseCsv, phSeriesRowsAsMeasurements } from "@/lib/import/csv";
+import { checkedImport, parseCsv, phSeriesRowsAsMeasurements } from "@/lib/import/csv";
 import { phSeriesHeadSchema, phSeriesSchema } from "@/lib/validation/ph-series";
 
-const jsonPayload = z.object({ payload: z.string().min(2, { error: "Nothing to save." }).max(1_000_000) });
-
-function parseJson(text: string): unknown {
-  try {
-    return JSON.parse(text);
-  } catch {
-    throw new AppError("invalid_input", "The series could not be read; reload the page and try again.");
-  }
-}
+/** The series form sends its state as one JSON field (vials with their pH). */
+const seriesPayload = z.object({
+  payload: z
+    .string()
+    .max(1_000_000)
+    .transform((text, ctx) => {
+      try {
+        return JSON.parse(text) as unknown;
+      } catch {
+        ctx.addIssue({ code: "custom", message: "The series could not be read; reload the page and try again." });
+        return z.NEVER;
+      }
+    }),
+});
 
 function refreshPages(dyeCode?: string) {
   revalidatePath("/acid-base", "layout");
@@ -30,8 +35,8 @@ function refreshPages(dyeCode?: string) {
  * Creates a series (no id) or replaces its name, medium and vials (with id). The fit is computed right
  * after the write (outside the transaction), so the dye page and the pH search find it stored.
  */
-export const savePhSeriesAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
-  const input = parseInput(phSeriesSchema, parseJson(payload), "form");
+export const savePhSeriesAction = formAction({ access: BENCH_ROLES, schema: seriesPayload }, async ({ payload }, { user }) => {
+  const input = parseInput(phSeriesSchema, payload, "form");
   const handle = db();
   const id = savePhSeries(handle, { actorId: user.id, input });
   const fit = ensurePhSeriesFit(handle, { seriesId: id });
@@ -78,27 +83,12 @@ export const importPhSeriesAction = formAction({ access: BENCH_ROLES, schema: im
   const handle = db();
   const filled = phSeriesRowsAsMeasurements(parsed.rows, { dye: head.dyeId, solvent: head.solventId, secondSolvent: head.secondSolventId, secondSolventX: head.secondSolventMoleFraction, instrument: form.instrument.trim() });
   const checked = checkInstrumentRows(handle, filled.rows);
-  const problems = [...filled.problems, ...checked.problems].sort((p, q) => p.line - q.line);
+  const problems = [...filled.problems, ...checked.problems];
   const bad = new Set(problems.map((p) => p.line));
   const items = checked.items.filter((i) => !bad.has(i.line)).map(({ line, item }) => ({ line, pH: item.condition.ph!, item }));
-  const rows = parsed.rows.length;
-  const summary = {
-    rows,
-    good: items.length,
-    problems: problems.slice(0, 200),
-    moreProblems: Math.max(0, problems.length - 200),
-    preview: items.slice(0, 30).map(({ line, pH, item }) => ({ line, pH, lab: item.lab.map((v) => Math.round(v * 100) / 100), acidBase: item.condition.acidBase, instrument: item.instrument })),
-  };
-  if (form.mode === "preview") {
-    return {
-      ok: true,
-      message: problems.length ? `${rows} rows checked: ${items.length} good, ${rows - items.length} with problems (listed by line and column). Nothing is stored.` : `${rows} rows checked, all good. Nothing is stored until you import.`,
-      data: summary,
-    };
-  }
-  if (problems.length) {
-    throw new AppError("invalid_input", `Nothing was stored: ${rows - items.length} of ${rows} rows have problems. The first is line ${problems[0].line}, column ${problems[0].column}: ${problems[0].message}`);
-  }
+  const preview = items.slice(0, 30).map(({ line, pH, item }) => ({ line, pH, lab: item.lab.map((v) => Math.round(v * 100) / 100), acidBase: item.condition.acidBase, instrument: item.instrument }));
+  const { summary, previewMessage } = checkedImport({ mode: form.mode, rows: parsed.rows.length, good: items.length, problems, preview });
+  if (previewMessage) return { ok: true, message: previewMessage, data: summary };
   const { id, measurementIds } = importPhSeries(handle, { actorId: user.id, head, items: items.map(({ pH, item }) => ({ pH, item })) });
   refreshPages();
   revalidatePath("/review");

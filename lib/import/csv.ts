@@ -5,6 +5,7 @@
  */
 import Papa from "papaparse";
 import { z } from "zod";
+import { AppError } from "../errors";
 import { dyeCreateJsonSchema } from "../validation/dye";
 import { instrumentMeasurementSchema, type InstrumentMeasurement } from "../validation/instrument";
 
@@ -167,4 +168,28 @@ export function phSeriesRowsAsMeasurements(
     return { line, cells: filled };
   });
   return { rows: out, problems };
+}
+
+export type ImportCheck = { rows: number; good: number; problems: RowProblem[]; moreProblems: number; preview: Record<string, unknown>[] };
+
+/**
+ * What a checked file answers: its summary (problems by line, at most 200 listed) and, for "preview",
+ * the message that nothing is stored yet. "all" with any problem is refused here, naming the first.
+ */
+export function checkedImport({ mode, rows, good, problems, preview }: { mode: "preview" | "all" | "good"; rows: number; good: number; problems: RowProblem[]; preview: Record<string, unknown>[] }): {
+  summary: ImportCheck;
+  previewMessage: string | null;
+} {
+  const sorted = [...problems].sort((a, b) => a.line - b.line);
+  const summary = { rows, good, problems: sorted.slice(0, 200), moreProblems: Math.max(0, sorted.length - 200), preview };
+  if (mode === "preview") {
+    return {
+      summary,
+      previewMessage: sorted.length ? `${rows} rows checked: ${good} good, ${rows - good} with problems (listed by line and column). Nothing is stored yet.` : `${rows} rows checked, all good. Nothing is stored until you import.`,
+    };
+  }
+  if (mode === "all" && sorted.length) {
+    throw new AppError("invalid_input", `Nothing was stored: ${rows - good} of ${rows} rows have problems. The first is line ${sorted[0].line}, column ${sorted[0].column}: ${sorted[0].message}`);
+  }
+  return { summary, previewMessage: null };
 }
