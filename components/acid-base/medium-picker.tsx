@@ -3,7 +3,21 @@ import { Button } from "@/components/ui/button";
 import { Field, Select, TextInput } from "@/components/ui/field";
 import type { EditorVial } from "./series-editor";
 
-type Option = { id: string; label: string };
+export type Option = { id: string; label: string };
+
+/** The <option>s of a dye or solvent list, after a first empty choice. */
+export function Options({ items, empty }: { items: Option[]; empty: string }) {
+  return (
+    <>
+      <option value="">{empty}</option>
+      {items.map((o) => (
+        <option key={o.id} value={o.id}>
+          {o.label}
+        </option>
+      ))}
+    </>
+  );
+}
 
 /** The dye and medium of a new series, as a plain GET form: the choice lives in the address. */
 export function MediumPicker({ dyes, solvents, value }: { dyes: Option[]; solvents: Option[]; value: { dyeId: string; solventId: string; secondSolventId: string; x2: string } }) {
@@ -11,32 +25,17 @@ export function MediumPicker({ dyes, solvents, value }: { dyes: Option[]; solven
     <form method="get" className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5" aria-label="Dye and medium">
       <Field label="Dye" name="dyeId">
         <Select name="dyeId" defaultValue={value.dyeId} required>
-          <option value="">choose a dye</option>
-          {dyes.map((d) => (
-            <option key={d.id} value={d.id}>
-              {d.label}
-            </option>
-          ))}
+          <Options items={dyes} empty="choose a dye" />
         </Select>
       </Field>
       <Field label="Solvent" name="solventId">
         <Select name="solventId" defaultValue={value.solventId} required>
-          <option value="">choose a solvent</option>
-          {solvents.map((s) => (
-            <option key={s.id} value={s.id}>
-              {s.label}
-            </option>
-          ))}
+          <Options items={solvents} empty="choose a solvent" />
         </Select>
       </Field>
       <Field label="Second solvent (blends only)" name="secondSolventId">
         <Select name="secondSolventId" defaultValue={value.secondSolventId}>
-          <option value="">none (neat solvent)</option>
-          {solvents.map((s) => (
-            <option key={s.id} value={s.id}>
-              {s.label}
-            </option>
-          ))}
+          <Options items={solvents} empty="none (neat solvent)" />
         </Select>
       </Field>
       <Field label="Its mole fraction x₂" name="x2">

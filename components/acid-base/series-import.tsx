@@ -6,8 +6,8 @@ import { importPhSeriesAction } from "@/app/actions/ph-series";
 import { Field, Select, TextInput } from "@/components/ui/field";
 import { CsvFileField, ImportReport, type ImportSummary } from "@/components/imports/import-report";
 import { PH_SERIES_COLUMNS } from "@/lib/import/columns";
+import { Options, type Option } from "./medium-picker";
 
-type Option = { id: string; label: string };
 
 /**
  * A pH series from a CSV file: dye and medium chosen here, one vial per row. The file is checked row
@@ -27,12 +27,7 @@ export function SeriesImport({ dyes, solvents }: { dyes: Option[]; solvents: Opt
         <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
           <Field label="Dye" name="dyeId" error={errors.dyeId}>
             <Select name="dyeId" defaultValue={v.dyeId ?? ""} error={errors.dyeId}>
-              <option value="">choose a dye</option>
-              {dyes.map((d) => (
-                <option key={d.id} value={d.id}>
-                  {d.label}
-                </option>
-              ))}
+              <Options items={dyes} empty="choose a dye" />
             </Select>
           </Field>
           <Field label="Series name" name="name" error={errors.name}>
@@ -43,22 +38,12 @@ export function SeriesImport({ dyes, solvents }: { dyes: Option[]; solvents: Opt
           </Field>
           <Field label="Solvent" name="solventId" error={errors.solventId}>
             <Select name="solventId" defaultValue={v.solventId ?? ""} error={errors.solventId}>
-              <option value="">choose a solvent</option>
-              {solvents.map((s) => (
-                <option key={s.id} value={s.id}>
-                  {s.label}
-                </option>
-              ))}
+              <Options items={solvents} empty="choose a solvent" />
             </Select>
           </Field>
           <Field label="Second solvent (blends only)" name="secondSolventId" error={errors.secondSolventId}>
             <Select name="secondSolventId" defaultValue={v.secondSolventId ?? ""}>
-              <option value="">none (neat solvent)</option>
-              {solvents.map((s) => (
-                <option key={s.id} value={s.id}>
-                  {s.label}
-                </option>
-              ))}
+              <Options items={solvents} empty="none (neat solvent)" />
             </Select>
           </Field>
           <Field label="Its mole fraction x₂" name="secondSolventMoleFraction" error={errors.secondSolventMoleFraction}>

@@ -1,3 +1,4 @@
+import { seText } from "@/components/acid-base/format";
 import Link from "next/link";
 import { ButtonLink } from "@/components/ui/button";
 import { Badge, Card } from "@/components/ui/card";
@@ -149,7 +150,7 @@ function SeriesBlock({ block }: { block: Block }) {
       <div className="space-y-2 text-sm">
         {title}
         <p data-testid="pka-value" className="text-lg font-semibold tabular-nums">
-          pKa {fit.pKa.toFixed(2)} ± {fit.pKaStdErr === null || !Number.isFinite(fit.pKaStdErr) ? "—" : fit.pKaStdErr.toFixed(2)}
+          pKa {fit.pKa.toFixed(2)} ± {seText(fit.pKaStdErr)}
         </p>
         <p className="text-ink-soft">
           Apparent pKa in {block.solventName}

@@ -4,6 +4,7 @@ import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useState } from "react";
+import { seText } from "@/components/acid-base/format";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
@@ -115,7 +116,7 @@ export function PhSearch() {
                       </p>
                     </div>
                     <span className="w-36 tabular-nums">
-                      apparent pKa {t.pKa.toFixed(2)} ± {t.pKaStdErr === null ? "—" : t.pKaStdErr.toFixed(2)}
+                      apparent pKa {t.pKa.toFixed(2)} ± {seText(t.pKaStdErr)}
                     </span>
                     <span className="w-40 tabular-nums">
                       transition pH {t.transition[0].toFixed(1)}–{t.transition[1].toFixed(1)}

@@ -51,6 +51,11 @@ describe("an indicator dye's page", () => {
     const row = page.getByTestId("ph-series-row").filter({ hasText: "KB-SP-205" }).first();
     await row.waitFor({ timeout: 60_000 });
     await expect(row.innerText()).resolves.toMatch(/\d+\.\d\d ± \d+\.\d\d[\s\S]*pH \d+\.\d–\d+\.\d/);
+    // A chemist opens the series to edit it: the dye's vials in that medium, the grouped ones ticked, each with its pH.
+    await row.getByRole("link", { name: "Water, all recorded pH values" }).click();
+    const candidates = page.getByTestId("series-candidates");
+    await candidates.waitFor({ timeout: 60_000 });
+    await expect.poll(() => candidates.locator('input[type="checkbox"]:checked').count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(5);
     expect(errors).toEqual([]);
     await page.close();
   }, 180_000);

@@ -1,3 +1,4 @@
+import { seText } from "@/components/acid-base/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { db } from "@/db/client";
@@ -65,7 +66,7 @@ export default async function PhSeriesPage() {
                     {s.fit.ok ? (
                       <>
                         <td className="py-2 pr-3 tabular-nums">
-                          {s.fit.fit.pKa.toFixed(2)} ± {Number.isFinite(s.fit.fit.pKaStdErr) && s.fit.fit.pKaStdErr !== null ? s.fit.fit.pKaStdErr.toFixed(2) : "—"}
+                          {s.fit.fit.pKa.toFixed(2)} ± {seText(s.fit.fit.pKaStdErr)}
                           <span className="block text-xs text-ink-soft">{s.fit.vials} accepted vials</span>
                           {s.fit.fit.flags.length > 0 && <Badge tone="warn">check</Badge>}
                         </td>

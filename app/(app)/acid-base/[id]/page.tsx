@@ -1,3 +1,4 @@
+import { seText } from "@/components/acid-base/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
@@ -32,7 +33,7 @@ export default async function PhSeriesDetailPage({ params }: { params: Promise<{
             </Link>{" "}
             in {series.mediumLabel}, ionic strength {series.ionicStrengthMolL === null ? "not recorded" : `${series.ionicStrengthMolL} mol/L`}.{" "}
             {fit.ok
-              ? `Apparent pKa ${fit.fit.pKa.toFixed(2)} ± ${Number.isFinite(fit.fit.pKaStdErr) && fit.fit.pKaStdErr !== null ? fit.fit.pKaStdErr.toFixed(2) : "—"} from ${fit.vials} accepted vials; visual transition pH ${fit.fit.transition[0].toFixed(1)}–${fit.fit.transition[1].toFixed(1)}.`
+              ? `Apparent pKa ${fit.fit.pKa.toFixed(2)} ± ${seText(fit.fit.pKaStdErr)} from ${fit.vials} accepted vials; visual transition pH ${fit.fit.transition[0].toFixed(1)}–${fit.fit.transition[1].toFixed(1)}.`
               : `No pKa from ${fit.vials} accepted vials: ${fit.error}`}
           </>
         }
