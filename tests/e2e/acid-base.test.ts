@@ -56,6 +56,15 @@ describe("an indicator dye's page", () => {
     const candidates = page.getByTestId("series-candidates");
     await candidates.waitFor({ timeout: 60_000 });
     await expect.poll(() => candidates.locator('input[type="checkbox"]:checked').count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(5);
+
+    // Search by pH transition: the demo indicator changes colour within pH 2–12 and the rule is stated.
+    await page.goto(`${base}/search/ph?phFrom=2&phTo=12`);
+    await expect(page.getByTestId("ph-rule").innerText()).resolves.toMatch(/wholly within/);
+    const hit = page.getByTestId("ph-hit").filter({ hasText: "KB-SP-205" }).first();
+    await hit.waitFor({ timeout: 60_000 });
+    await expect(hit.innerText()).resolves.toMatch(/apparent pKa \d+\.\d\d ± \d+\.\d\d[\s\S]*transition pH \d+\.\d–\d+\.\d/);
+    await page.goto(`${base}/acid-base/import`);
+    await page.getByRole("heading", { name: "Import a pH series from CSV" }).waitFor();
     expect(errors).toEqual([]);
     await page.close();
   }, 180_000);
