@@ -1,5 +1,5 @@
 import { Card } from "@/components/ui/card";
-import { spectraForDye } from "@/db/queries/acid-base";
+import { spectraForDye } from "@/db/queries/spectra";
 import type { Db } from "@/db/connection";
 import { SpectraChart } from "./spectra-chart";
 

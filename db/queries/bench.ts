@@ -511,47 +511,75 @@ export function saveInstrumentMeasurements(db: Db, { actorId, items }: { actorId
   });
 }
 
+type InstrumentCondition = InstrumentMeasurement["condition"];
+type FieldError = { field: string; message: string };
+
+/** The catalogue and solvent-table rows an instrument upload is resolved against; read once per batch. */
+export function instrumentLookups(db: Db) {
+  return {
+    solventRows: db.select({ id: solvents.id, name: solvents.name, synonyms: solvents.synonyms }).from(solvents).all(),
+    dyeRows: db.select({ id: dyes.id, code: dyes.code }).from(dyes).all(),
+  };
+}
+
+/**
+ * A dye named by code or id and a condition named in words (solvent names or synonyms), resolved against
+ * the catalogue and the solvent table: the dye's id and the condition's stored values, or the problems
+ * named by field. Shared by instrument colours and spectra (write API, imports, uploads).
+ */
+export function resolveDyeAndCondition(
+  { solventRows, dyeRows }: ReturnType<typeof instrumentLookups>,
+  { dye: dyeText, condition: c }: { dye: string; condition: Omit<InstrumentCondition, "concentrationUmolL" | "pathLengthMm"> & { concentrationUmolL: number | null; pathLengthMm: number | null } },
+): { ok: true; dyeId: string; condition: ConditionInput } | { ok: false; errors: FieldError[] } {
+  const errors: FieldError[] = [];
+  const q = dyeText.trim().toLowerCase();
+  const dye = dyeRows.find((d) => d.id === dyeText.trim() || d.code.toLowerCase() === q);
+  if (!dye) errors.push({ field: "dye", message: `No dye has the code or id “${dyeText}”; add it to the catalogue first.` });
+  const solvent = matchSolvent(solventRows, c.solvent);
+  if (!solvent) errors.push({ field: "solvent", message: `“${c.solvent}” is not in the solvent table; use a name or synonym from it, or ask an admin to add it.` });
+  const second = c.secondSolvent ? matchSolvent(solventRows, c.secondSolvent) : null;
+  if (c.secondSolvent && !second) errors.push({ field: "secondSolvent", message: `“${c.secondSolvent}” is not in the solvent table.` });
+  if (second && !(c.secondSolventMoleFraction !== null && c.secondSolventMoleFraction > 0 && c.secondSolventMoleFraction < 1)) {
+    errors.push({ field: "secondSolventMoleFraction", message: "Give the second solvent's mole fraction, between 0 and 1." });
+  }
+  if (c.additiveConcentrationMolL !== null && !c.additive) errors.push({ field: "additive", message: "Name the acid or base whose amount you gave (e.g. HCl)." });
+  if (errors.length || !dye || !solvent) return { ok: false, errors };
+  return {
+    ok: true,
+    dyeId: dye.id,
+    condition: {
+      solventId: solvent.id,
+      acidBase: c.acidBase,
+      ph: c.pH,
+      concentrationUmolL: c.concentrationUmolL,
+      additive: c.additive,
+      additiveConcentrationMolL: c.additiveConcentrationMolL,
+      temperatureC: c.temperatureC,
+      pathLengthMm: c.pathLengthMm,
+      secondSolventId: second?.id ?? null,
+      secondSolventMoleFraction: second ? c.secondSolventMoleFraction : null,
+    },
+  };
+}
+
 /**
  * Checks colours measured with an instrument against the catalogue and the solvent table and brings
  * them to D65 (lib/bench/instrument.ts); adds the replicate and lightness flags. One result per input,
  * each either ready to save or with its problems named by field.
  */
 export function prepareInstrumentMeasurements(db: Db, inputs: InstrumentMeasurement[]) {
-  const solventRows = db.select({ id: solvents.id, name: solvents.name, synonyms: solvents.synonyms }).from(solvents).all();
-  const dyeRows = db.select({ id: dyes.id, code: dyes.code }).from(dyes).all();
-  return inputs.map((v): { ok: true; item: InstrumentColourToSave } | { ok: false; errors: { field: string; message: string }[] } => {
-    const errors: { field: string; message: string }[] = [];
-    const q = v.dye.trim().toLowerCase();
-    const dye = dyeRows.find((d) => d.id === v.dye.trim() || d.code.toLowerCase() === q);
-    if (!dye) errors.push({ field: "dye", message: `No dye has the code or id “${v.dye}”; add it to the catalogue first.` });
-    const solvent = matchSolvent(solventRows, v.condition.solvent);
-    if (!solvent) errors.push({ field: "solvent", message: `“${v.condition.solvent}” is not in the solvent table; use a name or synonym from it, or ask an admin to add it.` });
-    const second = v.condition.secondSolvent ? matchSolvent(solventRows, v.condition.secondSolvent) : null;
-    if (v.condition.secondSolvent && !second) errors.push({ field: "secondSolvent", message: `“${v.condition.secondSolvent}” is not in the solvent table.` });
-    if (second && !(v.condition.secondSolventMoleFraction !== null && v.condition.secondSolventMoleFraction > 0 && v.condition.secondSolventMoleFraction < 1)) {
-      errors.push({ field: "secondSolventMoleFraction", message: "Give the second solvent's mole fraction, between 0 and 1." });
-    }
-    if (v.condition.additiveConcentrationMolL !== null && !v.condition.additive) errors.push({ field: "additive", message: "Name the acid or base whose amount you gave (e.g. HCl)." });
-    if (errors.length || !dye || !solvent) return { ok: false, errors };
+  const lookups = instrumentLookups(db);
+  return inputs.map((v): { ok: true; item: InstrumentColourToSave } | { ok: false; errors: FieldError[] } => {
+    const resolved = resolveDyeAndCondition(lookups, v);
+    if (!resolved.ok) return resolved;
+    const { dyeId, condition } = resolved;
     const colour = instrumentColourToD65(v.lab, v.whitePoint);
-    const condition: ConditionInput = {
-      solventId: solvent.id,
-      acidBase: v.condition.acidBase,
-      ph: v.condition.pH,
-      concentrationUmolL: v.condition.concentrationUmolL,
-      additive: v.condition.additive,
-      additiveConcentrationMolL: v.condition.additiveConcentrationMolL,
-      temperatureC: v.condition.temperatureC,
-      pathLengthMm: v.condition.pathLengthMm,
-      secondSolventId: second?.id ?? null,
-      secondSolventMoleFraction: second ? v.condition.secondSolventMoleFraction : null,
-    };
-    const earlier = earlierReplicates(db, { dyeId: dye.id, condition });
+    const earlier = earlierReplicates(db, { dyeId, condition });
     const verdict = checkReplicate(colour.lab, earlier.map((e) => [e.l, e.a, e.b]), v.uncertaintyDeltaE00 ?? null);
     return {
       ok: true,
       item: {
-        dyeId: dye.id,
+        dyeId,
         condition,
         lab: colour.lab,
         xyz: colour.xyz,
