@@ -124,10 +124,10 @@ export function SpectrumUpload({ dyeCode, solvents }: { dyeCode: string; solvent
         <Field label="Temperature (°C)" name="temperatureC" error={e.temperatureC ?? e["condition.temperatureC"]}>
           <TextInput name="temperatureC" inputMode="decimal" value={fields.temperatureC} onChange={set("temperatureC")} />
         </Field>
-        <Field label="Dye concentration (µmol/L)" name="concentrationUmolL" error={e.concentrationUmolL}>
+        <Field label="Concentration of the dye (µmol/L)" name="concentrationUmolL" error={e.concentrationUmolL}>
           <TextInput name="concentrationUmolL" inputMode="decimal" value={fields.concentrationUmolL} onChange={set("concentrationUmolL")} error={e.concentrationUmolL} />
         </Field>
-        <Field label="Path length (mm)" name="pathLengthMm" error={e.pathLengthMm}>
+        <Field label="Cell path (mm)" name="pathLengthMm" error={e.pathLengthMm}>
           <TextInput name="pathLengthMm" inputMode="decimal" value={fields.pathLengthMm} onChange={set("pathLengthMm")} error={e.pathLengthMm} />
         </Field>
         <div className="sm:col-span-2 lg:col-span-3">
