@@ -1,6 +1,6 @@
 "use client";
 
-import { useActionState, useState } from "react";
+import { startTransition, useActionState, useState, type FormEvent } from "react";
 import { useDropzone } from "react-dropzone";
 import { uploadSpectrumAction } from "@/app/actions/spectra";
 import { ProblemTable } from "@/components/imports/problem-table";
@@ -45,6 +45,17 @@ export function SpectrumUpload({ dyeCode, solvents }: { dyeCode: string; solvent
   const preview = state?.ok && data?.preview && checkedFor === fingerprint ? data.preview : null;
   const e = state?.fieldErrors ?? {};
 
+  // Dispatched by hand rather than through the form's action prop: React resets a form after its action,
+  // which would put the chosen solvent back to "Choose" in the page while the state still holds it.
+  const submit = (event: FormEvent<HTMLFormElement>) => {
+    event.preventDefault();
+    const data = new FormData(event.currentTarget);
+    const submitter = (event.nativeEvent as SubmitEvent).submitter as HTMLButtonElement | null;
+    data.set("mode", submitter?.value ?? "preview");
+    setCheckedFor(fingerprint);
+    startTransition(() => action(data));
+  };
+
   const { getRootProps, getInputProps, isDragActive } = useDropzone({
     accept: ACCEPT,
     maxSize: MAX_BYTES,
@@ -63,7 +74,7 @@ export function SpectrumUpload({ dyeCode, solvents }: { dyeCode: string; solvent
   });
 
   return (
-    <form action={action} onSubmit={() => setCheckedFor(fingerprint)} className="space-y-4" aria-label="Upload a spectrum" noValidate>
+    <form onSubmit={submit} className="space-y-4" aria-label="Upload a spectrum" noValidate>
       <input type="hidden" name="dye" value={dyeCode} />
       <input type="hidden" name="csv" value={file?.text ?? ""} />
       <input type="hidden" name="fileName" value={file?.name ?? ""} />
