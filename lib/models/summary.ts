@@ -69,6 +69,10 @@ export function modelSentence(model: DyeModel): string {
   const perm = model.scales.find((s) => s.model === "permittivity")?.fit;
   const et = model.scales.find((s) => s.model === "et30")?.fit;
   const parts: string[] = [];
+  const onSpectra = (m: ScaleModel) => {
+    const route = model.scales.find((s) => s.model === m);
+    return route?.source === "spectrum" && route.fit ? `, on band maxima from spectra in ${route.fit.n} solvents` : "";
+  };
   if (kt) {
     // The largest |coefficient × spread of the parameter over the measured set|: what moves the band most here.
     const spread = (j: number) => {
@@ -81,12 +85,12 @@ export function modelSentence(model: DyeModel): string {
     const words: Record<string, string> = { alpha: "hydrogen-bond donation (α)", beta: "hydrogen-bond acceptance (β)", pi_star: "dipolarity/polarisability (π*)", delta: "polarisability (δ)" };
     const c = kt.coefficients[top];
     const symbol = top === "alpha" ? "a" : top === "beta" ? "b" : top === "pi_star" ? "s" : "d";
-    parts.push(`The band position is most sensitive to ${words[top]}: ${symbol} = ${fmt(c.value)} ± ${fmt(c.stdErr)} cm⁻¹ per unit ${TERM_LABELS[top]} (Kamlet–Taft R² ${fmt(kt.r2, 2)})`);
+    parts.push(`The band position is most sensitive to ${words[top]}: ${symbol} = ${fmt(c.value)} ± ${fmt(c.stdErr)} cm⁻¹ per unit ${TERM_LABELS[top]} (Kamlet–Taft R² ${fmt(kt.r2, 2)}${onSpectra("kamlet-taft")})`);
   } else if (model.chosen.route === "cielab") {
     parts.push("The colours are fitted directly in CIELAB");
   }
-  if (et) parts.push(`ET(30) alone gives R² ${fmt(et.r2, 2)}`);
-  if (perm) parts.push(`permittivity alone ${perm.r2 < 0.5 ? "explains little" : "explains"}, R² ${fmt(perm.r2, 2)}`);
+  if (et) parts.push(`ET(30) alone gives R² ${fmt(et.r2, 2)}${onSpectra("et30")}`);
+  if (perm) parts.push(`permittivity alone ${perm.r2 < 0.5 ? "explains little" : "explains"}, R² ${fmt(perm.r2, 2)}${onSpectra("permittivity")}`);
   const chosenScale = model.chosen.route === "band" ? model.scales.find((s) => s.model === model.chosen!.model) : undefined;
   const chosen =
     model.chosen.route === "band"

@@ -12,6 +12,7 @@
 import { describe, expect, it } from "vitest";
 import { computeDyeModel, spectrumBandsBySolvent, type SolventColour, type TableSolvent } from "@/lib/models/dye-model";
 import { lambdaMax, type SampledSpectrum } from "@/lib/color/spectrum";
+import { modelSentence, modelSummary } from "@/lib/models/summary";
 import { gaussian, mulberry32 } from "@/lib/random";
 import { readFixtureCsv } from "../support/fixtures";
 import { formSpectrum, mixtureLab } from "../support/indicator-series";
@@ -55,6 +56,9 @@ describe("solvent model from measured spectra (log-normal bands on the real solv
     // Not mixed: every observation is the solvent's ν̃max = 10⁷/λmax, none an apparent band from colour.
     const fromSpectra = new Map(model.spectra.map((p) => [p.solvent, p.wavenumberCm1]));
     kt.fit!.solvents.forEach((name, i) => expect(kt.fit!.observed[i]).toBe(fromSpectra.get(name)));
+    // The page's and the API's sentence say which source the numbers come from.
+    expect(modelSentence(model)).toMatch(/Kamlet–Taft R² \d\.\d\d, on band maxima from spectra in 20 solvents/);
+    expect(modelSummary(model).routes.find((r) => r.route === "band" && r.model === "kamlet-taft")).toMatchObject({ source: "spectrum" });
   });
 
   it("recovers s, a and b within two standard errors (95 %) of the generating law", () => {
