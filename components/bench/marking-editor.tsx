@@ -602,7 +602,8 @@ export function MarkingEditor(props: {
       </p>
       <div className="hidden space-y-3 md:block">
         <SafetyNotice solvents={inUse} />
-        <div className="grid items-start gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
+        {/* From 1280 px the table column keeps the 46rem its fixed columns need; the photo takes the rest. */}
+        <div className="grid items-start gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)] xl:grid-cols-[minmax(0,1fr)_minmax(46rem,1.6fr)]">
           {/* The photo column stays in view while the table beside it scrolls. */}
           <div className="space-y-2 lg:sticky lg:top-20" data-testid="photo-column">
             <div className="flex flex-wrap items-end gap-2 rounded-lg border border-line bg-white p-2">
@@ -822,17 +823,18 @@ export function MarkingEditor(props: {
                 )}
               </p>
               <div className="overflow-x-auto">
-                <table className="w-full min-w-[42rem] text-sm" data-testid="rack-table">
+                <table className="w-full min-w-[46rem] table-fixed text-sm" data-testid="rack-table">
                   <caption className="sr-only">One row per vial, left to right: its region, dye, solvent, condition, measured colour, uncertainty and flags.</caption>
                   <thead className="bg-paper/60 text-left text-xs text-ink-soft">
                     <tr>
-                      <th scope="col" className="px-2 py-1.5">Vial</th>
+                      {/* Fixed widths for the short columns; dye and solvent share what is left. */}
+                      <th scope="col" className="w-[4.5rem] px-2 py-1.5">Vial</th>
                       <th scope="col" className="px-2 py-1.5">Dye</th>
                       <th scope="col" className="px-2 py-1.5">Solvent</th>
-                      <th scope="col" className="px-2 py-1.5">Condition</th>
-                      <th scope="col" className="px-2 py-1.5">Colour (CIELAB D65)</th>
-                      <th scope="col" className="px-2 py-1.5">± ΔE00</th>
-                      <th scope="col" className="px-2 py-1.5">Flags</th>
+                      <th scope="col" className="w-[6.5rem] px-2 py-1.5">Condition</th>
+                      <th scope="col" className="w-[7rem] px-2 py-1.5">Colour (CIELAB D65)</th>
+                      <th scope="col" className="w-16 whitespace-nowrap px-2 py-1.5">± ΔE00</th>
+                      <th scope="col" className="w-[7.5rem] px-2 py-1.5">Flags</th>
                     </tr>
                   </thead>
                   {orderedVials.length === 0 && (
@@ -865,11 +867,11 @@ export function MarkingEditor(props: {
                               remove
                             </button>
                           </td>
-                          <td className="min-w-40 px-2 py-1.5">
+                          <td className="px-2 py-1.5">
                             <DyePicker dyes={props.dyes} value={m.dyeId} onChange={(id) => update(m.key, { dyeId: id })} label={`Dye in ${m.label}`} hideLabel />
                             {fieldErr(vi, "dyeId") && <p className="text-xs text-bad">{fieldErr(vi, "dyeId")}</p>}
                           </td>
-                          <td className="min-w-40 px-2 py-1.5">
+                          <td className="px-2 py-1.5">
                             <select aria-label={`Solvent in ${m.label}`} value={m.solventId} onChange={(e) => update(m.key, { solventId: e.target.value })} className={INPUT}>
                               {solventOptions("Choose the solvent")}
                             </select>
@@ -888,11 +890,13 @@ export function MarkingEditor(props: {
                           <td className="px-2 py-1.5" data-testid="live-colour">
                             {r?.ok ? (
                               <div className="flex items-start gap-1.5">
-                                <span role="img" aria-label={`Measured colour of ${m.label} (screen approximation)`} className="h-8 w-8 shrink-0 rounded border border-black/10" style={{ backgroundColor: r.colour.hex }} />
+                                <span role="img" aria-label={`Measured colour of ${m.label} (screen approximation)`} className="h-6 w-6 shrink-0 rounded border border-black/10" style={{ backgroundColor: r.colour.hex }} />
                                 <span className="whitespace-nowrap text-xs leading-4 tabular-nums" data-testid="live-lab" title={`C* ${fmt(r.colour.lch[1])} h° ${fmt(r.colour.lch[2], 0)} · ${r.colour.pixels} px, ${r.colour.rejected} rejected`}>
                                   L* {fmt(r.colour.lab[0])}
                                   <br />
-                                  a* {fmt(r.colour.lab[1])} b* {fmt(r.colour.lab[2])}
+                                  a* {fmt(r.colour.lab[1])}
+                                  <br />
+                                  b* {fmt(r.colour.lab[2])}
                                 </span>
                               </div>
                             ) : r ? (
