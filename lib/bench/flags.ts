@@ -3,7 +3,15 @@
  * queue and the measurement table. `short` fits a table cell; `long` says what the flag means.
  * Codes stay as they are in storage, exports and the API; people read these words.
  */
-export const FLAG_WORDS: Record<string, { short: string; long: string }> = {
+import type { CorrectionFlag } from "../color/calibrated-measure";
+import type { RegionFlag } from "../color/regions";
+import type { PipelineFlag } from "./pipeline";
+import type { LIGHTNESS_FLAG, REPLICATE_FLAG } from "./replicates";
+
+/** Every code a measurement can carry; the type makes a new code without words a compile error. */
+export type FlagCode = RegionFlag | CorrectionFlag | PipelineFlag | typeof REPLICATE_FLAG | typeof LIGHTNESS_FLAG;
+
+export const FLAG_WORDS: Record<FlagCode, { short: string; long: string }> = {
   "too-few-pixels": { short: "few pixels", long: "too few pixels" },
   "much-rejected": { short: "pixels rejected", long: "many pixels rejected (glare, label or edge)" },
   "non-uniform": { short: "not uniform", long: "not one colour (meniscus, bubbles, gradient)" },
@@ -20,7 +28,7 @@ export const FLAG_WORDS: Record<string, { short: string; long: string }> = {
 
 /** Words for a flag code; an unknown code is shown with its hyphens as spaces rather than hidden. */
 export function flagWords(code: string): { short: string; long: string } {
-  const known = FLAG_WORDS[code];
+  const known = (FLAG_WORDS as Record<string, { short: string; long: string } | undefined>)[code];
   if (known) return known;
   const plain = code.replace(/-/g, " ");
   return { short: plain, long: plain };
