@@ -115,12 +115,12 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
   revalidatePath(`/bench/photos/${photo.id}`);
   revalidatePath("/review");
   const { ids } = saved;
-  const checkWords = saved.checks.map((c, i) => `${checkNames[i]}: ΔE00 ${c.deltaE00.toFixed(2)} to its known value`);
+  const checkWords = saved.checks.map((c, i) => `${checkNames[i]} ΔE00 ${c.deltaE00.toFixed(2)} to its known value`);
   return {
     ok: true,
     message:
-      `Saved ${ids.length} measurement${ids.length === 1 ? "" : "s"}; they wait for review by another chemist or an admin.` +
-      (checkWords.length ? ` Check standard${checkWords.length === 1 ? "" : "s"} recorded${input.lightingProfileId ? " in the profile's check history" : " (no profile chosen, so in no profile's history)"}: ${checkWords.join("; ")}.` : ""),
+      `Saved ${ids.length} measurement${ids.length === 1 ? "; it waits" : "s; they wait"} for review by another chemist or an admin.` +
+      (checkWords.length ? ` Recorded ${input.lightingProfileId ? "in the profile's check history" : "with no profile, so in no profile's check history"}: ${checkWords.join("; ")}.` : ""),
     data: { ids, checks: saved.checks },
   };
 });

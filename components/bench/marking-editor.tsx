@@ -804,6 +804,7 @@ export function MarkingEditor(props: {
               <p className="border-b border-line px-3 py-2 text-sm">
                 <strong>
                   {vials.length} vial{vials.length === 1 ? "" : "s"}, {refs.length} reference{refs.length === 1 ? "" : "s"}
+                  {checks.length > 0 ? `, ${checks.length} check standard${checks.length === 1 ? "" : "s"}` : ""}
                 </strong>
                 {measuring ? " · measuring…" : checkingReplicates ? " · checking replicates…" : ""} ·{" "}
                 <span className="text-ink-soft">

@@ -283,7 +283,7 @@ describe("check standards on the bench", { timeout: 180_000 }, () => {
     expect(db().select().from(measurements).where(eq(measurements.photoId, photo.id)).all()).toHaveLength(0);
 
     const res = await saveMeasurementsAction(null, payload(standardId));
-    expect(res, JSON.stringify(res)).toMatchObject({ ok: true, message: expect.stringMatching(/Saved 1 measurement;.*“Terracotta tile”: ΔE00 \d+\.\d\d to its known value/) });
+    expect(res, JSON.stringify(res)).toMatchObject({ ok: true, message: expect.stringMatching(/Saved 1 measurement; it waits .* Recorded in the profile's check history: “Terracotta tile” ΔE00 \d+\.\d\d to its known value\./) });
     const readings = db().select().from(checkReadings).where(eq(checkReadings.photoId, photo.id)).all();
     expect(readings).toHaveLength(1);
     const reading = readings[0];
