@@ -470,7 +470,7 @@ export type Measurement = typeof measurements.$inferSelect;
 export type NewMeasurement = typeof measurements.$inferInsert;
 
 /** A saved rack layout: region positions as fractions of the photo's width and height, reapplied to new photos. */
-export type TemplateRegion = { shape: RegionShape; x: number; y: number; w: number; h: number; role: "vial" | "reference"; label: string };
+export type TemplateRegion = { shape: RegionShape; x: number; y: number; w: number; h: number; role: "vial" | "reference" | "check"; label: string };
 
 export const rackTemplates = sqliteTable("rack_templates", {
   id: text("id").primaryKey(),
