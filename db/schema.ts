@@ -470,7 +470,7 @@ export type Measurement = typeof measurements.$inferSelect;
 export type NewMeasurement = typeof measurements.$inferInsert;
 
 /** A saved rack layout: region positions as fractions of the photo's width and height, reapplied to new photos. */
-export type TemplateRegion = { shape: RegionShape; x: number; y: number; w: number; h: number; role: "vial" | "reference"; label: string };
+export type TemplateRegion = { shape: RegionShape; x: number; y: number; w: number; h: number; role: "vial" | "reference" | "check"; label: string };
 
 export const rackTemplates = sqliteTable("rack_templates", {
   id: text("id").primaryKey(),
@@ -531,12 +531,16 @@ export const spectra = sqliteTable(
     concentrationUmolL: real("concentration_umol_l"),
     pathLengthMm: real("path_length_mm"),
     instrument: text("instrument").notNull().default(""),
+    /** The uploaded file's name; empty for JSON points and the demo (migration 0012). */
+    originalName: text("original_name").notNull().default(""),
+    /** Unit the wavelengths were sent in ("nm", "µm", "cm⁻¹"); `points` are always nm (migration 0012). */
+    wavelengthUnit: text("wavelength_unit").notNull().default("nm"),
     createdBy: text("created_by")
       .notNull()
       .references(() => users.id),
     createdAt: createdAt(),
   },
-  (t) => [index("spectra_dye_idx").on(t.dyeId)],
+  (t) => [index("spectra_dye_idx").on(t.dyeId), index("spectra_condition_idx").on(t.conditionId)],
 );
 export type Spectrum = typeof spectra.$inferSelect;
 

@@ -1,33 +1,12 @@
+import { ProblemTable } from "./problem-table";
+
 export type ImportSummary = { rows: number; good: number; problems: { line: number; column: string; message: string }[]; moreProblems: number; preview: Record<string, unknown>[]; imported?: number };
 
 /** What a checked CSV import shows: every problem by line and column, then the first good rows. */
 export function ImportReport({ summary, previewTitle }: { summary: ImportSummary; previewTitle: string }) {
   return (
     <>
-      {summary.problems.length > 0 && (
-        <section aria-label="Problems by line" className="rounded-lg border border-bad/40 bg-white p-4">
-          <h2 className="mb-2 text-sm font-semibold text-bad">Problems ({summary.problems.length + summary.moreProblems})</h2>
-          <table className="w-full text-left text-sm" data-testid="import-problems">
-            <thead className="text-xs text-ink-soft">
-              <tr>
-                <th className="py-1 pr-3">Line</th>
-                <th className="py-1 pr-3">Column</th>
-                <th className="py-1">Problem</th>
-              </tr>
-            </thead>
-            <tbody>
-              {summary.problems.map((p, i) => (
-                <tr key={i} className="border-t border-line align-top" data-testid="import-problem">
-                  <td className="py-1 pr-3 tabular-nums">{p.line}</td>
-                  <td className="py-1 pr-3 font-mono text-xs">{p.column}</td>
-                  <td className="py-1">{p.message}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-          {summary.moreProblems > 0 && <p className="mt-1 text-xs text-ink-soft">and {summary.moreProblems} more; fix these first.</p>}
-        </section>
-      )}
+      <ProblemTable problems={summary.problems} more={summary.moreProblems} />
       {summary.preview.length > 0 && (
         <section aria-label="Preview of the good rows" className="overflow-x-auto rounded-lg border border-line bg-white p-4">
           <h2 className="mb-2 text-sm font-semibold">{previewTitle}</h2>

@@ -1,7 +1,7 @@
 import { and, eq, isNotNull, isNull } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
 import type { Db } from "../connection";
-import { conditions, measurements, solvents, spectra } from "../schema";
+import { conditions, measurements, solvents } from "../schema";
 
 export type PhSeries = {
   solvent: { id: string; name: string; medium: string };
@@ -33,37 +33,4 @@ export function phSeriesForDye(db: Db, { dyeId }: { dyeId: string }): PhSeries[]
     s.vials.push({ pH: condition.ph!, lab: [m.l, m.a, m.b], measurementId: m.id });
   }
   return [...bySolvent.values()].filter((s) => s.vials.length >= 5).map((s) => ({ ...s, vials: s.vials.sort((x, y) => x.pH - y.pH) }));
-}
-
-export type DyeSpectrum = {
-  id: string;
-  solvent: string;
-  acidBase: string;
-  pH: number | null;
-  points: [number, number][];
-  concentrationUmolL: number | null;
-  pathLengthMm: number | null;
-  instrument: string;
-};
-
-/** A dye's stored absorbance spectra with their solvent and condition. */
-export function spectraForDye(db: Db, { dyeId }: { dyeId: string }): DyeSpectrum[] {
-  return db
-    .select({ s: spectra, condition: conditions, solvent: solvents })
-    .from(spectra)
-    .innerJoin(conditions, eq(spectra.conditionId, conditions.id))
-    .innerJoin(solvents, eq(conditions.solventId, solvents.id))
-    .where(eq(spectra.dyeId, dyeId))
-    .all()
-    .map(({ s, condition, solvent }) => ({
-      id: s.id,
-      solvent: solvent.name,
-      acidBase: condition.acidBase,
-      pH: condition.ph,
-      points: s.points,
-      concentrationUmolL: s.concentrationUmolL,
-      pathLengthMm: s.pathLengthMm,
-      instrument: s.instrument,
-    }))
-    .sort((x, y) => x.solvent.localeCompare(y.solvent));
 }
