@@ -35,3 +35,6 @@ CREATE TABLE `ph_series_fits` (
 	`result` text NOT NULL,
 	`computed_at` integer NOT NULL
 );
+-- Journal note: this migration's "when" (1796190850000) lies after 0012's, because 0012 reached main first;
+-- drizzle applies a migration only when its "when" is later than the newest one a database has, so a
+-- database already at 0012 still receives this one. A fresh database applies them in journal order.
