@@ -6,7 +6,7 @@
  * rounded in storage; every colour row names its illuminant (reference white) and observer.
  */
 import { sql } from "drizzle-orm";
-import { index, integer, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from "drizzle-orm/sqlite-core";
+import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from "drizzle-orm/sqlite-core";
 import type { PhotoExif } from "../lib/color/exif";
 
 export const ROLES = ["admin", "chemist", "formulator"] as const;
@@ -470,7 +470,7 @@ export type Measurement = typeof measurements.$inferSelect;
 export type NewMeasurement = typeof measurements.$inferInsert;
 
 /** A saved rack layout: region positions as fractions of the photo's width and height, reapplied to new photos. */
-export type TemplateRegion = { shape: RegionShape; x: number; y: number; w: number; h: number; role: "vial" | "reference"; label: string };
+export type TemplateRegion = { shape: RegionShape; x: number; y: number; w: number; h: number; role: "vial" | "reference" | "check"; label: string };
 
 export const rackTemplates = sqliteTable("rack_templates", {
   id: text("id").primaryKey(),
@@ -531,12 +531,16 @@ export const spectra = sqliteTable(
     concentrationUmolL: real("concentration_umol_l"),
     pathLengthMm: real("path_length_mm"),
     instrument: text("instrument").notNull().default(""),
+    /** The uploaded file's name; empty for JSON points and the demo (migration 0012). */
+    originalName: text("original_name").notNull().default(""),
+    /** Unit the wavelengths were sent in ("nm", "µm", "cm⁻¹"); `points` are always nm (migration 0012). */
+    wavelengthUnit: text("wavelength_unit").notNull().default("nm"),
     createdBy: text("created_by")
       .notNull()
       .references(() => users.id),
     createdAt: createdAt(),
   },
-  (t) => [index("spectra_dye_idx").on(t.dyeId)],
+  (t) => [index("spectra_dye_idx").on(t.dyeId), index("spectra_condition_idx").on(t.conditionId)],
 );
 export type Spectrum = typeof spectra.$inferSelect;
 
@@ -586,6 +590,70 @@ export const dyePredictions = sqliteTable(
   (t) => [index("dye_predictions_dye_idx").on(t.dyeId)],
 );
 export type DyePredictionRow = typeof dyePredictions.$inferSelect;
+
+// ---------------------------------------------------------------- acid–base (migration 0011)
+
+/**
+ * A pH series grouped by a chemist: vials (measurements) of one dye in one medium, each with its pH.
+ * The medium is the solvent, or a binary blend (second solvent and its mole fraction x₂), at the stated
+ * ionic strength; a pKa fitted from it is apparent for that medium.
+ */
+export const phSeries = sqliteTable(
+  "ph_series",
+  {
+    id: text("id").primaryKey(),
+    dyeId: text("dye_id")
+      .notNull()
+      .references(() => dyes.id),
+    name: text("name").notNull(),
+    solventId: text("solvent_id")
+      .notNull()
+      .references(() => solvents.id),
+    secondSolventId: text("second_solvent_id").references(() => solvents.id),
+    secondSolventMoleFraction: real("second_solvent_mole_fraction"),
+    /** mol/L; null when not recorded. */
+    ionicStrengthMolL: real("ionic_strength_mol_l"),
+    notes: text("notes").notNull().default(""),
+    createdBy: text("created_by")
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("ph_series_dye_idx").on(t.dyeId), uniqueIndex("ph_series_dye_name_unique").on(t.dyeId, t.name)],
+);
+export type PhSeriesRow = typeof phSeries.$inferSelect;
+
+/** One vial of a pH series: a measurement and the pH the chemist recorded for it. */
+export const phSeriesVials = sqliteTable(
+  "ph_series_vials",
+  {
+    seriesId: text("series_id")
+      .notNull()
+      .references(() => phSeries.id, { onDelete: "cascade" }),
+    measurementId: text("measurement_id")
+      .notNull()
+      .references(() => measurements.id, { onDelete: "cascade" }),
+    ph: real("ph").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.seriesId, t.measurementId] }), index("ph_series_vials_measurement_idx").on(t.measurementId)],
+);
+export type PhSeriesVialRow = typeof phSeriesVials.$inferSelect;
+
+/**
+ * The stored pKa fit of a series (lib/color/pka.ts, result JSON). `cache_key` fingerprints the accepted
+ * vials (ids, pH, CIELAB); a row whose key no longer matches is recomputed on the next read.
+ */
+export const phSeriesFits = sqliteTable("ph_series_fits", {
+  seriesId: text("series_id")
+    .primaryKey()
+    .references(() => phSeries.id, { onDelete: "cascade" }),
+  cacheKey: text("cache_key").notNull(),
+  version: integer("version").notNull(),
+  result: text("result", { mode: "json" }).notNull(),
+  computedAt: integer("computed_at", { mode: "timestamp_ms" }).notNull(),
+});
+export type PhSeriesFitRow = typeof phSeriesFits.$inferSelect;
 
 // ---------------------------------------------------------------- formulator work
 

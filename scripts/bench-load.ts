@@ -16,7 +16,6 @@
  */
 import { execFileSync, spawn } from "node:child_process";
 import fs from "node:fs";
-import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import autocannon from "autocannon";
@@ -24,6 +23,7 @@ import { migrateDatabase, openDatabase, databaseFile } from "../db/connection";
 import { seedSolvents } from "../db/seed/demo";
 import { gaussian, rng } from "../db/seed/demo-model";
 import { createApiToken } from "../lib/auth/service";
+import { freePort } from "../lib/ops/free-port";
 
 const arg = (name: string, fallback: number) => {
   const i = process.argv.indexOf(`--${name}`);
@@ -34,17 +34,6 @@ const CONNECTIONS = arg("connections", 10);
 const N = arg("measurements", 100_000);
 const PER_DYE = 100;
 const root = process.cwd();
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = net.createServer();
-    server.listen(0, "127.0.0.1", () => {
-      const { port } = server.address() as net.AddressInfo;
-      server.close(() => resolve(port));
-    });
-    server.on("error", reject);
-  });
-}
 
 function seed(dir: string): string {
   const db = openDatabase(databaseFile(dir));

@@ -5,7 +5,7 @@ import { z } from "zod";
 import { db } from "@/db/client";
 import { deleteRackTemplate, deleteSolventPanel, earlierReplicates, saveMeasurements, saveRackTemplate, saveSolventPanel } from "@/db/queries/bench";
 import { getPhoto, measureOnPhoto } from "@/db/queries/photos";
-import { adminEmails, getProfile, recordPhotoChecks, recordPhotoDrift, standardOrRefuse } from "@/db/queries/lighting";
+import { adminEmails, getProfile, recordPhotoDrift, standardOrRefuse } from "@/db/queries/lighting";
 import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
 import { send } from "@/lib/mail";
 import { formAction, parseInput } from "@/lib/auth/guard";
@@ -52,7 +52,7 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
   const photo = getPhoto(handle, input.photoId);
   if (!photo) throw new AppError("not_found", "That photo no longer exists.");
   const checks = input.checkStandards ?? [];
-  for (const c of checks) standardOrRefuse(handle, c.standardId);
+  const checkNames = checks.map((c) => `“${standardOrRefuse(handle, c.standardId).name}”`);
   const measured = await measureOnPhoto(handle, objectStore(), photo, {
     lightingProfileId: input.lightingProfileId,
     references: input.references,
@@ -72,7 +72,7 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
       Object.fromEntries(failed.map((f) => [`vials.${f.i}.region`, [f.error]])),
     );
   }
-  const ids = saveMeasurements(handle, {
+  const saved = saveMeasurements(handle, {
     actorId: user.id,
     photoId: photo.id,
     lightingProfileId: input.lightingProfileId,
@@ -108,21 +108,21 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
         uncertainty: c.uncertainty,
       };
     }),
+    checks: checks.map((c, i) => ({ standardId: c.standardId, labD65: (checkResults[i] as Extract<(typeof checkResults)[number], { ok: true }>).colour.lab })),
   });
   await noteDrift(photo.id, input.lightingProfileId, result.references);
-  recordPhotoChecks(handle, {
-    actorId: user.id,
-    photoId: photo.id,
-    profileId: input.lightingProfileId,
-    readings: checks.flatMap((c, i) => {
-      const r = checkResults[i];
-      return r.ok ? [{ standardId: c.standardId, labD65: r.colour.lab }] : [];
-    }),
-  });
   revalidatePath("/bench");
   revalidatePath(`/bench/photos/${photo.id}`);
   revalidatePath("/review");
-  return { ok: true, message: `Saved ${ids.length} measurement${ids.length === 1 ? "" : "s"}; they wait for review by another chemist or an admin.`, data: { ids } };
+  const { ids } = saved;
+  const checkWords = saved.checks.map((c, i) => `${checkNames[i]} ΔE00 ${c.deltaE00.toFixed(2)} to its known value`);
+  return {
+    ok: true,
+    message:
+      `Saved ${ids.length} measurement${ids.length === 1 ? "; it waits" : "s; they wait"} for review by another chemist or an admin.` +
+      (checkWords.length ? ` Recorded ${input.lightingProfileId ? "in the profile's check history" : "with no profile, so in no profile's check history"}: ${checkWords.join("; ")}.` : ""),
+    data: { ids, checks: saved.checks },
+  };
 });
 
 export const saveTemplateAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
@@ -140,13 +140,13 @@ export const deleteTemplateAction = formAction({ access: BENCH_ROLES, schema: z.
 
 export const savePanelAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
   const input = parseInput(panelSchema, parseJson(payload));
-  const id = saveSolventPanel(db(), { actorId: user.id, name: input.name, entries: input.entries });
+  const id = saveSolventPanel(db(), { actorId: user.id, actorRole: user.role, name: input.name, entries: input.entries });
   revalidatePath("/bench", "layout");
   return { ok: true, message: `Panel “${input.name}” saved with ${input.entries.length} solvent${input.entries.length === 1 ? "" : "s"}.`, data: { id } };
 });
 
 export const deletePanelAction = formAction({ access: BENCH_ROLES, schema: z.object({ id: z.string().min(1, { error: "Choose a panel first." }).max(100) }) }, async ({ id }, { user }) => {
-  deleteSolventPanel(db(), { actorId: user.id, id });
+  deleteSolventPanel(db(), { actorId: user.id, actorRole: user.role, id });
   revalidatePath("/bench", "layout");
   return { ok: true, message: "Panel deleted." };
 });

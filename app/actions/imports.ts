@@ -3,12 +3,13 @@
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { db } from "@/db/client";
-import { prepareInstrumentMeasurements, saveInstrumentMeasurements, type InstrumentColourToSave } from "@/db/queries/bench";
+import { saveInstrumentMeasurements } from "@/db/queries/bench";
+import { checkInstrumentRows } from "@/db/queries/instrument-import";
 import { addDyes, existingDyeCodes } from "@/db/queries/dyes";
 import { formAction } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
 import { AppError } from "@/lib/errors";
-import { checkDyeRows, checkMeasurementRows, measurementColumn, parseCsv, type RowProblem } from "@/lib/import/csv";
+import { checkDyeRows, checkedImport, parseCsv, type RowProblem } from "@/lib/import/csv";
 
 const importSchema = z.object({
   kind: z.enum(["dyes", "measurements"], { error: "Choose what the file holds: dyes or measurements." }),
@@ -45,37 +46,15 @@ export const importCsvAction = formAction({ access: BENCH_ROLES, schema: importS
     preview = ok.slice(0, 20).map((r) => ({ line: r.line, code: r.value!.code, name: r.value!.name, class: r.value!.dyeClass, casNumber: r.value!.casNumber, molarMass: r.value!.molarMass }));
     store = () => addDyes(handle, { actorId: user.id, list: ok.map((r) => r.value!) });
   } else {
-    const checked = checkMeasurementRows(rows);
-    const valid = checked.filter((r) => r.value);
-    const prepared = prepareInstrumentMeasurements(handle, valid.map((r) => r.value!));
-    const items: { line: number; item: InstrumentColourToSave }[] = [];
-    valid.forEach((r, i) => {
-      const p = prepared[i];
-      if (!p.ok) r.problems.push(...p.errors.map((e) => ({ line: r.line, column: measurementColumn(e.field === "dye" ? ["dye"] : ["condition", e.field]), message: e.message })));
-      else if (p.item.flags.length && !p.item.flagReason) {
-        r.problems.push({ line: r.line, column: "flag_reason", message: `This colour is flagged (${p.item.flags.join(", ")}); say in flag_reason why it should be kept.` });
-      } else items.push({ line: r.line, item: p.item });
-    });
-    for (const r of checked) problems.push(...r.problems);
+    const { items, problems: rowProblems } = checkInstrumentRows(handle, rows);
+    problems.push(...rowProblems);
     good = items.length;
     preview = items.slice(0, 20).map(({ line, item }) => ({ line, lab: item.lab.map((v) => Math.round(v * 100) / 100), sent: item.sent, flags: item.flags, instrument: item.instrument }));
     store = () => saveInstrumentMeasurements(handle, { actorId: user.id, items: items.map((i) => i.item) }).length;
   }
 
-  problems.sort((a, b) => a.line - b.line);
-  const summary = { rows: rows.length, good, problems: problems.slice(0, 200), moreProblems: Math.max(0, problems.length - 200), preview };
-  if (mode === "preview") {
-    return {
-      ok: true,
-      message: problems.length
-        ? `${rows.length} rows checked: ${good} good, ${rows.length - good} with problems (listed by line and column). Nothing is stored yet.`
-        : `${rows.length} rows checked, all good. Nothing is stored until you import.`,
-      data: summary,
-    };
-  }
-  if (mode === "all" && problems.length) {
-    throw new AppError("invalid_input", `Nothing was stored: ${rows.length - good} of ${rows.length} rows have problems. The first is line ${problems[0].line}, column ${problems[0].column}: ${problems[0].message}`);
-  }
+  const { summary, previewMessage } = checkedImport({ mode, rows: rows.length, good, problems, preview });
+  if (previewMessage) return { ok: true, message: previewMessage, data: summary };
   if (good === 0) throw new AppError("invalid_input", "Nothing was stored: no row is good.");
   const n = store();
   revalidatePath(kind === "dyes" ? "/catalogue" : "/review");

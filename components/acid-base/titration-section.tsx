@@ -1,13 +1,18 @@
+import { seText } from "@/components/acid-base/format";
+import Link from "next/link";
+import { ButtonLink } from "@/components/ui/button";
 import { Badge, Card } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import { phSeriesForDye, type PhSeries } from "@/db/queries/acid-base";
+import { phSeriesWithFits } from "@/db/queries/ph-series";
+import type { Lab } from "@/lib/color/types";
 import type { Db } from "@/db/connection";
 import { labD65ToHex } from "@/lib/color/display";
 import { ColorInputError } from "@/lib/color/errors";
 import { TwoFormModel, apparentBaseFraction, baseFraction, daviesCorrectedPka, fitPkaFromColours, type PkaFit } from "@/lib/color/pka";
 import { TitrationChart } from "./titration-chart";
 
-/** Fits are deterministic in their vials; keep them while the process runs (a fit takes a second or two). */
+/** Fits of ungrouped series are deterministic in their vials; keep them while the process runs (a fit takes a second or two). */
 const fits = new Map<string, PkaFit | { error: string }>();
 
 function fitFor(series: PhSeries): PkaFit | { error: string } {
@@ -25,61 +30,138 @@ function fitFor(series: PhSeries): PkaFit | { error: string } {
   return fit;
 }
 
+/** One block of the section: a grouped series with its stored fit, or an ungrouped one fitted here. */
+type Block = {
+  key: string;
+  heading: string;
+  solventName: string;
+  additives: string[];
+  ionicStrengthMolL: number | null;
+  vials: { pH: number; lab: Lab }[];
+  pending: number;
+  fit: PkaFit | { error: string };
+  editHref?: string;
+};
+
+function blocksFor(db: Db, dyeId: string, canEdit: boolean): { blocks: Block[]; grouped: boolean } {
+  const grouped = phSeriesWithFits(db, { dyeId });
+  if (grouped.length > 0) {
+    return {
+      grouped: true,
+      blocks: grouped.map((s) => ({
+        key: s.id,
+        heading: `${s.name} · ${s.mediumLabel}`,
+        solventName: s.mediumLabel,
+        additives: [],
+        ionicStrengthMolL: s.ionicStrengthMolL,
+        vials: s.fitted,
+        pending: s.pending,
+        fit: s.fit.ok ? s.fit.fit : { error: s.fit.error },
+        editHref: canEdit ? `/acid-base/${encodeURIComponent(s.id)}` : undefined,
+      })),
+    };
+  }
+  return {
+    grouped: false,
+    blocks: phSeriesForDye(db, { dyeId }).map((s) => ({
+      key: s.solvent.id,
+      heading: `${s.solvent.name}${s.additives.length ? ` (${s.additives.join("; ")})` : ""}, not grouped yet`,
+      solventName: s.solvent.name,
+      additives: s.additives,
+      ionicStrengthMolL: s.ionicStrengthsMolL.length === 1 ? s.ionicStrengthsMolL[0] : null,
+      vials: s.vials,
+      pending: 0,
+      fit: fitFor(s),
+    })),
+  };
+}
+
 /** The dye page's acid–base section: one titration curve and pKa per pH series. */
-export function TitrationSection({ db, dyeId }: { db: Db; dyeId: string }) {
-  const series = phSeriesForDye(db, { dyeId });
-  if (series.length === 0) return null;
+export function TitrationSection({ db, dyeId, canEdit = false }: { db: Db; dyeId: string; canEdit?: boolean }) {
+  const { blocks, grouped } = blocksFor(db, dyeId, canEdit);
+  if (blocks.length === 0) return null;
   return (
-    <Card title="pKa and titration curve" className="lg:col-span-3">
+    <Card
+      title="pKa and titration curve"
+      className="lg:col-span-3"
+      actions={
+        canEdit ? (
+          <ButtonLink href={`/acid-base/new?dyeId=${encodeURIComponent(dyeId)}`} variant="secondary">
+            Group vials into a pH series
+          </ButtonLink>
+        ) : undefined
+      }
+    >
+      {!grouped && (
+        <p className="mb-4 text-sm text-ink-soft">
+          These vials are not grouped into a named pH series yet: they are the dye's accepted colours with a recorded pH, one series per solvent, fitted on this page. Group them to store
+          the fit and to let the pH search find this dye.
+        </p>
+      )}
       <div className="space-y-6">
-        {series.map((s) => (
-          <SeriesBlock key={s.solvent.id} series={s} />
+        {blocks.map((b) => (
+          <SeriesBlock key={b.key} block={b} />
         ))}
       </div>
       <p className="mt-4 text-xs text-ink-soft">
         Fit: each form is one absorption band (Gaussian in wavenumber); every vial is the CIE colour (D65, CIE 1931 2°) of the two forms mixed per wavelength by
-        Beer–Lambert, with the base fraction from Henderson–Hasselbalch; pKa and both bands minimise the sum of squared ΔE00 over the vials. ± is the standard deviation
-        of refits over vials resampled with replacement (bootstrap). Vials are plotted at the base fraction their colour corresponds to on the fitted path. The shaded
-        band is the visual transition: where the colour differs from both end colours by ΔE00 ≥ 3 (common practice, no source).
+        Beer–Lambert, with the base fraction from Henderson–Hasselbalch; pKa and both bands minimise the sum of squared ΔE00 over the accepted vials. ± is the standard
+        deviation of refits over vials resampled with replacement (bootstrap). Vials are plotted at the base fraction their colour corresponds to on the fitted path. The
+        shaded band is the visual transition: where the colour differs from both end colours by ΔE00 ≥ 3 (common practice, no source).
       </p>
     </Card>
   );
 }
 
-function SeriesBlock({ series }: { series: PhSeries }) {
-  const fit = fitFor(series);
-  const medium = `${series.solvent.name}${series.additives.length ? ` (${series.additives.join("; ")})` : ""}`;
+function SeriesBlock({ block }: { block: Block }) {
+  const { fit, vials: points } = block;
+  const title = (
+    <h3 className="flex flex-wrap items-center gap-2 text-sm font-semibold">
+      {block.heading}
+      {block.editHref && (
+        <Link href={block.editHref} className="text-xs font-normal underline">
+          edit series
+        </Link>
+      )}
+    </h3>
+  );
+  const pendingNote = block.pending > 0 ? ` ${block.pending} more vial${block.pending === 1 ? " waits" : "s wait"} for review and ${block.pending === 1 ? "is" : "are"} not fitted yet.` : "";
   if ("error" in fit) {
     return (
       <div>
-        <h3 className="text-sm font-semibold">{medium}</h3>
-        <p className="text-sm text-ink-soft">{series.vials.length} vials; no pKa: {fit.error}</p>
+        {title}
+        <p className="text-sm text-ink-soft">
+          {points.length} accepted vials; no pKa: {fit.error}
+          {pendingNote}
+        </p>
       </div>
     );
   }
   const model = new TwoFormModel(fit.acidBand, fit.baseBand);
-  const vials = series.vials.map((v) => ({ pH: v.pH, fraction: apparentBaseFraction(model, v.lab), hex: labD65ToHex(v.lab) }));
-  const lo = Math.min(series.vials[0].pH, fit.transition[0]) - 0.5;
-  const hi = Math.max(series.vials[series.vials.length - 1].pH, fit.transition[1]) + 0.5;
+  const vials = points.map((v) => ({ pH: v.pH, fraction: apparentBaseFraction(model, v.lab), hex: labD65ToHex(v.lab) }));
+  const lo = Math.min(...points.map((v) => v.pH), fit.transition[0]) - 0.5;
+  const hi = Math.max(...points.map((v) => v.pH), fit.transition[1]) + 0.5;
   const curve = Array.from({ length: 121 }, (_, i) => lo + ((hi - lo) * i) / 120).map((pH) => ({ pH, fraction: baseFraction(pH, fit.pKa) }));
-  const ionic = series.ionicStrengthsMolL.length === 1 ? series.ionicStrengthsMolL[0] : null;
-  const isWater = series.solvent.name === "Water";
+  const ionic = block.ionicStrengthMolL;
+  const isWater = block.solventName === "Water";
+  const medium = block.heading;
   return (
     <div className="grid gap-4 md:grid-cols-3">
       <div className="space-y-2 text-sm">
-        <h3 className="font-semibold">{medium}</h3>
+        {title}
         <p data-testid="pka-value" className="text-lg font-semibold tabular-nums">
-          pKa {fit.pKa.toFixed(2)} ± {fit.pKaStdErr.toFixed(2)}
+          pKa {fit.pKa.toFixed(2)} ± {seText(fit.pKaStdErr)}
         </p>
         <p className="text-ink-soft">
-          Apparent pKa in {series.solvent.name}
+          Apparent pKa in {block.solventName}
           {ionic !== null ? ` at ionic strength ${ionic} mol/L` : ", ionic strength not recorded"}
           {isWater ? "" : "; pH in this medium is not aqueous pH"}.{" "}
           {ionic !== null && isWater && <>Davies-corrected to I = 0 (neutral acid form): {daviesCorrectedPka(fit.pKa, ionic).toFixed(2)}.</>}
         </p>
         <p className="tabular-nums">
-          Visual transition pH {fit.transition[0].toFixed(1)}–{fit.transition[1].toFixed(1)} · {series.vials.length} vials · fit RMS ΔE00 {fit.rmsDeltaE00.toFixed(2)}
+          Visual transition pH {fit.transition[0].toFixed(1)}–{fit.transition[1].toFixed(1)} · {points.length} vials · fit RMS ΔE00 {fit.rmsDeltaE00.toFixed(2)}
         </p>
+        {pendingNote && <p className="text-ink-soft">{pendingNote.trim()}</p>}
         <div className="flex items-center gap-4">
           <span className="flex flex-col items-center text-xs">
             <Swatch lab={fit.acidLab} size="lg" label="acid form" />

@@ -65,7 +65,7 @@ export function DyePicker({ dyes, value, onChange, label, hideLabel = false }: {
         className="min-h-10 w-full rounded-md border border-line bg-white px-2 text-sm focus:border-accent focus:outline-none"
       />
       {open && (
-        <ul id={`${id}-list`} role="listbox" aria-label={`${label}: matching dyes`} className="absolute z-20 mt-1 max-h-72 w-full overflow-auto rounded-lg border border-line bg-white shadow-lg">
+        <ul id={`${id}-list`} role="listbox" aria-label={`${label}: matching dyes`} className="absolute z-20 mt-1 max-h-72 w-full min-w-[16rem] overflow-auto rounded-lg border border-line bg-white shadow-lg">
           {matches.length === 0 && (
             <li className="px-3 py-2 text-sm text-ink-soft">
               No dye matches “{text}”.{" "}

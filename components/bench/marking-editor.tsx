@@ -5,10 +5,16 @@ import { useRouter } from "next/navigation";
 import { useActionState, useEffect, useMemo, useRef, useState } from "react";
 import { deletePanelAction, deleteTemplateAction, saveMeasurementsAction, savePanelAction, saveTemplateAction } from "@/app/actions/bench";
 import { SafetyNotice } from "@/components/ui/safety";
+import { flagWords } from "@/lib/bench/flags";
+import { labD65ToLabD50 } from "@/lib/color/convert";
+import { deltaE00 } from "@/lib/color/difference";
+import type { Lab } from "@/lib/color/types";
 import { DyePicker, type DyeOption } from "./dye-picker";
+import { FlagBadges } from "./flag-badges";
 
 type Shape = "rect" | "ellipse";
-type Role = "vial" | "reference";
+type Role = "vial" | "reference" | "check";
+const ROLE_NAME: Record<Role, string> = { vial: "Vial", reference: "Reference", check: "Check" };
 
 type Mark = {
   key: string;
@@ -36,6 +42,8 @@ type Mark = {
   refB: string;
   /** Full-precision values filled from a calibration target; used while the fields still show them rounded. */
   refExact: [number, number, number] | null;
+  /** For a check region: the registered check standard it shows. */
+  standardId: string;
 };
 
 /** The condition fields of a vial, copied as a group (panels, duplicates). */
@@ -47,45 +55,22 @@ const conditionOf = (m: Mark): ConditionPart => Object.fromEntries(CONDITION_KEY
 type Colour = { lab: number[]; lch: number[]; hex: string; pixels: number; rejected: number; spread: number; flags: string[]; uncertainty?: { uDeltaE00: number } | null };
 type Replicate = { flags: string[]; earlier: { id: string; lab: number[]; hex: string }[]; verdict: { deltaE00: number; limitDeltaE00: number; disagrees: boolean; spreadDeltaE00: number; n: number } | null };
 type RefResult = { region: { x: number; y: number }; correctedLab: number[]; profileLab: number[]; driftDeltaE00: number; flags: string[] };
-type Live = { vials: Record<string, { ok: true; colour: Colour } | { ok: false; error: string }>; references: Record<string, RefResult>; correction?: string; photoFlags: string[]; error?: string; busy: boolean };
+/** `forKey`: the regions, references and profile this answer was measured for (stale once they change). */
+type Live = { vials: Record<string, { ok: true; colour: Colour } | { ok: false; error: string }>; references: Record<string, RefResult>; correction?: string; photoFlags: string[]; error?: string; busy: boolean; forKey?: string };
 
 export type SolventOption = { id: string; name: string; medium: "protic" | "dipolar-aprotic" | "nonpolar"; cautions: string };
 export type ProfileOption = { id: string; name: string; validNow: boolean; approved: boolean };
 export type TemplateOption = { id: string; name: string; regions: { shape: Shape; x: number; y: number; w: number; h: number; role: Role; label: string }[] };
 export type PatchOption = { label: string; lab: [number, number, number] };
+export type CheckStandardOption = { id: string; name: string; kind: "vial" | "tile"; lab: [number, number, number]; whitePoint: "D65" | "D50" };
 export type PanelOption = { id: string; name: string; entries: { solventId: string; acidBase: "acid" | "neutral" | "base"; ph: number | null; concentrationUmolL?: number | null; additive: string; additiveConcentrationMolL: number | null; temperatureC: number | null; pathLengthMm: number | null; secondSolventId: string | null; secondSolventMoleFraction: number | null }[] };
 
 const MEDIUM_LABEL = { protic: "protic", "dipolar-aprotic": "dipolar aprotic", nonpolar: "non-polar" } as const;
 const ZOOMS = [0.5, 0.75, 1, 1.5, 2, 3, 4];
-const FLAG_TEXT: Record<string, string> = {
-  "too-few-pixels": "too few pixels",
-  "much-rejected": "many pixels rejected (glare, label or edge)",
-  "non-uniform": "not one colour (meniscus, bubbles, gradient)",
-  "near-clipping": "near the camera's limit",
-  "out-of-srgb-gamut": "outside sRGB (screen colour approximate)",
-  uncorrected: "no light correction (no profile, no reference)",
-  "reference-drift": "the light differs from the profile",
-  "profile-not-valid-then": "profile not valid on the photo's date",
-  "disagrees-with-replicates": "far from the earlier accepted colours of this dye and condition",
-  "lightness-above-100": "L* above 100: lighter than the reference white",
-};
 
 let serial = 0;
 const newKey = () => `m${Date.now().toString(36)}${(serial++).toString(36)}`;
 const fmt = (v: number, d = 1) => (Number.isFinite(v) ? v.toFixed(d) : "—");
-/** Short names for the flags column; the full sentence is in FLAG_TEXT, shown under the row. */
-const FLAG_SHORT: Record<string, string> = {
-  "too-few-pixels": "few pixels",
-  "much-rejected": "rejected px",
-  "non-uniform": "not uniform",
-  "near-clipping": "near limit",
-  "out-of-srgb-gamut": "outside sRGB",
-  uncorrected: "uncorrected",
-  "reference-drift": "light drift",
-  "profile-not-valid-then": "profile date",
-  "disagrees-with-replicates": "≠ replicates",
-  "lightness-above-100": "L* > 100",
-};
 const parseNum = (s: string): number | null => (s.trim() === "" ? null : Number(s.replace(",", ".")));
 const numText = (v: number | null) => (v === null ? "" : String(v));
 /** Shown to two decimals; the stored value stays exact (refExact) until the person edits the field. */
@@ -100,6 +85,7 @@ export function MarkingEditor(props: {
   templates: TemplateOption[];
   patches: PatchOption[];
   panels: PanelOption[];
+  checkStandards: CheckStandardOption[];
 }) {
   const { photo } = props;
   const W = photo.width;
@@ -120,7 +106,9 @@ export function MarkingEditor(props: {
   const [panelName, setPanelName] = useState("");
   const [sameDye, setSameDye] = useState("");
   const [openRow, setOpenRow] = useState<string | null>(null);
-  const [replicates, setReplicates] = useState<Record<string, Replicate>>({});
+  // The last replicate check and the vials' inputs it answered; shown until the next answer, but saving waits for a current one.
+  const [replicateCheck, setReplicateCheck] = useState<{ forKey: string | null; vials: Record<string, Replicate> }>({ forKey: null, vials: {} });
+  const replicates = replicateCheck.vials;
   const svgRef = useRef<SVGSVGElement>(null);
   const wrapRef = useRef<HTMLDivElement>(null);
   // At 100 % the whole photo fits the space beside the region list (and 72 % of the window's height).
@@ -148,6 +136,7 @@ export function MarkingEditor(props: {
   const handle = 18 / scale;
   const vials = marks.filter((m) => m.role === "vial");
   const refs = marks.filter((m) => m.role === "reference");
+  const checks = marks.filter((m) => m.role === "check");
   const sel = marks.find((m) => m.key === selected) ?? null;
 
   const update = (key: string, patch: Partial<Mark>) => setMarks((all) => all.map((m) => (m.key === key ? { ...m, ...patch } : m)));
@@ -166,7 +155,7 @@ export function MarkingEditor(props: {
       role,
       shape,
       ...clampBox(box),
-      label: role === "vial" ? `Vial ${sameRole + 1}` : `Reference ${sameRole + 1}`,
+      label: `${ROLE_NAME[role]} ${sameRole + 1}`,
       dyeId: sameDye || base?.dyeId || "",
       ...(from ? conditionOf(from) : { ...NEUTRAL, acidBase: base?.acidBase ?? "neutral", ph: base?.ph ?? "", conc: base?.conc ?? "" }),
       flagReason: "",
@@ -174,6 +163,7 @@ export function MarkingEditor(props: {
       refA: from?.refA ?? "",
       refB: from?.refB ?? "",
       refExact: from?.refExact ?? null,
+      standardId: from?.standardId ?? "",
     };
   }
 
@@ -276,7 +266,7 @@ export function MarkingEditor(props: {
         stopped = true;
         break;
       }
-      const m = { ...addMark(box, from.role, from.shape, cur), label: `${from.role === "vial" ? "Vial" : "Reference"} ${marks.filter((x) => x.role === from.role).length + made.length + 1}` };
+      const m = { ...addMark(box, from.role, from.shape, cur), label: `${ROLE_NAME[from.role]} ${marks.filter((x) => x.role === from.role).length + made.length + 1}` };
       made.push(m);
       cur = m;
     }
@@ -303,7 +293,7 @@ export function MarkingEditor(props: {
     let vi = 0;
     const made = t.regions.map((r) => {
       const m = addMark({ x: r.x * W, y: r.y * H, w: r.w * W, h: r.h * H }, r.role, r.shape, r.role === "vial" ? first : undefined);
-      return { ...m, label: r.label || (r.role === "vial" ? `Vial ${++vi}` : "Reference") };
+      return { ...m, label: r.label || (r.role === "vial" ? `Vial ${++vi}` : ROLE_NAME[r.role]) };
     });
     setMarks(made);
     setSelected(made[0]?.key ?? null);
@@ -335,7 +325,7 @@ export function MarkingEditor(props: {
       setSelected(null);
     } else if (e.key === "d") duplicateAlongRack(1);
     else if (e.key === "e") update(sel.key, { shape: sel.shape === "rect" ? "ellipse" : "rect" });
-    else if (e.key === "r") update(sel.key, { role: sel.role === "vial" ? "reference" : "vial" });
+    else if (e.key === "r") update(sel.key, { role: sel.role === "vial" ? "reference" : sel.role === "reference" && props.checkStandards.length > 0 ? "check" : "vial" });
     else if (e.key === "Escape") setSelected(null);
   };
 
@@ -346,11 +336,14 @@ export function MarkingEditor(props: {
   const refInputs = refs
     .map((r) => ({ key: r.key, lab: refLab(r), region: { shape: r.shape, x: r.x, y: r.y, w: r.w, h: r.h }, label: r.label }))
     .filter((r) => r.lab.every((v) => v !== null && Number.isFinite(v)));
-  const geometry = JSON.stringify([profileId, vials.map((m) => [m.key, m.shape, m.x, m.y, m.w, m.h]), refInputs]);
+  // Check standards are measured like vials, through the same correction.
+  const measured = [...vials, ...checks];
+  const geometry = JSON.stringify([profileId, measured.map((m) => [m.key, m.shape, m.x, m.y, m.w, m.h]), refInputs]);
 
   useEffect(() => {
-    if (vials.length === 0 && refInputs.length === 0) {
-      setLive({ vials: {}, references: {}, photoFlags: [], busy: false });
+    const forKey = geometry;
+    if (measured.length === 0 && refInputs.length === 0) {
+      setLive({ vials: {}, references: {}, photoFlags: [], busy: false, forKey });
       return;
     }
     const controller = new AbortController();
@@ -364,12 +357,12 @@ export function MarkingEditor(props: {
           body: JSON.stringify({
             lightingProfileId: profileId || null,
             references: refInputs.map((r) => ({ region: r.region, lab: r.lab, label: r.label })),
-            vials: vials.map((m) => ({ key: m.key, region: { shape: m.shape, x: m.x, y: m.y, w: m.w, h: m.h } })),
+            vials: measured.map((m) => ({ key: m.key, region: { shape: m.shape, x: m.x, y: m.y, w: m.w, h: m.h } })),
           }),
         });
         const body = await res.json();
         if (!res.ok) {
-          setLive({ vials: {}, references: {}, photoFlags: [], busy: false, error: body.error?.message ?? `The server answered ${res.status}.` });
+          setLive({ vials: {}, references: {}, photoFlags: [], busy: false, error: body.error?.message ?? `The server answered ${res.status}.`, forKey });
           return;
         }
         const refMap: Record<string, RefResult> = {};
@@ -380,9 +373,10 @@ export function MarkingEditor(props: {
           photoFlags: body.photoFlags,
           correction: body.correction.kind,
           busy: false,
+          forKey,
         });
       } catch (error) {
-        if ((error as Error).name !== "AbortError") setLive((l) => ({ ...l, busy: false, error: "Could not reach the server to measure; check the connection." }));
+        if ((error as Error).name !== "AbortError") setLive((l) => ({ ...l, busy: false, error: "Could not reach the server to measure; check the connection.", forKey }));
       }
     }, 300);
     return () => {
@@ -413,19 +407,21 @@ export function MarkingEditor(props: {
   const replicateKey = JSON.stringify(replicateInputs);
 
   useEffect(() => {
+    const forKey = replicateKey;
     if (replicateInputs.length === 0) {
-      setReplicates({});
+      setReplicateCheck({ forKey, vials: {} });
       return;
     }
     const controller = new AbortController();
     const timer = setTimeout(async () => {
       try {
         const res = await fetch("/api/bench/replicates", { method: "POST", headers: { "content-type": "application/json" }, signal: controller.signal, body: JSON.stringify({ vials: replicateInputs }) });
-        if (!res.ok) return; // The check is advisory while marking; saving runs it again and refuses what it must.
-        const body = (await res.json()) as { vials: ({ key: string } & Replicate)[] };
-        setReplicates(Object.fromEntries(body.vials.map((v) => [v.key, v])));
-      } catch {
-        /* aborted or offline: the save runs the check again */
+        // The check is advisory while marking (saving runs it again and refuses what it must): a refusal settles it with no flags.
+        const body = res.ok ? ((await res.json()) as { vials: ({ key: string } & Replicate)[] }) : { vials: [] };
+        setReplicateCheck({ forKey, vials: Object.fromEntries(body.vials.map((v) => [v.key, v])) });
+      } catch (error) {
+        // Offline: settled with no flags; the save runs the check again. Aborted: a newer check follows.
+        if ((error as Error).name !== "AbortError") setReplicateCheck({ forKey, vials: {} });
       }
     }, 250);
     return () => {
@@ -511,12 +507,22 @@ export function MarkingEditor(props: {
     if (r && !r.ok) problems.push(`${v.label}: ${r.error}`);
     if (r?.ok && flagsOf(v).length > 0 && !v.flagReason.trim()) problems.push(`${v.label} is flagged; say why it should be kept, or re-mark it.`);
   }
-  const measuredAll = vials.every((v) => live.vials[v.key]?.ok) && !live.busy;
+  // Saving waits until the colours and the replicate flags shown belong to the regions and inputs as they are now:
+  // a stale answer (debounce pending, request in flight) could hide a flag that needs its reason.
+  const measuring = live.busy || live.forKey !== geometry;
+  const checkingReplicates = replicateCheck.forKey !== replicateKey;
+  for (const c of checks) {
+    if (!c.standardId) problems.push(`${c.label} needs its registered check standard, or remove it.`);
+    const r = live.vials[c.key];
+    if (r && !r.ok) problems.push(`${c.label}: ${r.error}`);
+  }
+  const measuredAll = measured.every((v) => live.vials[v.key]?.ok) && !measuring && !checkingReplicates;
 
   const payload = JSON.stringify({
     photoId: photo.id,
     lightingProfileId: profileId || null,
     references: refInputs.map((r) => ({ region: r.region, lab: r.lab, label: r.label })),
+    checkStandards: checks.map((c) => ({ region: { shape: c.shape, x: c.x, y: c.y, w: c.w, h: c.h }, standardId: c.standardId })),
     vials: vials.map((v) => ({
       region: { shape: v.shape, x: v.x, y: v.y, w: v.w, h: v.h },
       dyeId: v.dyeId,
@@ -589,14 +595,15 @@ export function MarkingEditor(props: {
   // ------------------------------------------------------------ render
 
   return (
-    <div className="space-y-3">
+    <div className="space-y-3" data-testid="marking-editor" data-busy={measuring || checkingReplicates ? "true" : "false"}>
       <p className="rounded-lg border border-line bg-white p-4 text-sm md:hidden" data-testid="editor-needs-width">
         Marking a rack needs a screen at least 768 px wide: each vial&apos;s region is drawn on the photo and checked against its row in the table beside it, and on a phone the regions
         are too small to place within a few pixels. Open this page on a tablet or a computer; the review queue and the measurements work on a phone.
       </p>
       <div className="hidden space-y-3 md:block">
         <SafetyNotice solvents={inUse} />
-        <div className="grid items-start gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
+        {/* From 1280 px the table column keeps the 46rem its fixed columns need; the photo takes the rest. */}
+        <div className="grid items-start gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)] xl:grid-cols-[minmax(0,1fr)_minmax(46rem,1.6fr)]">
           {/* The photo column stays in view while the table beside it scrolls. */}
           <div className="space-y-2 lg:sticky lg:top-20" data-testid="photo-column">
             <div className="flex flex-wrap items-end gap-2 rounded-lg border border-line bg-white p-2">
@@ -617,9 +624,17 @@ export function MarkingEditor(props: {
               </div>
               <fieldset className="flex items-center gap-1">
                 <legend className={SMALL_LABEL}>New region</legend>
-                {(["vial", "reference"] as const).map((r) => (
-                  <button key={r} type="button" aria-pressed={newRole === r} onClick={() => setNewRole(r)} className={`${BUTTON} ${newRole === r ? "border-accent bg-accent-soft text-accent" : ""}`}>
-                    {r === "vial" ? "Vial" : "Reference"}
+                {(["vial", "reference", "check"] as const).map((r) => (
+                  <button
+                    key={r}
+                    type="button"
+                    aria-pressed={newRole === r}
+                    onClick={() => setNewRole(r)}
+                    disabled={r === "check" && props.checkStandards.length === 0}
+                    title={r === "check" ? (props.checkStandards.length === 0 ? "No check standard is registered yet; an admin registers them on the Lighting page." : "A vial or tile of known colour, registered on the Lighting page") : undefined}
+                    className={`${BUTTON} ${newRole === r ? "border-accent bg-accent-soft text-accent" : ""}`}
+                  >
+                    {r === "check" ? "Check standard" : ROLE_NAME[r]}
                   </button>
                 ))}
                 {(["rect", "ellipse"] as const).map((s) => (
@@ -654,7 +669,7 @@ export function MarkingEditor(props: {
                   style={{ touchAction: "none" }}
                   tabIndex={0}
                   role="application"
-                  aria-label="Photo: drag on it to mark a region. Arrow keys move the selected region (Shift: 10 px, Alt: resize); D duplicates it along the rack; E switches rectangle/ellipse; R switches vial/reference; N and P select the next or previous region; Delete removes it; + and − zoom."
+                  aria-label="Photo: drag on it to mark a region. Arrow keys move the selected region (Shift: 10 px, Alt: resize); D duplicates it along the rack; E switches rectangle/ellipse; R switches vial/reference/check standard; N and P select the next or previous region; Delete removes it; + and − zoom."
                   onPointerDown={onPointerDown}
                   onPointerMove={onPointerMove}
                   onPointerUp={onPointerUp}
@@ -664,8 +679,8 @@ export function MarkingEditor(props: {
                   {marks.map((m) => {
                     const isSel = m.key === selected;
                     const flagged = m.role === "vial" && flagsOf(m).length > 0;
-                    const colour = m.role === "reference" ? "#ffffff" : flagged ? "#f59e0b" : "#5eead4";
-                    const common = { "data-key": m.key, fill: isSel ? "rgba(255,255,255,0.12)" : "rgba(255,255,255,0.02)", stroke: colour, strokeWidth: isSel ? 3 : 2, vectorEffect: "non-scaling-stroke" as const, strokeDasharray: m.role === "reference" ? "6 4" : undefined, className: "cursor-move" };
+                    const colour = m.role === "reference" ? "#ffffff" : m.role === "check" ? "#c4b5fd" : flagged ? "#f59e0b" : "#5eead4";
+                    const common = { "data-key": m.key, fill: isSel ? "rgba(255,255,255,0.12)" : "rgba(255,255,255,0.02)", stroke: colour, strokeWidth: isSel ? 3 : 2, vectorEffect: "non-scaling-stroke" as const, strokeDasharray: m.role === "reference" ? "6 4" : m.role === "check" ? "2 3" : undefined, className: "cursor-move" };
                     // Labels sit above the region, or inside it when the region touches the photo's top edge;
                     // near the right edge they end at the region's right side, so none is cut off.
                     const fontSize = 13 / scale;
@@ -749,7 +764,7 @@ export function MarkingEditor(props: {
             )}
             <p className="text-xs text-ink-soft">
               {W}×{H} px after EXIF orientation. Drag on the photo to mark; drag a region to move it, a corner to resize. With the photo focused: arrows move (Shift ×10, Alt
-              resizes), D duplicates along the rack, E ellipse/rectangle, R vial/reference, N/P next/previous, Delete removes, +/− zoom. Swatches are screen approximations; the numbers
+              resizes), D duplicates along the rack, E ellipse/rectangle, R vial/reference/check, N/P next/previous, Delete removes, +/− zoom. Swatches are screen approximations; the numbers
               are the measurement.
             </p>
           </div>
@@ -789,8 +804,9 @@ export function MarkingEditor(props: {
               <p className="border-b border-line px-3 py-2 text-sm">
                 <strong>
                   {vials.length} vial{vials.length === 1 ? "" : "s"}, {refs.length} reference{refs.length === 1 ? "" : "s"}
+                  {checks.length > 0 ? `, ${checks.length} check standard${checks.length === 1 ? "" : "s"}` : ""}
                 </strong>
-                {live.busy ? " · measuring…" : ""} ·{" "}
+                {measuring ? " · measuring…" : checkingReplicates ? " · checking replicates…" : ""} ·{" "}
                 <span className="text-ink-soft">
                   {live.correction === "none" || !live.correction
                     ? "No light correction: choose a profile or mark a white/grey reference of known Lab."
@@ -808,17 +824,18 @@ export function MarkingEditor(props: {
                 )}
               </p>
               <div className="overflow-x-auto">
-                <table className="w-full min-w-[42rem] text-sm" data-testid="rack-table">
+                <table className="w-full min-w-[46rem] table-fixed text-sm" data-testid="rack-table">
                   <caption className="sr-only">One row per vial, left to right: its region, dye, solvent, condition, measured colour, uncertainty and flags.</caption>
                   <thead className="bg-paper/60 text-left text-xs text-ink-soft">
                     <tr>
-                      <th scope="col" className="px-2 py-1.5">Vial</th>
+                      {/* Fixed widths for the short columns; dye and solvent share what is left. */}
+                      <th scope="col" className="w-[4.5rem] px-2 py-1.5">Vial</th>
                       <th scope="col" className="px-2 py-1.5">Dye</th>
                       <th scope="col" className="px-2 py-1.5">Solvent</th>
-                      <th scope="col" className="px-2 py-1.5">Condition</th>
-                      <th scope="col" className="px-2 py-1.5">Colour (CIELAB D65)</th>
-                      <th scope="col" className="px-2 py-1.5">± ΔE00</th>
-                      <th scope="col" className="px-2 py-1.5">Flags</th>
+                      <th scope="col" className="w-[6.5rem] px-2 py-1.5">Condition</th>
+                      <th scope="col" className="w-[7rem] px-2 py-1.5">Colour (CIELAB D65)</th>
+                      <th scope="col" className="w-16 whitespace-nowrap px-2 py-1.5">± ΔE00</th>
+                      <th scope="col" className="w-[7.5rem] px-2 py-1.5">Flags</th>
                     </tr>
                   </thead>
                   {orderedVials.length === 0 && (
@@ -851,11 +868,11 @@ export function MarkingEditor(props: {
                               remove
                             </button>
                           </td>
-                          <td className="min-w-40 px-2 py-1.5">
+                          <td className="px-2 py-1.5">
                             <DyePicker dyes={props.dyes} value={m.dyeId} onChange={(id) => update(m.key, { dyeId: id })} label={`Dye in ${m.label}`} hideLabel />
                             {fieldErr(vi, "dyeId") && <p className="text-xs text-bad">{fieldErr(vi, "dyeId")}</p>}
                           </td>
-                          <td className="min-w-40 px-2 py-1.5">
+                          <td className="px-2 py-1.5">
                             <select aria-label={`Solvent in ${m.label}`} value={m.solventId} onChange={(e) => update(m.key, { solventId: e.target.value })} className={INPUT}>
                               {solventOptions("Choose the solvent")}
                             </select>
@@ -874,11 +891,13 @@ export function MarkingEditor(props: {
                           <td className="px-2 py-1.5" data-testid="live-colour">
                             {r?.ok ? (
                               <div className="flex items-start gap-1.5">
-                                <span role="img" aria-label={`Measured colour of ${m.label} (screen approximation)`} className="h-8 w-8 shrink-0 rounded border border-black/10" style={{ backgroundColor: r.colour.hex }} />
+                                <span role="img" aria-label={`Measured colour of ${m.label} (screen approximation)`} className="h-6 w-6 shrink-0 rounded border border-black/10" style={{ backgroundColor: r.colour.hex }} />
                                 <span className="whitespace-nowrap text-xs leading-4 tabular-nums" data-testid="live-lab" title={`C* ${fmt(r.colour.lch[1])} h° ${fmt(r.colour.lch[2], 0)} · ${r.colour.pixels} px, ${r.colour.rejected} rejected`}>
                                   L* {fmt(r.colour.lab[0])}
                                   <br />
-                                  a* {fmt(r.colour.lab[1])} b* {fmt(r.colour.lab[2])}
+                                  a* {fmt(r.colour.lab[1])}
+                                  <br />
+                                  b* {fmt(r.colour.lab[2])}
                                 </span>
                               </div>
                             ) : r ? (
@@ -894,13 +913,7 @@ export function MarkingEditor(props: {
                             {flags.length === 0 ? (
                               <span className="text-xs text-ink-soft">{r?.ok ? "none" : ""}</span>
                             ) : (
-                              <ul className="flex flex-wrap gap-0.5" aria-label={`Quality flags of ${m.label}`}>
-                                {flags.map((f) => (
-                                  <li key={f} title={FLAG_TEXT[f] ?? f} className="whitespace-nowrap rounded bg-amber-50 px-1 text-xs font-medium text-warn" data-testid="vial-flag" data-flag={f}>
-                                    ⚠ {FLAG_SHORT[f] ?? f}
-                                  </li>
-                                ))}
-                              </ul>
+                              <FlagBadges flags={flags} size="short" label={`Quality flags of ${m.label}`} />
                             )}
                           </td>
                         </tr>
@@ -955,7 +968,7 @@ export function MarkingEditor(props: {
                         {(flags.length > 0 || (rep && rep.earlier.length > 0)) && (
                           <tr>
                             <td colSpan={7} className="px-2 pb-2">
-                              {flags.length > 0 && <p className="text-xs text-warn">{m.label}: {flags.map((f) => FLAG_TEXT[f] ?? f).join("; ")}.</p>}
+                              {flags.length > 0 && <p className="text-xs text-warn">{m.label}: {flags.map((f) => flagWords(f).long).join("; ")}.</p>}
                               {rep && rep.earlier.length > 0 && (
                                 <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs" data-testid="replicate-check">
                                   <span className={rep.verdict?.disagrees ? "font-semibold text-warn" : "text-ink-soft"}>
@@ -986,6 +999,49 @@ export function MarkingEditor(props: {
                 </table>
               </div>
             </div>
+
+            {checks.length > 0 && (
+              <section aria-label="Check standards" className="space-y-2 rounded-lg border border-line bg-white p-3">
+                <h2 className="text-sm font-semibold">Check standards: sealed vials or tiles of known colour, registered on the Lighting page</h2>
+                <p className="text-xs text-ink-soft">
+                  Measured through the same correction as the vials; on saving, each one&apos;s ΔE00 to its known value is added to the lighting profile&apos;s check history (the lab&apos;s real accuracy).
+                </p>
+                {checks.map((m) => {
+                  const standard = props.checkStandards.find((c) => c.id === m.standardId);
+                  const r = live.vials[m.key];
+                  // Compared under the standard's own white point, as the save records it (db/queries/lighting.ts).
+                  const seen = r?.ok && standard ? (standard.whitePoint === "D50" ? labD65ToLabD50(r.colour.lab as Lab) : (r.colour.lab as Lab)) : null;
+                  return (
+                    <div key={m.key} data-testid="check-card" data-label={m.label} onFocusCapture={() => setSelected(m.key)} className="grid items-end gap-2 border-t border-line pt-2 sm:grid-cols-[auto_1fr_auto]">
+                      <p className="text-sm font-semibold">{m.label}</p>
+                      <div>
+                        <label htmlFor={`standard-${m.key}`} className={SMALL_LABEL}>
+                          Check standard in {m.label}
+                        </label>
+                        <select id={`standard-${m.key}`} value={m.standardId} onChange={(e) => update(m.key, { standardId: e.target.value })} className={INPUT}>
+                          <option value="">Choose the registered standard</option>
+                          {props.checkStandards.map((c) => (
+                            <option key={c.id} value={c.id}>
+                              {c.name} ({c.kind}; L* {fmt(c.lab[0], 2)}, a* {fmt(c.lab[1], 2)}, b* {fmt(c.lab[2], 2)}, {c.whitePoint})
+                            </option>
+                          ))}
+                        </select>
+                      </div>
+                      <button type="button" aria-label={`Remove ${m.label}`} onClick={() => setMarks((all) => all.filter((x) => x.key !== m.key))} className={`${BUTTON} text-bad`}>
+                        ✕
+                      </button>
+                      {r && !r.ok && <p className="text-xs text-bad sm:col-span-3">{r.error}</p>}
+                      {seen && standard && (
+                        <p className="text-xs text-ink-soft sm:col-span-3" data-testid="check-result">
+                          Measured (CIELAB {standard.whitePoint}): L* {fmt(seen[0], 2)} a* {fmt(seen[1], 2)} b* {fmt(seen[2], 2)} · ΔE00 {fmt(deltaE00(seen, standard.lab), 2)} to its known value
+                          {r?.ok && r.colour.uncertainty ? ` (measurement ± ${fmt(r.colour.uncertainty.uDeltaE00, 2)} ΔE00)` : ""}
+                        </p>
+                      )}
+                    </div>
+                  );
+                })}
+              </section>
+            )}
 
             {refs.length > 0 && (
               <section aria-label="References" className="space-y-2 rounded-lg border border-line bg-white p-3">
@@ -1032,7 +1088,7 @@ export function MarkingEditor(props: {
                       {ref && (
                         <p className="text-xs text-ink-soft sm:col-span-5" data-testid="reference-result">
                           Seen through the profile: L* {fmt(ref.profileLab[0])} a* {fmt(ref.profileLab[1])} b* {fmt(ref.profileLab[2])} (ΔE00 {fmt(ref.driftDeltaE00, 2)} from its known value)
-                          {ref.flags.length ? ` · ${ref.flags.map((f) => FLAG_TEXT[f] ?? f).join(", ")}` : ""}
+                          {ref.flags.length ? ` · ${ref.flags.map((f) => flagWords(f).long).join(", ")}` : ""}
                         </p>
                       )}
                     </div>

@@ -3,8 +3,8 @@
 import { useActionState, useState } from "react";
 import { importCsvAction } from "@/app/actions/imports";
 import { DYE_COLUMNS, MEASUREMENT_COLUMNS } from "@/lib/import/columns";
+import { CsvFileField, ImportReport, type ImportSummary as Summary } from "./import-report";
 
-type Summary = { rows: number; good: number; problems: { line: number; column: string; message: string }[]; moreProblems: number; preview: Record<string, unknown>[]; imported?: number };
 
 /** Choose a CSV, see every row checked (problems by line and column), then import all of it or only its good rows. */
 export function CsvImport() {
@@ -32,23 +32,12 @@ export function CsvImport() {
             ? "code, name and class are needed; synonyms separated by semicolons."
             : "dye (code), solvent (name or synonym), L, a, b, white_point (D65 or D50) and instrument are needed; observer is the CIE 1931 2° one (write 2); D50 colours are adapted to D65 (Bradford). Imported colours wait for review."}
         </p>
-        <div>
-          <label htmlFor="csv-file" className="block text-sm font-semibold">
-            CSV file
-          </label>
-          <input
-            id="csv-file"
-            type="file"
-            accept=".csv,text/csv"
-            data-testid="csv-file"
-            onChange={async (e) => {
-              const f = e.target.files?.[0];
-              setFileName(f?.name ?? "");
-              setCsv(f ? await f.text() : "");
-            }}
-            className="mt-1 block text-sm"
-          />
-        </div>
+        <CsvFileField
+          onLoad={(name, text) => {
+            setFileName(name);
+            setCsv(text);
+          }}
+        />
         <input type="hidden" name="csv" value={csv} />
         <div className="flex flex-wrap gap-2">
           <button name="mode" value="preview" disabled={pending || !csv} className="min-h-11 rounded-md border border-line bg-white px-4 text-sm font-semibold disabled:opacity-40">
@@ -74,59 +63,7 @@ export function CsvImport() {
           </p>
         )}
       </form>
-      {summary && summary.problems.length > 0 && (
-        <section aria-label="Problems by line" className="rounded-lg border border-bad/40 bg-white p-4">
-          <h2 className="mb-2 text-sm font-semibold text-bad">Problems ({summary.problems.length + summary.moreProblems})</h2>
-          <table className="w-full text-left text-sm" data-testid="import-problems">
-            <thead className="text-xs text-ink-soft">
-              <tr>
-                <th className="py-1 pr-3">Line</th>
-                <th className="py-1 pr-3">Column</th>
-                <th className="py-1">Problem</th>
-              </tr>
-            </thead>
-            <tbody>
-              {summary.problems.map((p, i) => (
-                <tr key={i} className="border-t border-line align-top" data-testid="import-problem">
-                  <td className="py-1 pr-3 tabular-nums">{p.line}</td>
-                  <td className="py-1 pr-3 font-mono text-xs">{p.column}</td>
-                  <td className="py-1">{p.message}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-          {summary.moreProblems > 0 && <p className="mt-1 text-xs text-ink-soft">and {summary.moreProblems} more; fix these first.</p>}
-        </section>
-      )}
-      {summary && summary.preview.length > 0 && (
-        <section aria-label="Preview of the good rows" className="overflow-x-auto rounded-lg border border-line bg-white p-4">
-          <h2 className="mb-2 text-sm font-semibold">
-            {summary.imported !== undefined ? "Imported" : "Good rows"} (first {summary.preview.length}){kind === "measurements" ? ": CIELAB D65 as stored" : ""}
-          </h2>
-          <table className="w-full text-left text-xs">
-            <thead className="text-ink-soft">
-              <tr>
-                {Object.keys(summary.preview[0]).map((k) => (
-                  <th key={k} className="py-1 pr-3">
-                    {k}
-                  </th>
-                ))}
-              </tr>
-            </thead>
-            <tbody>
-              {summary.preview.map((row, i) => (
-                <tr key={i} className="border-t border-line">
-                  {Object.values(row).map((v, j) => (
-                    <td key={j} className="py-1 pr-3 font-mono">
-                      {typeof v === "object" ? JSON.stringify(v) : String(v ?? "—")}
-                    </td>
-                  ))}
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </section>
-      )}
+      {summary && <ImportReport summary={summary} previewTitle={`${summary.imported !== undefined ? "Imported" : "Good rows"} (first ${summary.preview.length})${kind === "measurements" ? ": CIELAB D65 as stored" : ""}`} />}
     </div>
   );
 }

@@ -3,6 +3,7 @@
 import { usePathname, useRouter } from "next/navigation";
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import { useMemo, useTransition } from "react";
+import { FlagBadges } from "@/components/bench/flag-badges";
 
 export type TableRow = {
   id: string;
@@ -61,7 +62,7 @@ const columns = [
   col.accessor("h", { header: "hab (°)", cell: (c) => num(c.getValue(), 0) }),
   col.accessor("uDeltaE00", { header: "± ΔE00", cell: (c) => (c.getValue() === null || c.getValue() === undefined ? "not recorded" : `± ${num(c.getValue()!, 1)}`) }),
   col.accessor("profile", { header: "Profile", cell: (c) => c.getValue() ?? "none" }),
-  col.accessor("flags", { header: "Flags", cell: (c) => (c.getValue().length ? c.getValue().join(", ") : "—") }),
+  col.accessor("flags", { header: "Flags", cell: (c) => (c.getValue().length ? <FlagBadges flags={c.getValue()} size="short" /> : "—") }),
   col.accessor("state", { header: "State" }),
   col.accessor("measuredAt", { header: "Measured (UTC)", cell: (c) => c.getValue().slice(0, 16).replace("T", " ") }),
   col.accessor("author", { header: "By" }),

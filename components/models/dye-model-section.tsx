@@ -38,6 +38,23 @@ function rowOf(fit: ScaleFit, s: ModelSolvent): number[] | null {
   return values.every((v) => v !== null) ? (values as number[]) : null;
 }
 
+/** Each solvent's band position from its colour and from its spectra, and which of them the chosen fit used. */
+function bandPositionRows(model: DyeModel, inFit: Set<string>, source: "spectrum" | "colour" | null) {
+  const rows = new Map<string, { solventId: string; solvent: string; colour: number | null; spectrum: { value: number; n: number } | null; inFit: string | null }>();
+  for (const p of model.points) rows.set(p.solventId, { solventId: p.solventId, solvent: p.solvent, colour: p.used ? p.wavenumberCm1 : null, spectrum: null, inFit: null });
+  for (const s of model.spectra) {
+    const r = rows.get(s.solventId) ?? { solventId: s.solventId, solvent: s.solvent, colour: null, spectrum: null, inFit: null };
+    r.spectrum = { value: s.wavenumberCm1, n: s.spectra };
+    rows.set(s.solventId, r);
+  }
+  for (const r of rows.values()) {
+    if (!inFit.has(r.solvent) || !source) continue;
+    if (source === "spectrum" && r.spectrum) r.inFit = "spectrum";
+    if (source === "colour" && r.colour !== null) r.inFit = "colour";
+  }
+  return [...rows.values()].sort((p, q) => p.solvent.localeCompare(q.solvent));
+}
+
 /**
  * The dye page's solvent-model section: what drives the colour (one sentence, coefficients ± SE, the fits
  * side by side with their leave-one-out errors), the chart of ν̃ against the scale, and the colour strip with
@@ -67,9 +84,20 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
       })
     : [];
   const routes = [
-    ...model.scales.map((s) => ({ key: `band-${s.model}`, label: `Band position on ${MODEL_LABELS[s.model]}`, loo: s.looDeltaE00, r2: s.fit?.r2 ?? null, refusal: s.refusal, chosen: model.chosen!.route === "band" && model.chosen!.model === s.model })),
-    { key: "cielab", label: `L*, a*, b* directly on ${MODEL_LABELS[model.direct.model]} (baseline)`, loo: model.direct.looDeltaE00, r2: null, refusal: model.direct.refusal, chosen: model.chosen.route === "cielab" },
+    ...model.scales.map((s) => ({
+      key: `band-${s.model}`,
+      label: `Band position on ${MODEL_LABELS[s.model]}`,
+      source: s.source === "spectrum" ? "spectra (ν̃max)" : "colours (apparent band)",
+      sourceNote: s.sourceNote,
+      loo: s.looDeltaE00,
+      r2: s.fit?.r2 ?? null,
+      refusal: s.refusal,
+      chosen: model.chosen!.route === "band" && model.chosen!.model === s.model,
+    })),
+    { key: "cielab", label: `L*, a*, b* directly on ${MODEL_LABELS[model.direct.model]} (baseline)`, source: "colours (L*, a*, b*)", sourceNote: "", loo: model.direct.looDeltaE00, r2: null, refusal: model.direct.refusal, chosen: model.chosen.route === "cielab" },
   ];
+  const fromSpectra = chosenScale?.source === "spectrum" && model.chosen.route === "band";
+  const bandRows = bandPositionRows(model, fit ? new Set(fit.solvents) : new Set(), chosenScale?.source ?? null);
   const flagged = model.points.filter((p) => !p.used);
   const strip = [
     ...model.points.map((p) => ({ id: p.solventId, name: p.solvent, beta: byId.get(p.solventId)?.ktBeta ?? null, measured: { lab: p.lab, n: p.replicates } as { lab: Lab; n: number } | null, predicted: null as null | DyeModel["predictions"][number] })),
@@ -85,7 +113,7 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
         </p>
         <div className="mt-3">
           <Notice tone="caution">
-            A model fitted on {usedCount || model.points.length} solvents is a guide, not a guarantee: specific interactions the scales do not describe (and solvents far from the measured ones,
+            A model fitted on {fit?.n ?? (usedCount || model.points.length)} solvents is a guide, not a guarantee: specific interactions the scales do not describe (and solvents far from the measured ones,
             marked “extrapolated”) can move the real colour further than the ± shown. Confirm a predicted colour at the bench before relying on it.
           </Notice>
         </div>
@@ -94,6 +122,7 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
             <thead className="text-xs text-ink-soft">
               <tr>
                 <th className="py-1 pr-3">Route</th>
+                <th className="py-1 pr-3">Band positions from</th>
                 <th className="py-1 pr-3 text-right">Leave-one-out error (mean ΔE00)</th>
                 <th className="py-1 pr-3 text-right">R² (ν̃)</th>
                 <th className="py-1 pr-3">Status</th>
@@ -103,6 +132,10 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
               {routes.map((r) => (
                 <tr key={r.key}>
                   <td className="py-1.5 pr-3">{r.label}</td>
+                  <td className="py-1.5 pr-3" data-testid="route-source">
+                    {r.source}
+                    {r.sourceNote && <span className="block text-xs text-ink-soft">{r.sourceNote}</span>}
+                  </td>
                   <td className="py-1.5 pr-3 text-right tabular-nums">{r.loo === null ? "—" : r.loo.toFixed(2)}</td>
                   <td className="py-1.5 pr-3 text-right tabular-nums">{r.r2 === null ? "—" : r.r2.toFixed(3)}</td>
                   <td className="py-1.5 pr-3">{r.chosen ? <Badge tone="ok">used for predictions</Badge> : r.refusal ? <span className="text-xs text-ink-soft">not fitted: {r.refusal}</span> : <span className="text-xs text-ink-soft">predicts worse</span>}</td>
@@ -114,6 +147,13 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
             Leave-one-out: each solvent’s colour predicted from a fit without it, compared with its measured colour (CIEDE2000, D65). The band route keeps the dye’s shared band width
             ({n0(model.band.fwhmCm1)} cm⁻¹) and strength (peak absorbance {model.band.peakAbsorbance.toFixed(2)}) fixed while leaving a solvent out. Band model: one Gaussian absorption band per colour, CIE 015 colour under D65; its colours match the measured ones to {model.band.rmsDeltaE00.toFixed(2)} ΔE00 (RMS).
           </p>
+          {fromSpectra && chosenScale?.offset && (
+            <p className="mt-1 text-xs text-ink-soft">
+              The chosen fit is on band maxima from spectra. Its predictions reach a colour through the colour band shifted by the apparent-minus-spectral offset measured in the{" "}
+              {chosenScale.offset.solvents} solvents with both: {n0(chosenScale.offset.meanCm1)} ± {n0(chosenScale.offset.sdCm1)} cm⁻¹ (a Gaussian of the same colour sits above the maximum of
+              a skewed band); that spread is part of the ± ΔE00. Its leave-one-out ΔE00 counts only those solvents.
+            </p>
+          )}
           {flagged.length > 0 && (
             <p className="mt-1 text-xs text-ink-soft">
               Left out of the band fits ({flagged.length}): {flagged.map((p) => `${p.solvent} (${p.status === "too-pale" ? "too pale to place a band" : `no single band, ΔE00 ${p.bandDeltaE00.toFixed(1)}`})`).join("; ")}.
@@ -126,7 +166,13 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
               <h3 className="mb-1 text-sm font-semibold">
                 Band position against {MODEL_LABELS[fit.model]} ({fit.n} solvents)
               </h3>
-              <ScaleChart points={points} xLabel={xLabel(fit)} xDecimals={fit.model === "kamlet-taft" ? 0 : fit.model === "et30" ? 1 : 2} predictions={chartPredictions} />
+              <ScaleChart
+                points={points}
+                xLabel={xLabel(fit)}
+                xDecimals={fit.model === "kamlet-taft" ? 0 : fit.model === "et30" ? 1 : 2}
+                predictions={chartPredictions}
+                observedLabel={fromSpectra ? "ν̃max from spectra" : "apparent band from colour"}
+              />
             </div>
             <div>
               <h3 className="mb-1 text-sm font-semibold">Observed against predicted ν̃ (leave-one-out triangles)</h3>
@@ -165,6 +211,31 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
                 Sources: Kamlet, Abboud, Abraham &amp; Taft 1983 (LSER); Reichardt 1994 (ET(30)); Kirkwood–Onsager f(εr); solvent parameters from the <Link href="/solvents" className="underline">solvent table</Link>.
               </p>
             </div>
+          </div>
+        )}
+        {bandRows.length > 0 && (
+          <div className="mt-4 overflow-x-auto">
+            <table className="w-full text-left text-sm" aria-label="Band position per solvent and its source" data-testid="band-sources">
+              <caption className="mb-1 text-left text-sm font-semibold">Band position per solvent, and which one the fit shown above uses</caption>
+              <thead className="text-xs text-ink-soft">
+                <tr>
+                  <th className="py-1 pr-3">Solvent</th>
+                  <th className="py-1 pr-3 text-right">Apparent band from colour (cm⁻¹)</th>
+                  <th className="py-1 pr-3 text-right">ν̃max from spectra (cm⁻¹)</th>
+                  <th className="py-1 pr-3">In the fit shown</th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-line">
+                {bandRows.map((r) => (
+                  <tr key={r.solventId}>
+                    <td className="py-1 pr-3">{r.solvent}</td>
+                    <td className="py-1 pr-3 text-right tabular-nums">{r.colour === null ? "—" : n0(r.colour)}</td>
+                    <td className="py-1 pr-3 text-right tabular-nums">{r.spectrum === null ? "—" : `${n0(r.spectrum.value)}${r.spectrum.n > 1 ? ` (mean of ${r.spectrum.n})` : ""}`}</td>
+                    <td className="py-1 pr-3">{r.inFit ?? "—"}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
           </div>
         )}
       </Card>

@@ -11,7 +11,20 @@ const fmt = (v: number) => Math.round(v).toLocaleString("en-GB");
  * predicted-vs-observed with the leave-one-out points. Filled circles are measured band positions,
  * open triangles the leave-one-out predictions, so the chart reads without colour.
  */
-export function ScaleChart({ points, xLabel, xDecimals, predictions }: { points: ScalePoint[]; xLabel: string; xDecimals: number; predictions?: { solvent: string; x: number; value: number; halfWidth: number }[] }) {
+export function ScaleChart({
+  points,
+  xLabel,
+  xDecimals,
+  predictions,
+  observedLabel = "measured ν̃ (apparent band)",
+}: {
+  points: ScalePoint[];
+  xLabel: string;
+  xDecimals: number;
+  predictions?: { solvent: string; x: number; value: number; halfWidth: number }[];
+  /** What the filled circles are: apparent bands from colours, or band maxima from spectra. */
+  observedLabel?: string;
+}) {
   const slopeLine = [...points].sort((a, b) => a.x - b.x).map((p) => ({ x: p.x, line: p.fitted }));
   return (
     <figure>
@@ -24,7 +37,7 @@ export function ScaleChart({ points, xLabel, xDecimals, predictions }: { points:
             <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
             <Legend verticalAlign="top" height={28} />
             <Line data={slopeLine} dataKey="line" name="fit" stroke="#1d2433" dot={false} strokeWidth={1.5} isAnimationActive={false} />
-            <Scatter data={points.map((p) => ({ x: p.x, y: p.observed, solvent: p.solvent }))} dataKey="y" name="measured ν̃ (apparent band)" fill="#1d2433" shape="circle" isAnimationActive={false} />
+            <Scatter data={points.map((p) => ({ x: p.x, y: p.observed, solvent: p.solvent }))} dataKey="y" name={observedLabel} fill="#1d2433" shape="circle" isAnimationActive={false} />
             <Scatter data={points.map((p) => ({ x: p.x, y: p.loo, solvent: p.solvent }))} dataKey="y" name="leave-one-out prediction" fill="none" stroke="#8a4b00" shape="triangle" isAnimationActive={false} />
             {predictions && predictions.length > 0 && (
               <Scatter data={predictions.map((p) => ({ x: p.x, y: p.value, e: p.halfWidth, solvent: p.solvent }))} dataKey="y" name="predicted (unmeasured solvent, 95 % interval)" fill="#ffffff" stroke="#3b4cc0" shape="diamond" isAnimationActive={false}>

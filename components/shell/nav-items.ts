@@ -25,6 +25,7 @@ export const NAV_GROUPS: NavGroup[] = [
     items: [
       { href: "/catalogue", label: "Catalogue", roles: ALL, hint: "Dyes and their colour response" },
       { href: "/measurements", label: "Measurements", roles: ALL, hint: "Every measured colour: filter, sort, export" },
+      { href: "/acid-base", label: "pH series", roles: ALL, hint: "pH series of indicator dyes and their pKa" },
       { href: "/solvents", label: "Solvents", roles: ALL, hint: "Solvent parameters with sources" },
     ],
   },

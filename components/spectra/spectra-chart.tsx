@@ -5,7 +5,7 @@ import { CartesianGrid, Legend, Line, LineChart, ReferenceLine, ResponsiveContai
 import type { WhitePointName } from "@/lib/color/illuminants";
 import { lambdaMax, spectrumColour } from "@/lib/color/spectrum";
 
-export type ChartSpectrum = { id: string; label: string; points: [number, number][]; concentrationUmolL: number | null; pathLengthMm: number | null };
+export type ChartSpectrum = { id: string; label: string; points: [number, number][]; concentrationUmolL: number | null; pathLengthMm: number | null; /** Where it was measured (instrument, file), shown beside it. */ source?: string };
 
 const PALETTE = ["#3b4a6b", "#b5542f", "#2f7d5b", "#7a3fa0", "#a07a1f", "#1f6fa0"];
 
@@ -87,8 +87,11 @@ export function SpectraChart({ spectra }: { spectra: ChartSpectrum[] }) {
               <td className="py-1 pr-2">
                 <span className="inline-block h-6 w-6 rounded border border-black/10" style={{ backgroundColor: colour.hex }} title={`× ${scale.toFixed(2)} of the measured absorbance`} />
               </td>
-              <td className="py-1 pr-2">{s.label}</td>
-              <td className="py-1 pr-2 text-right tabular-nums">{peak === null ? "no visible band maximum" : peak.toFixed(1)}</td>
+              <td className="py-1 pr-2">
+                {s.label}
+                {s.source && <span className="block text-xs text-ink-soft">{s.source}</span>}
+              </td>
+              <td className="py-1 pr-2 text-right tabular-nums">{peak === null ? "no band in the visible" : peak.toFixed(1)}</td>
               <td className="py-1 pr-2 text-right tabular-nums">{peak === null ? "—" : Math.round(1e7 / peak)}</td>
               <td className="py-1 pr-2 text-right tabular-nums">{colour.transitionEnergyKcalMol === null ? "—" : colour.transitionEnergyKcalMol.toFixed(1)}</td>
               <td className="py-1 pr-2 text-right tabular-nums">{colour.lab.map((v) => v.toFixed(1)).join(", ")}</td>

@@ -1,7 +1,9 @@
 import { Card } from "@/components/ui/card";
-import { spectraForDye } from "@/db/queries/acid-base";
+import { spectraForDye } from "@/db/queries/spectra";
 import type { Db } from "@/db/connection";
 import { SpectraChart } from "./spectra-chart";
+
+const amount = (v: number | null, unit: string) => (v === null ? `unrecorded ${unit === "mm" ? "path" : "concentration"}` : `${v} ${unit}`);
 
 /** The dye page's spectra: overlays across solvents, λmax, colour by Beer–Lambert under a chosen light. */
 export function SpectraSection({ db, dyeId }: { db: Db; dyeId: string }) {
@@ -13,17 +15,24 @@ export function SpectraSection({ db, dyeId }: { db: Db; dyeId: string }) {
     points: s.points,
     concentrationUmolL: s.concentrationUmolL,
     pathLengthMm: s.pathLengthMm,
+    source: [
+      `${amount(s.concentrationUmolL, "µmol/L")}, ${amount(s.pathLengthMm, "mm")}`,
+      s.instrument || "instrument not recorded",
+      s.originalName ? `file ${s.originalName}${s.wavelengthUnit !== "nm" ? ` (sent in ${s.wavelengthUnit})` : ""}` : null,
+      s.createdAt.toISOString().slice(0, 10),
+    ]
+      .filter(Boolean)
+      .join(" · "),
   }));
-  const measured = list[0];
   return (
     <Card title={`Absorption spectra (${list.length})`} className="lg:col-span-3">
       <SpectraChart spectra={spectra} />
       <p className="mt-3 text-xs text-ink-soft">
-        Measured {measured.concentrationUmolL !== null ? `at ${measured.concentrationUmolL} µmol/L` : "at an unrecorded concentration"}
-        {measured.pathLengthMm !== null ? `, ${measured.pathLengthMm} mm path` : ""} ({measured.instrument || "instrument not recorded"}). λmax is the maximum of the
-        longest-wavelength band in the visible (380–780 nm), the band E_T(30)-type scales use, not the strongest band; E_T = 28591/λmax kcal/mol (Reichardt 1994).
-        Colours: CIE 015 summation at 1 nm, CIE 1931 2° observer, CIELAB relative to the chosen illuminant&apos;s white, absorbance scaled by Beer–Lambert to the
-        concentration × path length given. UV–visible work: shield UV sources and follow your lab&apos;s safety officer and local regulations.
+        Each spectrum as measured, with its concentration, path length and instrument beside it. λmax is the maximum of the longest-wavelength band in the visible (380–780 nm), the
+        band E_T(30)-type scales use, not the strongest band (“no band in the visible” when there is only a rising UV tail); E_T = 28591/λmax kcal/mol (Reichardt 1994). Neutral spectra
+        in neat solvents give the solvent model its band positions ν̃max = 10⁷/λmax cm⁻¹ where there are enough of them. Colours: CIE 015 summation at 1 nm, CIE 1931 2° observer,
+        CIELAB relative to the chosen illuminant&apos;s white, absorbance scaled by Beer–Lambert to the concentration × path length given. UV–visible work: shield UV sources and follow
+        your lab&apos;s safety officer and local regulations.
       </p>
     </Card>
   );

@@ -1,7 +1,7 @@
-import { and, eq, isNotNull } from "drizzle-orm";
+import { and, eq, isNotNull, isNull } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
 import type { Db } from "../connection";
-import { conditions, measurements, solvents, spectra } from "../schema";
+import { conditions, measurements, solvents } from "../schema";
 
 export type PhSeries = {
   solvent: { id: string; name: string; medium: string };
@@ -13,7 +13,7 @@ export type PhSeries = {
 };
 
 /**
- * A dye's pH series: its accepted colours with a recorded pH, one series per solvent (each vial a
+ * A dye's implicit pH series: its accepted colours with a recorded pH, one series per neat solvent (each vial a
  * point; replicates at one pH stay separate vials). Series with fewer than 5 vials are left out.
  */
 export function phSeriesForDye(db: Db, { dyeId }: { dyeId: string }): PhSeries[] {
@@ -22,7 +22,7 @@ export function phSeriesForDye(db: Db, { dyeId }: { dyeId: string }): PhSeries[]
     .from(measurements)
     .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
     .innerJoin(solvents, eq(conditions.solventId, solvents.id))
-    .where(and(eq(measurements.dyeId, dyeId), eq(measurements.reviewState, "accepted"), isNotNull(conditions.ph)))
+    .where(and(eq(measurements.dyeId, dyeId), eq(measurements.reviewState, "accepted"), isNotNull(conditions.ph), isNull(conditions.secondSolventId)))
     .all();
   const bySolvent = new Map<string, PhSeries>();
   for (const { m, condition, solvent } of rows) {
@@ -33,37 +33,4 @@ export function phSeriesForDye(db: Db, { dyeId }: { dyeId: string }): PhSeries[]
     s.vials.push({ pH: condition.ph!, lab: [m.l, m.a, m.b], measurementId: m.id });
   }
   return [...bySolvent.values()].filter((s) => s.vials.length >= 5).map((s) => ({ ...s, vials: s.vials.sort((x, y) => x.pH - y.pH) }));
-}
-
-export type DyeSpectrum = {
-  id: string;
-  solvent: string;
-  acidBase: string;
-  pH: number | null;
-  points: [number, number][];
-  concentrationUmolL: number | null;
-  pathLengthMm: number | null;
-  instrument: string;
-};
-
-/** A dye's stored absorbance spectra with their solvent and condition. */
-export function spectraForDye(db: Db, { dyeId }: { dyeId: string }): DyeSpectrum[] {
-  return db
-    .select({ s: spectra, condition: conditions, solvent: solvents })
-    .from(spectra)
-    .innerJoin(conditions, eq(spectra.conditionId, conditions.id))
-    .innerJoin(solvents, eq(conditions.solventId, solvents.id))
-    .where(eq(spectra.dyeId, dyeId))
-    .all()
-    .map(({ s, condition, solvent }) => ({
-      id: s.id,
-      solvent: solvent.name,
-      acidBase: condition.acidBase,
-      pH: condition.ph,
-      points: s.points,
-      concentrationUmolL: s.concentrationUmolL,
-      pathLengthMm: s.pathLengthMm,
-      instrument: s.instrument,
-    }))
-    .sort((x, y) => x.solvent.localeCompare(y.solvent));
 }

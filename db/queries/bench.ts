@@ -29,7 +29,7 @@ import {
   type TemplateRegion,
 } from "../schema";
 import { recordAudit } from "./audit";
-import { assertBenchProfile } from "./lighting";
+import { assertBenchProfile, recordPhotoChecks } from "./lighting";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
@@ -214,8 +214,8 @@ export type MeasurementToSave = ConditionInput & {
 
 /**
  * Saves the vials of one photo in one transaction: the photo's lighting profile, a condition per vial
- * (reused when identical), one measurement per vial (pending review) and an audit entry for each
- * change. Any failure saves nothing.
+ * (reused when identical), one measurement per vial (pending review), a check reading per check
+ * standard in the photo, and an audit entry for each change. Any failure saves nothing.
  */
 export function saveMeasurements(
   db: Db,
@@ -226,8 +226,10 @@ export function saveMeasurements(
     correction: { kind: CorrectionKind; values: number[] };
     references: ReferenceUsed[];
     vials: MeasurementToSave[];
+    /** Check standards measured in the photo (CIELAB D65 from the same pipeline as the vials). */
+    checks?: { standardId: string; labD65: [number, number, number] }[];
   },
-): string[] {
+): { ids: string[]; checks: { id: string; deltaE00: number }[] } {
   return db.transaction((tx) => {
     const photo = tx.select().from(photos).where(eq(photos.id, input.photoId)).get();
     if (!photo) throw new AppError("not_found", "That photo no longer exists.");
@@ -313,7 +315,8 @@ export function saveMeasurements(
       });
       ids.push(id);
     }
-    return ids;
+    const checks = recordPhotoChecks(tx, { actorId: input.actorId, photoId: photo.id, profileId: input.lightingProfileId, readings: input.checks ?? [] });
+    return { ids, checks };
   });
 }
 
@@ -331,85 +334,98 @@ export function photoMeasurements(db: Db, { photoId }: { photoId: string }) {
     .all();
 }
 
-// ---------------------------------------------------------------- rack layout templates
+// ---------------------------------------------------------------- named bench records: rack layouts and solvent panels
+
+/**
+ * Rack layouts and solvent panels are saved by name and belong to the person who saved them first
+ * (`created_by`): only they or an admin may overwrite or delete one. Everyone on the bench may apply them.
+ */
+const NAMED = {
+  layout: { table: rackTemplates, field: "regions", entity: "rack_template", action: "rack-template", prefix: "rt" },
+  panel: { table: solventPanels, field: "entries", entity: "solvent_panel", action: "solvent-panel", prefix: "sp" },
+} as const;
+type NamedKind = keyof typeof NAMED;
+type NamedContent = { layout: TemplateRegion[]; panel: PanelEntry[] };
+type Actor = { actorId: string; actorRole: Role };
+// Both tables have id, name, created_by and updated_at; the content column is named per kind (NAMED[kind].field).
+const namedTable = (kind: NamedKind) => NAMED[kind].table as typeof rackTemplates;
+type NamedRow = { id: string; name: string; createdBy: string } & Record<string, unknown>;
+
+function mayChangeNamed(tx: Pick<Db, "select">, kind: NamedKind, existing: NamedRow, { actorId, actorRole }: Actor) {
+  if (existing.createdBy === actorId || actorRole === "admin") return;
+  const owner = tx.select({ name: users.name }).from(users).where(eq(users.id, existing.createdBy)).get()?.name ?? "someone else";
+  throw new AppError("forbidden", `The ${kind} “${existing.name}” belongs to ${owner}; only they or an admin may change or delete it. Save yours under another name.`);
+}
+
+/** Saves a layout or panel under a name, with its audit entry; saved again under the same name by its owner (or an admin), it replaces the old one. */
+function saveNamed<K extends NamedKind>(db: Db, kind: K, { actorId, actorRole, name, content, check }: Actor & { name: string; content: NamedContent[K]; check?: (tx: Tx) => void }): string {
+  const { field, entity, action, prefix } = NAMED[kind];
+  const table = namedTable(kind);
+  return db.transaction((tx) => {
+    check?.(tx);
+    const existing = tx.select().from(table).where(eq(table.name, name)).get() as NamedRow | undefined;
+    if (existing) {
+      mayChangeNamed(tx, kind, existing, { actorId, actorRole });
+      tx.update(table).set({ [field]: content, updatedAt: new Date() }).where(eq(table.id, existing.id)).run();
+      recordAudit(tx, { actorId, action: `${action}.update`, entity, entityId: existing.id, before: { [field]: existing[field] }, after: { [field]: content } });
+      return existing.id;
+    }
+    const id = `${prefix}_${randomUUID()}`;
+    tx.insert(table).values({ id, name, [field]: content, createdBy: actorId } as unknown as typeof rackTemplates.$inferInsert).run();
+    recordAudit(tx, { actorId, action: `${action}.create`, entity, entityId: id, after: { name, [field]: content } });
+    return id;
+  });
+}
+
+/** Deletes a layout or panel (owner or admin only), with its audit entry. */
+function deleteNamed(db: Db, kind: NamedKind, { actorId, actorRole, id }: Actor & { id: string }) {
+  const { field, entity, action } = NAMED[kind];
+  const table = namedTable(kind);
+  db.transaction((tx) => {
+    const existing = tx.select().from(table).where(eq(table.id, id)).get() as NamedRow | undefined;
+    if (!existing) throw new AppError("not_found", `That ${kind} no longer exists.`);
+    mayChangeNamed(tx, kind, existing, { actorId, actorRole });
+    tx.delete(table).where(eq(table.id, id)).run();
+    recordAudit(tx, { actorId, action: `${action}.delete`, entity, entityId: id, before: { name: existing.name, [field]: existing[field] } });
+  });
+}
 
 export function listRackTemplates(db: Db) {
   return db.select().from(rackTemplates).orderBy(rackTemplates.name).all();
 }
 
-/**
- * A layout belongs to the person who saved it first (`created_by`); only they or an admin may
- * overwrite or delete it. Everyone on the bench may apply it.
- */
-function mayChangeTemplate(tx: Pick<Db, "select">, existing: { name: string; createdBy: string }, actor: { id: string; role: Role }) {
-  if (existing.createdBy === actor.id || actor.role === "admin") return;
-  const owner = tx.select({ name: users.name }).from(users).where(eq(users.id, existing.createdBy)).get()?.name ?? "someone else";
-  throw new AppError("forbidden", `The layout “${existing.name}” belongs to ${owner}; only they or an admin may change or delete it. Save yours under another name.`);
+export function saveRackTemplate(db: Db, { actorId, actorRole, name, regions }: Actor & { name: string; regions: TemplateRegion[] }) {
+  return saveNamed(db, "layout", { actorId, actorRole, name, content: regions });
 }
 
-/** Saves a layout under a name; saved again under the same name by its owner (or an admin), it replaces the old one. */
-export function saveRackTemplate(db: Db, { actorId, actorRole, name, regions }: { actorId: string; actorRole: Role; name: string; regions: TemplateRegion[] }) {
-  return db.transaction((tx) => {
-    const existing = tx.select().from(rackTemplates).where(eq(rackTemplates.name, name)).get();
-    if (existing) {
-      mayChangeTemplate(tx, existing, { id: actorId, role: actorRole });
-      tx.update(rackTemplates).set({ regions, updatedAt: new Date() }).where(eq(rackTemplates.id, existing.id)).run();
-      recordAudit(tx, { actorId, action: "rack-template.update", entity: "rack_template", entityId: existing.id, before: { regions: existing.regions }, after: { regions } });
-      return existing.id;
-    }
-    const id = `rt_${randomUUID()}`;
-    tx.insert(rackTemplates).values({ id, name, regions, createdBy: actorId }).run();
-    recordAudit(tx, { actorId, action: "rack-template.create", entity: "rack_template", entityId: id, after: { name, regions } });
-    return id;
-  });
+export function deleteRackTemplate(db: Db, input: Actor & { id: string }) {
+  deleteNamed(db, "layout", input);
 }
-
-export function deleteRackTemplate(db: Db, { actorId, actorRole, id }: { actorId: string; actorRole: Role; id: string }) {
-  db.transaction((tx) => {
-    const existing = tx.select().from(rackTemplates).where(eq(rackTemplates.id, id)).get();
-    if (!existing) throw new AppError("not_found", "That template no longer exists.");
-    mayChangeTemplate(tx, existing, { id: actorId, role: actorRole });
-    tx.delete(rackTemplates).where(eq(rackTemplates.id, id)).run();
-    recordAudit(tx, { actorId, action: "rack-template.delete", entity: "rack_template", entityId: id, before: { name: existing.name, regions: existing.regions } });
-  });
-}
-
-// ---------------------------------------------------------------- solvent panels
 
 export function listSolventPanels(db: Db) {
   return db.select().from(solventPanels).orderBy(solventPanels.name).all();
 }
 
-/** Saves a panel under a name; a panel saved again under the same name replaces the old one. */
-export function saveSolventPanel(db: Db, { actorId, name, entries }: { actorId: string; name: string; entries: PanelEntry[] }) {
-  return db.transaction((tx) => {
-    for (const [i, e] of entries.entries()) {
-      for (const sid of [e.solventId, e.secondSolventId].filter((x): x is string => !!x)) {
-        if (!tx.select({ id: solvents.id }).from(solvents).where(eq(solvents.id, sid)).get()) {
-          throw new AppError("invalid_input", `Place ${i + 1} of the panel names a solvent that is not in the solvent table; pick it from the list.`);
+export function saveSolventPanel(db: Db, { actorId, actorRole, name, entries }: Actor & { name: string; entries: PanelEntry[] }) {
+  return saveNamed(db, "panel", {
+    actorId,
+    actorRole,
+    name,
+    content: entries,
+    check: (tx) => {
+      for (const [i, e] of entries.entries()) {
+        for (const sid of [e.solventId, e.secondSolventId].filter((x): x is string => !!x)) {
+          if (!tx.select({ id: solvents.id }).from(solvents).where(eq(solvents.id, sid)).get()) {
+            throw new AppError("invalid_input", `Place ${i + 1} of the panel names a solvent that is not in the solvent table; pick it from the list.`);
+          }
         }
       }
-    }
-    const existing = tx.select().from(solventPanels).where(eq(solventPanels.name, name)).get();
-    if (existing) {
-      tx.update(solventPanels).set({ entries, updatedAt: new Date() }).where(eq(solventPanels.id, existing.id)).run();
-      recordAudit(tx, { actorId, action: "solvent-panel.update", entity: "solvent_panel", entityId: existing.id, before: { entries: existing.entries }, after: { entries } });
-      return existing.id;
-    }
-    const id = `sp_${randomUUID()}`;
-    tx.insert(solventPanels).values({ id, name, entries, createdBy: actorId }).run();
-    recordAudit(tx, { actorId, action: "solvent-panel.create", entity: "solvent_panel", entityId: id, after: { name, entries } });
-    return id;
+    },
   });
 }
 
-export function deleteSolventPanel(db: Db, { actorId, id }: { actorId: string; id: string }) {
-  db.transaction((tx) => {
-    const existing = tx.select().from(solventPanels).where(eq(solventPanels.id, id)).get();
-    if (!existing) throw new AppError("not_found", "That panel no longer exists.");
-    tx.delete(solventPanels).where(eq(solventPanels.id, id)).run();
-    recordAudit(tx, { actorId, action: "solvent-panel.delete", entity: "solvent_panel", entityId: id, before: { name: existing.name, entries: existing.entries } });
-  });
+export function deleteSolventPanel(db: Db, input: Actor & { id: string }) {
+  deleteNamed(db, "panel", input);
 }
 
 /** Earlier accepted colours of a dye in the condition with exactly these values (none when no such condition exists yet). */
@@ -511,47 +527,75 @@ export function saveInstrumentMeasurements(db: Db, { actorId, items }: { actorId
   });
 }
 
+type InstrumentCondition = InstrumentMeasurement["condition"];
+type FieldError = { field: string; message: string };
+
+/** The catalogue and solvent-table rows an instrument upload is resolved against; read once per batch. */
+export function instrumentLookups(db: Db) {
+  return {
+    solventRows: db.select({ id: solvents.id, name: solvents.name, synonyms: solvents.synonyms }).from(solvents).all(),
+    dyeRows: db.select({ id: dyes.id, code: dyes.code }).from(dyes).all(),
+  };
+}
+
+/**
+ * A dye named by code or id and a condition named in words (solvent names or synonyms), resolved against
+ * the catalogue and the solvent table: the dye's id and the condition's stored values, or the problems
+ * named by field. Shared by instrument colours and spectra (write API, imports, uploads).
+ */
+export function resolveDyeAndCondition(
+  { solventRows, dyeRows }: ReturnType<typeof instrumentLookups>,
+  { dye: dyeText, condition: c }: { dye: string; condition: Omit<InstrumentCondition, "concentrationUmolL" | "pathLengthMm"> & { concentrationUmolL: number | null; pathLengthMm: number | null } },
+): { ok: true; dyeId: string; condition: ConditionInput } | { ok: false; errors: FieldError[] } {
+  const errors: FieldError[] = [];
+  const q = dyeText.trim().toLowerCase();
+  const dye = dyeRows.find((d) => d.id === dyeText.trim() || d.code.toLowerCase() === q);
+  if (!dye) errors.push({ field: "dye", message: `No dye has the code or id “${dyeText}”; add it to the catalogue first.` });
+  const solvent = matchSolvent(solventRows, c.solvent);
+  if (!solvent) errors.push({ field: "solvent", message: `“${c.solvent}” is not in the solvent table; use a name or synonym from it, or ask an admin to add it.` });
+  const second = c.secondSolvent ? matchSolvent(solventRows, c.secondSolvent) : null;
+  if (c.secondSolvent && !second) errors.push({ field: "secondSolvent", message: `“${c.secondSolvent}” is not in the solvent table.` });
+  if (second && !(c.secondSolventMoleFraction !== null && c.secondSolventMoleFraction > 0 && c.secondSolventMoleFraction < 1)) {
+    errors.push({ field: "secondSolventMoleFraction", message: "Give the second solvent's mole fraction, between 0 and 1." });
+  }
+  if (c.additiveConcentrationMolL !== null && !c.additive) errors.push({ field: "additive", message: "Name the acid or base whose amount you gave (e.g. HCl)." });
+  if (errors.length || !dye || !solvent) return { ok: false, errors };
+  return {
+    ok: true,
+    dyeId: dye.id,
+    condition: {
+      solventId: solvent.id,
+      acidBase: c.acidBase,
+      ph: c.pH,
+      concentrationUmolL: c.concentrationUmolL,
+      additive: c.additive,
+      additiveConcentrationMolL: c.additiveConcentrationMolL,
+      temperatureC: c.temperatureC,
+      pathLengthMm: c.pathLengthMm,
+      secondSolventId: second?.id ?? null,
+      secondSolventMoleFraction: second ? c.secondSolventMoleFraction : null,
+    },
+  };
+}
+
 /**
  * Checks colours measured with an instrument against the catalogue and the solvent table and brings
  * them to D65 (lib/bench/instrument.ts); adds the replicate and lightness flags. One result per input,
  * each either ready to save or with its problems named by field.
  */
 export function prepareInstrumentMeasurements(db: Db, inputs: InstrumentMeasurement[]) {
-  const solventRows = db.select({ id: solvents.id, name: solvents.name, synonyms: solvents.synonyms }).from(solvents).all();
-  const dyeRows = db.select({ id: dyes.id, code: dyes.code }).from(dyes).all();
-  return inputs.map((v): { ok: true; item: InstrumentColourToSave } | { ok: false; errors: { field: string; message: string }[] } => {
-    const errors: { field: string; message: string }[] = [];
-    const q = v.dye.trim().toLowerCase();
-    const dye = dyeRows.find((d) => d.id === v.dye.trim() || d.code.toLowerCase() === q);
-    if (!dye) errors.push({ field: "dye", message: `No dye has the code or id “${v.dye}”; add it to the catalogue first.` });
-    const solvent = matchSolvent(solventRows, v.condition.solvent);
-    if (!solvent) errors.push({ field: "solvent", message: `“${v.condition.solvent}” is not in the solvent table; use a name or synonym from it, or ask an admin to add it.` });
-    const second = v.condition.secondSolvent ? matchSolvent(solventRows, v.condition.secondSolvent) : null;
-    if (v.condition.secondSolvent && !second) errors.push({ field: "secondSolvent", message: `“${v.condition.secondSolvent}” is not in the solvent table.` });
-    if (second && !(v.condition.secondSolventMoleFraction !== null && v.condition.secondSolventMoleFraction > 0 && v.condition.secondSolventMoleFraction < 1)) {
-      errors.push({ field: "secondSolventMoleFraction", message: "Give the second solvent's mole fraction, between 0 and 1." });
-    }
-    if (v.condition.additiveConcentrationMolL !== null && !v.condition.additive) errors.push({ field: "additive", message: "Name the acid or base whose amount you gave (e.g. HCl)." });
-    if (errors.length || !dye || !solvent) return { ok: false, errors };
+  const lookups = instrumentLookups(db);
+  return inputs.map((v): { ok: true; item: InstrumentColourToSave } | { ok: false; errors: FieldError[] } => {
+    const resolved = resolveDyeAndCondition(lookups, v);
+    if (!resolved.ok) return resolved;
+    const { dyeId, condition } = resolved;
     const colour = instrumentColourToD65(v.lab, v.whitePoint);
-    const condition: ConditionInput = {
-      solventId: solvent.id,
-      acidBase: v.condition.acidBase,
-      ph: v.condition.pH,
-      concentrationUmolL: v.condition.concentrationUmolL,
-      additive: v.condition.additive,
-      additiveConcentrationMolL: v.condition.additiveConcentrationMolL,
-      temperatureC: v.condition.temperatureC,
-      pathLengthMm: v.condition.pathLengthMm,
-      secondSolventId: second?.id ?? null,
-      secondSolventMoleFraction: second ? v.condition.secondSolventMoleFraction : null,
-    };
-    const earlier = earlierReplicates(db, { dyeId: dye.id, condition });
+    const earlier = earlierReplicates(db, { dyeId, condition });
     const verdict = checkReplicate(colour.lab, earlier.map((e) => [e.l, e.a, e.b]), v.uncertaintyDeltaE00 ?? null);
     return {
       ok: true,
       item: {
-        dyeId: dye.id,
+        dyeId,
         condition,
         lab: colour.lab,
         xyz: colour.xyz,

@@ -554,7 +554,7 @@ export function standardOrRefuse(db: Db, id: string) {
 
 /** Records the check standards measured in one bench photo (Lab D65 from the pipeline, compared under each standard's own white point), in one transaction. */
 export function recordPhotoChecks(
-  db: Db,
+  db: Db | Tx,
   { actorId, photoId, profileId, readings }: { actorId: string; photoId: string; profileId: string | null; readings: { standardId: string; labD65: Lab }[] },
 ) {
   if (readings.length === 0) return [];

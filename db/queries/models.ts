@@ -1,18 +1,20 @@
 /**
  * Solvent models per dye (lib/models/dye-model.ts), kept apart from measurements. Lazy with a cache key:
- * the key fingerprints the dye's accepted neutral neat-solvent colours and the solvent table; a stored
+ * the key fingerprints the dye's accepted neutral neat-solvent colours, its spectra in the same
+ * conditions (their λmax) and the solvent table; a stored
  * model whose key differs is recomputed on the next read (dye page, model API, search with predictions).
  */
 import { createHash } from "node:crypto";
 import { and, asc, eq, isNull, sql } from "drizzle-orm";
 import { fitApparentBand } from "../../lib/color/band";
 import { tuneDyeFromModel, type TuneDye } from "../../lib/models/tune";
-import { computeDyeModel, DYE_MODEL_VERSION, type DyeModel, type SolventColour, type TableSolvent } from "../../lib/models/dye-model";
+import { computeDyeModel, DYE_MODEL_VERSION, spectrumBandsBySolvent, type DyeModel, type SolventColour, type TableSolvent } from "../../lib/models/dye-model";
 import type { Lab } from "../../lib/color/types";
 import type { Db } from "../connection";
 import { conditions, dyeModels, dyePredictions, dyes, measurements, solvents, type Solvent } from "../schema";
 import { conditionMatches, type ConditionFilter } from "../../lib/search/filters";
 import { recordAudit } from "./audit";
+import { spectraForModel } from "./spectra";
 
 function parametersOf(s: Solvent) {
   return { piStar: s.ktPiStar, alpha: s.ktAlpha, beta: s.ktBeta, et30: s.et30, permittivity: s.permittivity };
@@ -60,10 +62,14 @@ function modelInputs(db: Db, dyeId: string): { rows: InputRow[]; colours: Solven
   return { rows, colours };
 }
 
-function cacheKeyOf(rows: readonly InputRow[], table: readonly TableSolvent[]): string {
+type SpectrumRow = ReturnType<typeof spectraForModel>[number];
+
+function cacheKeyOf(rows: readonly InputRow[], table: readonly TableSolvent[], spectra: readonly SpectrumRow[]): string {
   const h = createHash("sha256");
   h.update(`v${DYE_MODEL_VERSION}\n`);
   for (const r of rows) h.update(`${r.id}|${r.solventId}|${r.l}|${r.a}|${r.b}\n`);
+  // A new (or removed) spectrum changes the band positions the scales may be fitted on.
+  for (const s of spectra) h.update(`spectrum|${s.id}|${s.solventId}|${s.lambdaMaxNm}\n`);
   for (const s of table) h.update(`${s.solventId}|${JSON.stringify(s.parameters)}\n`);
   return h.digest("hex").slice(0, 32);
 }
@@ -72,10 +78,11 @@ function cacheKeyOf(rows: readonly InputRow[], table: readonly TableSolvent[]): 
 export function ensureDyeModel(db: Db, { dyeId }: { dyeId: string }): DyeModel {
   const table = solventTableForModels(db);
   const { rows, colours } = modelInputs(db, dyeId);
-  const key = cacheKeyOf(rows, table);
+  const spectraRows = spectraForModel(db, { dyeId });
+  const key = cacheKeyOf(rows, table, spectraRows);
   const stored = db.select().from(dyeModels).where(eq(dyeModels.dyeId, dyeId)).get();
   if (stored && stored.cacheKey === key) return stored.result as DyeModel;
-  const model = computeDyeModel({ dyeId, colours, table });
+  const model = computeDyeModel({ dyeId, colours, table, spectra: spectrumBandsBySolvent(spectraRows, table) });
   db.transaction((tx) => {
     tx.delete(dyePredictions).where(eq(dyePredictions.dyeId, dyeId)).run();
     for (const p of model.predictions) {
@@ -120,8 +127,9 @@ export function ensureAllDyeModels(db: Db): number {
   let recomputed = 0;
   for (const { id } of db.select({ id: dyes.id }).from(dyes).all()) {
     const { rows } = modelInputs(db, id);
-    if (rows.length === 0 && !keys.has(id)) continue;
-    if (keys.get(id) === cacheKeyOf(rows, table)) continue;
+    const spectraRows = spectraForModel(db, { dyeId: id });
+    if (rows.length === 0 && spectraRows.length === 0 && !keys.has(id)) continue;
+    if (keys.get(id) === cacheKeyOf(rows, table, spectraRows)) continue;
     ensureDyeModel(db, { dyeId: id });
     recomputed++;
   }

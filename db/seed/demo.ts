@@ -36,6 +36,7 @@ import {
 } from "../schema";
 import { recordAudit } from "../queries/audit";
 import { ensureAllDyeModels } from "../queries/models";
+import { groupImplicitSeries } from "../queries/ph-series";
 import { demoColour, demoDyes, demoSpectrum, gaussian, rng, type DemoDye } from "./demo-model";
 import { buildSolventTable } from "./solvent-table";
 
@@ -441,6 +442,10 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
       after: { dyes: dyeList.length, measurements: measurementRows.length, photos: photoRows.length },
     });
   });
+
+  // The indicator dyes' pH series arrive grouped (their fits are computed on first read, or by
+  // scripts/precompute-models.ts after a demo start).
+  groupImplicitSeries(db, { actorId: chemist.id });
 
   // Solvent models and their predictions, so search with predictions answers at once (≈ 1 s of CPU per
   // dye; off by default so tests that only need the measurements stay fast).

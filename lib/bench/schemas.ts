@@ -121,7 +121,7 @@ export const templateRegionSchema = z.object({
   y: z.number().min(0).max(1),
   w: z.number().positive().max(1),
   h: z.number().positive().max(1),
-  role: z.enum(["vial", "reference"]),
+  role: z.enum(["vial", "reference", "check"]),
   label: z.string().trim().max(80),
 });
 

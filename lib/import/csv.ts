@@ -5,16 +5,20 @@
  */
 import Papa from "papaparse";
 import { z } from "zod";
+import { AppError } from "../errors";
 import { dyeCreateJsonSchema } from "../validation/dye";
 import { instrumentMeasurementSchema, type InstrumentMeasurement } from "../validation/instrument";
 
 export type RowProblem = { line: number; column: string; message: string };
 export type ParsedRow<T> = { line: number; value: T | null; problems: RowProblem[] };
 
-import { DYE_COLUMNS, MEASUREMENT_COLUMNS } from "./columns";
+import { DYE_COLUMNS, MEASUREMENT_COLUMNS, PH_SERIES_COLUMNS } from "./columns";
 
-export { DYE_COLUMNS, MEASUREMENT_COLUMNS };
-const REQUIRED = { dyes: ["code", "name", "class"], measurements: ["dye", "solvent", "L", "a", "b", "white_point", "instrument"] } as const;
+export { DYE_COLUMNS, MEASUREMENT_COLUMNS, PH_SERIES_COLUMNS };
+const REQUIRED = { dyes: ["code", "name", "class"], measurements: ["dye", "solvent", "L", "a", "b", "white_point", "instrument"], "ph-series": ["pH", "L", "a", "b", "white_point"] } as const;
+const EXPECTED = { dyes: DYE_COLUMNS, measurements: MEASUREMENT_COLUMNS, "ph-series": PH_SERIES_COLUMNS } as const;
+/** Columns a kind of file must not have (the form gives them). */
+const FORBIDDEN: Record<ImportKind, readonly string[]> = { dyes: [], measurements: [], "ph-series": ["dye", "solvent", "second_solvent", "second_solvent_x"] };
 
 export type ImportKind = keyof typeof REQUIRED;
 
@@ -24,8 +28,10 @@ export function parseCsv(text: string, kind: ImportKind): { rows: { line: number
   const fields = parsed.meta.fields ?? [];
   const missing = REQUIRED[kind].filter((c) => !fields.includes(c));
   if (missing.length) {
-    return { rows: [], fileProblem: `The header (line 1) lacks the column${missing.length === 1 ? "" : "s"} ${missing.join(", ")}. Expected columns: ${(kind === "dyes" ? DYE_COLUMNS : MEASUREMENT_COLUMNS).join(", ")}.` };
+    return { rows: [], fileProblem: `The header (line 1) lacks the column${missing.length === 1 ? "" : "s"} ${missing.join(", ")}. Expected columns: ${EXPECTED[kind].join(", ")}.` };
   }
+  const extra = FORBIDDEN[kind].filter((c) => fields.includes(c));
+  if (extra.length) return { rows: [], fileProblem: `The header (line 1) has the column${extra.length === 1 ? "" : "s"} ${extra.join(", ")}; the dye and the medium of a pH series are chosen in the form, so remove ${extra.length === 1 ? "it" : "them"}.` };
   // Papa counts rows from 0 after the header; with no quoted line breaks, data row i is on line i + 2.
   const rows = parsed.data.map((cells, i) => ({ line: i + 2, cells }));
   if (rows.length === 0) return { rows, fileProblem: "The file has a header but no rows." };
@@ -130,4 +136,60 @@ export function checkMeasurementRows(rows: { line: number; cells: Record<string,
     if (!r.success) return { line, value: null, problems: issuesToProblems(r.error, line, measurementColumn) };
     return { line, value: r.data, problems: [] };
   });
+}
+
+/** acid_base of a series vial when the file gives none: acid below pH 6, base above pH 8, neutral between (our convention, as in the demo). */
+export function acidBaseOfPh(pH: number): "acid" | "neutral" | "base" {
+  return pH < 6 ? "acid" : pH > 8 ? "base" : "neutral";
+}
+
+/**
+ * The rows of a pH-series file as measurement rows: the form's dye and medium (and instrument, when a
+ * row names none) filled in, acid_base from the pH when absent. A row without a pH gets a problem.
+ */
+export function phSeriesRowsAsMeasurements(
+  rows: { line: number; cells: Record<string, string> }[],
+  form: { dye: string; solvent: string; secondSolvent: string | null; secondSolventX: number | null; instrument: string },
+): { rows: { line: number; cells: Record<string, string> }[]; problems: RowProblem[] } {
+  const problems: RowProblem[] = [];
+  const out = rows.map(({ line, cells }) => {
+    const pHText = cell(cells, "pH");
+    const pH = Number(pHText.replace(",", "."));
+    if (pHText === "") problems.push({ line, column: "pH", message: "Give the vial's pH." });
+    const filled: Record<string, string> = {
+      ...cells,
+      dye: form.dye,
+      solvent: form.solvent,
+      second_solvent: form.secondSolvent ?? "",
+      second_solvent_x: form.secondSolventX === null ? "" : String(form.secondSolventX),
+      instrument: cell(cells, "instrument") || form.instrument,
+      acid_base: cell(cells, "acid_base") || (pHText !== "" && Number.isFinite(pH) ? acidBaseOfPh(pH) : ""),
+    };
+    return { line, cells: filled };
+  });
+  return { rows: out, problems };
+}
+
+export type ImportCheck = { rows: number; good: number; problems: RowProblem[]; moreProblems: number; preview: Record<string, unknown>[] };
+
+/**
+ * What a checked file answers: its summary (problems by line, at most 200 listed) and, for "preview",
+ * the message that nothing is stored yet. "all" with any problem is refused here, naming the first.
+ */
+export function checkedImport({ mode, rows, good, problems, preview }: { mode: "preview" | "all" | "good"; rows: number; good: number; problems: RowProblem[]; preview: Record<string, unknown>[] }): {
+  summary: ImportCheck;
+  previewMessage: string | null;
+} {
+  const sorted = [...problems].sort((a, b) => a.line - b.line);
+  const summary = { rows, good, problems: sorted.slice(0, 200), moreProblems: Math.max(0, sorted.length - 200), preview };
+  if (mode === "preview") {
+    return {
+      summary,
+      previewMessage: sorted.length ? `${rows} rows checked: ${good} good, ${rows - good} with problems (listed by line and column). Nothing is stored yet.` : `${rows} rows checked, all good. Nothing is stored until you import.`,
+    };
+  }
+  if (mode === "all" && sorted.length) {
+    throw new AppError("invalid_input", `Nothing was stored: ${rows - good} of ${rows} rows have problems. The first is line ${sorted[0].line}, column ${sorted[0].column}: ${sorted[0].message}`);
+  }
+  return { summary, previewMessage: null };
 }

@@ -11,8 +11,17 @@
  *
  * Leave-one-out of the band route leaves the solvent out of the scale fit; the shared band width and
  * strength are not refitted without it (a small optimism, said where the figure is shown).
+ *
+ * Band positions from spectra (ν̃max = 10⁷/λmax of the longest-wavelength visible band) are the quantity
+ * the scales were defined on, and are used instead of the colours' apparent bands where there are enough
+ * of them. The two sources are never mixed in one fit: the apparent band of a skewed (log-normal) band
+ * sits 230–530 cm⁻¹ above its true maximum (lib/color/band.ts), an offset that would bias a mixed fit.
+ * The rule, per scale: with spectra in at least (terms + 2) solvents having its parameters the scale is
+ * fitted on spectra alone, otherwise on colours alone. A spectrum fit is carried to colour through the
+ * same band, shifted by the mean apparent-minus-spectral offset of the solvents that have both (its
+ * spread adds to the ± ΔE00); its leave-one-out ΔE00 is computed on those solvents only.
  */
-import { BAND_LIMITS, bandLab, fitApparentBandsShared } from "../color/band";
+import { BAND_LIMITS, bandLab, fitApparentBandsShared, nmToWavenumberCm1 } from "../color/band";
 import { deltaE00 } from "../color/difference";
 import type { Lab } from "../color/types";
 import { gaussian, mulberry32 } from "../random";
@@ -23,6 +32,21 @@ import { studentTQuantile } from "./student-t";
 /** A dye's mean accepted colour in one neat solvent (neutral form), CIELAB D65. */
 export type SolventColour = { solventId: string; solvent: string; parameters: SolventParameters; lab: Lab; replicates: number };
 export type TableSolvent = { solventId: string; solvent: string; parameters: SolventParameters };
+/** A dye's measured band position in one neat solvent (neutral form): ν̃max = 10⁷/λmax, the mean over its spectra there. */
+export type SolventSpectrumBand = { solventId: string; solvent: string; parameters: SolventParameters; wavenumberCm1: number; spectra: number };
+
+/** Where a fit's band positions come from: measured spectra (ν̃max) or photographed colours (apparent band). */
+export type BandSource = "spectrum" | "colour";
+
+export type SpectrumPoint = {
+  solventId: string;
+  solvent: string;
+  /** ν̃max = 10⁷/λmax, cm⁻¹ (mean of `spectra` spectra). */
+  wavenumberCm1: number;
+  spectra: number;
+  /** The colour's apparent band minus this maximum, cm⁻¹, where the solvent also has a usable colour. */
+  apparentOffsetCm1: number | null;
+};
 
 export type BandPoint = {
   solventId: string;
@@ -39,6 +63,15 @@ export type BandPoint = {
 
 export type ScaleRoute = {
   model: ScaleModel;
+  /** The band positions the fit was made on; every point of `fit` comes from this one source. */
+  source: BandSource;
+  /** Why this source (e.g. "spectra in 6 solvents, at least 6 needed"). */
+  sourceNote: string;
+  /**
+   * Spectrum fits only: added to a fitted ν̃max to reach the colour band that carries it to a colour (mean
+   * apparent-minus-spectral offset over `offsetSolvents` solvents with both, and its standard deviation).
+   */
+  offset: { meanCm1: number; sdCm1: number; solvents: number } | null;
   fit: ScaleFit | null;
   refusal: string | null;
   /** Mean and RMS leave-one-out ΔE00 of the colours this route predicts (null when refused). */
@@ -78,13 +111,15 @@ export type DyeModel = {
   reason: string | null;
   band: { fwhmCm1: number; peakAbsorbance: number; rmsDeltaE00: number; refusal: string | null };
   points: BandPoint[];
+  /** Band maxima from the dye's spectra, one per solvent. */
+  spectra: SpectrumPoint[];
   scales: ScaleRoute[];
   direct: DirectRoute;
   predictions: Prediction[];
 };
 
 /** Bumped when the computation changes, so stored models are recomputed. */
-export const DYE_MODEL_VERSION = 1;
+export const DYE_MODEL_VERSION = 2;
 
 /** More than this share of flagged colours (no single band, too pale) and the band route is refused (our limit). */
 export const MAX_FLAGGED_SHARE = 1 / 3;
@@ -109,8 +144,9 @@ function refusalText(error: unknown): string {
 }
 
 /** Fits every route and predicts the unmeasured table solvents with the better one. Pure; deterministic. */
-export function computeDyeModel(input: { dyeId: string; colours: readonly SolventColour[]; table: readonly TableSolvent[] }): DyeModel {
+export function computeDyeModel(input: { dyeId: string; colours: readonly SolventColour[]; table: readonly TableSolvent[]; spectra?: readonly SolventSpectrumBand[] }): DyeModel {
   const { colours, table } = input;
+  const measuredBands = input.spectra ?? [];
   const labs = colours.map((c) => c.lab);
   const shared = colours.length > 0 ? fitApparentBandsShared(labs) : { fwhmCm1: NaN, peakAbsorbance: NaN, bands: [] };
   const points: BandPoint[] = colours.map((c, i) => ({
@@ -135,9 +171,38 @@ export function computeDyeModel(input: { dyeId: string; colours: readonly Solven
   const bandRms = used.length > 0 ? rms(used.map((p) => p.bandDeltaE00)) : 0;
   const paramsOf = new Map(colours.map((c) => [c.solventId, c.parameters]));
 
+  const pointOf = new Map(points.map((p) => [p.solventId, p]));
+  const spectrumPoints: SpectrumPoint[] = measuredBands.map((b) => {
+    const p = pointOf.get(b.solventId);
+    return { solventId: b.solventId, solvent: b.solvent, wavenumberCm1: b.wavenumberCm1, spectra: b.spectra, apparentOffsetCm1: p && p.used ? p.wavenumberCm1 - b.wavenumberCm1 : null };
+  });
+  const offsets = spectrumPoints.flatMap((p) => (p.apparentOffsetCm1 === null ? [] : [p.apparentOffsetCm1]));
+  const offset = offsets.length > 0 ? { meanCm1: mean(offsets), sdCm1: offsets.length > 1 ? Math.sqrt(offsets.reduce((t, v) => t + (v - mean(offsets)) ** 2, 0) / (offsets.length - 1)) : 0, solvents: offsets.length } : null;
+  const canColour = !bandRefusal && used.length > 0;
+
   const scales: ScaleRoute[] = SCALE_MODELS.map((model) => {
-    if (bandRefusal) return { model, fit: null, refusal: bandRefusal, looDeltaE00: null, looRmsDeltaE00: null, looLabs: null };
-    const withParams = used.filter((p) => "row" in designRow(termsOf(model), paramsOf.get(p.solventId)!));
+    const terms = termsOf(model);
+    const needed = terms.length + 3;
+    const spectraWithParams = measuredBands.filter((b) => "row" in designRow(terms, b.parameters));
+    let sourceNote = `band positions from colours: spectra in ${spectraWithParams.length} solvent${spectraWithParams.length === 1 ? "" : "s"} with these parameters, at least ${needed} needed to fit on spectra alone`;
+    if (spectraWithParams.length >= needed) {
+      try {
+        const fit = fitScaleModel(model, spectraWithParams.map((b) => ({ solvent: b.solvent, parameters: b.parameters, value: b.wavenumberCm1 })), { property: "wavenumber", unit: "cm⁻¹" });
+        const note = `band maxima ν̃max from spectra in ${spectraWithParams.length} solvents`;
+        // Checked in colour only where a solvent has both a spectrum and a usable colour.
+        const checked = canColour && offset ? spectraWithParams.map((b, i) => ({ i, p: pointOf.get(b.solventId) })).filter((c) => c.p?.used) : [];
+        if (checked.length === 0) {
+          return { model, source: "spectrum", sourceNote: `${note}; no solvent has both a spectrum and a usable colour, so the fit cannot be carried to colours`, offset, fit, refusal: null, looDeltaE00: null, looRmsDeltaE00: null, looLabs: null };
+        }
+        const looLabs = fit.looPredicted.map((nu) => labAt(nu + offset!.meanCm1));
+        const errors = checked.map(({ i, p }) => deltaE00(looLabs[i], p!.lab));
+        return { model, source: "spectrum", sourceNote: `${note}; leave-one-out ΔE00 over the ${checked.length} of them with a measured colour`, offset, fit, refusal: null, looDeltaE00: mean(errors), looRmsDeltaE00: rms(errors), looLabs };
+      } catch (error) {
+        sourceNote = `band positions from colours: the fit on spectra was refused (${refusalText(error)})`;
+      }
+    }
+    if (bandRefusal) return { model, source: "colour", sourceNote, offset: null, fit: null, refusal: bandRefusal, looDeltaE00: null, looRmsDeltaE00: null, looLabs: null };
+    const withParams = used.filter((p) => "row" in designRow(terms, paramsOf.get(p.solventId)!));
     try {
       const fit = fitScaleModel(
         model,
@@ -146,9 +211,9 @@ export function computeDyeModel(input: { dyeId: string; colours: readonly Solven
       );
       const looLabs = fit.looPredicted.map(labAt);
       const errors = looLabs.map((lab, i) => deltaE00(lab, withParams[i].lab));
-      return { model, fit, refusal: null, looDeltaE00: mean(errors), looRmsDeltaE00: rms(errors), looLabs };
+      return { model, source: "colour", sourceNote, offset: null, fit, refusal: null, looDeltaE00: mean(errors), looRmsDeltaE00: rms(errors), looLabs };
     } catch (error) {
-      return { model, fit: null, refusal: refusalText(error), looDeltaE00: null, looRmsDeltaE00: null, looLabs: null };
+      return { model, source: "colour", sourceNote, offset: null, fit: null, refusal: refusalText(error), looDeltaE00: null, looRmsDeltaE00: null, looLabs: null };
     }
   });
 
@@ -172,15 +237,19 @@ export function computeDyeModel(input: { dyeId: string; colours: readonly Solven
     for (const s of table) {
       if (measured.has(s.solventId)) continue;
       if (best.route === "band") {
-        const fit = scales.find((r) => r.model === best.model)!.fit!;
+        const route = scales.find((r) => r.model === best.model)!;
+        const fit = route.fit!;
         let p;
         try {
           p = predictScaleModel(fit, s.parameters);
         } catch {
           continue;
         }
-        const lab = labAt(p.value);
-        const draws = Array.from({ length: DRAWS }, (_, k) => p.value + p.stdErr * studentTQuantile((k + 0.5) / DRAWS, fit.dof));
+        // A spectrum fit predicts a band maximum; its colour comes from the colour band, offset as measured.
+        const shift = route.offset?.meanCm1 ?? 0;
+        const spreadCm1 = Math.hypot(p.stdErr, route.offset?.sdCm1 ?? 0);
+        const lab = labAt(p.value + shift);
+        const draws = Array.from({ length: DRAWS }, (_, k) => p.value + shift + spreadCm1 * studentTQuantile((k + 0.5) / DRAWS, fit.dof));
         const spread = rms(draws.map((nu) => deltaE00(labAt(nu), lab)));
         predictions.push({
           solventId: s.solventId,
@@ -226,10 +295,37 @@ export function computeDyeModel(input: { dyeId: string; colours: readonly Solven
     reason,
     band: { fwhmCm1: shared.fwhmCm1, peakAbsorbance: shared.peakAbsorbance, rmsDeltaE00: bandRms, refusal: bandRefusal },
     points,
+    spectra: spectrumPoints,
     scales,
     direct,
     predictions,
   };
+}
+
+/**
+ * One band position per solvent from a dye's spectra: ν̃max = 10⁷/λmax(nm) cm⁻¹, averaged over the
+ * solvent's spectra. Spectra without a band maximum in the visible (λmax null) give none.
+ */
+export function spectrumBandsBySolvent(
+  spectra: readonly { solventId: string; lambdaMaxNm: number | null }[],
+  table: readonly TableSolvent[],
+): SolventSpectrumBand[] {
+  const info = new Map(table.map((t) => [t.solventId, t]));
+  const bySolvent = new Map<string, number[]>();
+  for (const s of spectra) {
+    if (s.lambdaMaxNm === null || !(s.lambdaMaxNm > 0) || !info.has(s.solventId)) continue;
+    bySolvent.set(s.solventId, [...(bySolvent.get(s.solventId) ?? []), nmToWavenumberCm1(s.lambdaMaxNm)]);
+  }
+  return [...bySolvent.entries()]
+    .map(([solventId, nus]) => ({ solventId, solvent: info.get(solventId)!.solvent, parameters: info.get(solventId)!.parameters, wavenumberCm1: mean(nus), spectra: nus.length }))
+    .sort((p, q) => p.solvent.localeCompare(q.solvent));
+}
+
+/** cm⁻¹ to add to the chosen fit's ν̃ to reach the colour band (non-zero only for a fit on spectra). */
+export function colourBandOffsetCm1(model: DyeModel): number {
+  if (model.chosen?.route !== "band") return 0;
+  const chosenModel = model.chosen.model;
+  return model.scales.find((s) => s.model === chosenModel)?.offset?.meanCm1 ?? 0;
 }
 
 /** Baseline: L*, a*, b* each fitted linearly on the Kamlet–Taft parameters (ET(30) when those cannot be fitted). */

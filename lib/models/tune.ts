@@ -13,6 +13,7 @@ import { bandLab } from "../color/band";
 import { deltaE00 } from "../color/difference";
 import type { Lab } from "../color/types";
 import { boschRosesValue, fitBoschRoses, type BlendPoint, type PreferentialSolvation } from "./blends";
+import { colourBandOffsetCm1, type DyeModel } from "./dye-model";
 import { studentTQuantile } from "./student-t";
 
 export type TuneSolvent = { solventId: string; solvent: string; cautions: string; medium: string };
@@ -177,13 +178,15 @@ function pick(s: TuneSolvent): TuneSolvent {
  */
 export function tuneDyeFromModel(
   dye: TuneDye["dye"],
-  model: import("./dye-model").DyeModel,
+  model: DyeModel,
   solvents: ReadonlyMap<string, TuneSolvent>,
   blends: TuneDye["blends"] = [],
 ): TuneDye {
   const bandFit = model.chosen?.route === "band" ? model.scales.find((s) => s.model === model.chosen!.model)?.fit ?? null : null;
   const hasBand = !model.band.refusal && Number.isFinite(model.band.fwhmCm1) && model.points.some((p) => p.used);
   const t = bandFit ? studentTQuantile(0.975, bandFit.dof) : 1;
+  // Predictions of a fit on spectra are band maxima; tune works with the colour band, like the measured points.
+  const shift = colourBandOffsetCm1(model);
   const info = (id: string, name: string): TuneSolvent => solvents.get(id) ?? { solventId: id, solvent: name, cautions: "", medium: "" };
   const neat: TuneNeat[] = [
     ...model.points.map((p) => ({
@@ -200,7 +203,7 @@ export function tuneDyeFromModel(
       lab: p.lab,
       measured: false,
       uncertaintyDeltaE00: p.uncertaintyDeltaE00,
-      wavenumberCm1: hasBand && p.route === "band" ? p.wavenumberCm1 : null,
+      wavenumberCm1: hasBand && p.route === "band" && p.wavenumberCm1 !== null ? p.wavenumberCm1 + shift : null,
       wavenumberStdErrCm1: p.wavenumberHalfWidthCm1 !== null ? p.wavenumberHalfWidthCm1 / t : 0,
       extrapolated: p.extrapolated,
     })),

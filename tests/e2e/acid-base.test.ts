@@ -1,6 +1,6 @@
 /**
  * An indicator dye's page on the demo, in Chromium: the titration curve of its pH series, its pKa with
- * an uncertainty, and its absorption spectra with λmax.
+ * an uncertainty, and its absorption spectra with λmax; the pH series page lists its grouped series.
  */
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { BrowserContext } from "playwright-core";
@@ -45,7 +45,27 @@ describe("an indicator dye's page", () => {
     const before = await rows.first().locator("span").first().getAttribute("style");
     await page.getByLabel("Path length (mm)").fill("40");
     await expect.poll(async () => rows.first().locator("span").first().getAttribute("style")).not.toBe(before);
+
+    // The demo's series arrive grouped: the pH series page lists this one with its stored pKa and transition.
+    await page.goto(`${base}/acid-base`);
+    const row = page.getByTestId("ph-series-row").filter({ hasText: "KB-SP-205" }).first();
+    await row.waitFor({ timeout: 60_000 });
+    await expect(row.innerText()).resolves.toMatch(/\d+\.\d\d ± \d+\.\d\d[\s\S]*pH \d+\.\d–\d+\.\d/);
+    // A chemist opens the series to edit it: the dye's vials in that medium, the grouped ones ticked, each with its pH.
+    await row.getByRole("link", { name: "Water, all recorded pH values" }).click();
+    const candidates = page.getByTestId("series-candidates");
+    await candidates.waitFor({ timeout: 60_000 });
+    await expect.poll(() => candidates.locator('input[type="checkbox"]:checked').count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(5);
+
+    // Search by pH transition: the demo indicator changes colour within pH 2–12 and the rule is stated.
+    await page.goto(`${base}/search/ph?phFrom=2&phTo=12`);
+    await expect(page.getByTestId("ph-rule").innerText()).resolves.toMatch(/wholly within/);
+    const hit = page.getByTestId("ph-hit").filter({ hasText: "KB-SP-205" }).first();
+    await hit.waitFor({ timeout: 60_000 });
+    await expect(hit.innerText()).resolves.toMatch(/apparent pKa \d+\.\d\d ± \d+\.\d\d[\s\S]*transition pH \d+\.\d–\d+\.\d/);
+    await page.goto(`${base}/acid-base/import`);
+    await page.getByRole("heading", { name: "Import a pH series from CSV" }).waitFor();
     expect(errors).toEqual([]);
     await page.close();
-  }, 120_000);
+  }, 180_000);
 });

@@ -72,7 +72,7 @@ it("a chemist uploads a rack photo, marks four vials and the reference, sees liv
     const lab = marking.row(`Vial ${i + 1}`).getByTestId("live-lab");
     await lab.waitFor();
     await expect.poll(async () => {
-      const m = /L\* (-?[\d.]+)\s+a\* (-?[\d.]+) b\* (-?[\d.]+)/.exec(await lab.innerText());
+      const m = /L\* (-?[\d.]+)\s+a\* (-?[\d.]+)\s+b\* (-?[\d.]+)/.exec(await lab.innerText());
       return m ? deltaE76([+m[1], +m[2], +m[3]], labOf8(VIALS[i])) : 99;
     }, { timeout: 15_000 }).toBeLessThan(1);
   }

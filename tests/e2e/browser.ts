@@ -18,10 +18,11 @@ export async function launchBrowser(): Promise<BrowserContext> {
 /** Collects console errors so a test can assert a page loaded cleanly. */
 export function watchConsole(page: Page): string[] {
   const errors: string[] = [];
+  // Each with the page it came from, so a failure names where to look.
   page.on("console", (m) => {
-    if (m.type() === "error") errors.push(m.text());
+    if (m.type() === "error") errors.push(`${page.url()}: ${m.text()}`);
   });
-  page.on("pageerror", (e) => errors.push(e.message));
+  page.on("pageerror", (e) => errors.push(`${page.url()}: ${e.message}`));
   return errors;
 }
 

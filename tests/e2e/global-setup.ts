@@ -4,21 +4,10 @@
  */
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
-import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import type { TestProject } from "vitest/node";
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = net.createServer();
-    server.listen(0, "127.0.0.1", () => {
-      const { port } = server.address() as net.AddressInfo;
-      server.close(() => resolve(port));
-    });
-    server.on("error", reject);
-  });
-}
+import { freePort } from "../../lib/ops/free-port";
 
 async function waitFor(url: string, child: ChildProcess, timeoutMs: number) {
   const start = Date.now();

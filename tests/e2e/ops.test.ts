@@ -7,7 +7,6 @@
 import { execFile, spawn } from "node:child_process";
 import fs from "node:fs";
 import http from "node:http";
-import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import { describe, expect, inject, it } from "vitest";
@@ -16,6 +15,7 @@ import { createApiToken } from "@/lib/auth/service";
 import { smallJpeg } from "../support/photos";
 import { useBrowser, watchConsole } from "./browser";
 import { SignInPage } from "./pages/sign-in-page";
+import { freePort } from "@/lib/ops/free-port";
 
 const base = inject("baseUrl");
 const demoDataDir = inject("dataDir");
@@ -59,17 +59,6 @@ describe("backups of the running demo", () => {
     expect(refused.stderr.trim()).toMatch(/^A Solvatlas server \(process \d+\) is serving .*stop it before restoring/);
   });
 });
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = net.createServer();
-    server.listen(0, "127.0.0.1", () => {
-      const { port } = server.address() as net.AddressInfo;
-      server.close(() => resolve(port));
-    });
-    server.on("error", reject);
-  });
-}
 
 describe("graceful shutdown", () => {
   it("finishes a slow upload that is in flight when SIGTERM arrives, refuses new connections, exits 0, and logs JSON without the token", async () => {

@@ -48,6 +48,37 @@ describe("solvent panels", () => {
   });
 });
 
+describe("solvent panels have an owner, like rack layouts", () => {
+  it("another chemist can neither overwrite nor delete a panel; its owner and an admin can, each change audited", async () => {
+    const panel = (name: string, n: number) => form({ payload: JSON.stringify({ name, entries: ["solv-methanol", "solv-ethanol", "solv-water"].slice(0, n).map((id) => entry(id)) }) });
+    await actAs("chemist");
+    const saved = await savePanelAction(null, panel("Owned", 3));
+    expect(saved).toMatchObject({ ok: true });
+    const id = (saved?.data as { id: string }).id;
+
+    await actAs("chemist2");
+    const overwrite = await savePanelAction(null, panel("Owned", 1));
+    expect(overwrite).toMatchObject({ ok: false, code: "forbidden" });
+    expect(overwrite?.message).toMatch(/The panel “Owned” belongs to Test Chemist; only they or an admin may change or delete it/);
+    expect(await deletePanelAction(null, form({ id }))).toMatchObject({ ok: false, code: "forbidden" });
+    expect(listSolventPanels(db()).find((p) => p.id === id)?.entries).toHaveLength(3);
+
+    await actAs("chemist");
+    expect(await savePanelAction(null, panel("Owned", 2))).toMatchObject({ ok: true });
+    await actAs("admin");
+    expect(await savePanelAction(null, panel("Owned", 1))).toMatchObject({ ok: true });
+    expect(listSolventPanels(db()).find((p) => p.id === id)?.entries).toHaveLength(1);
+    expect(await deletePanelAction(null, form({ id }))).toMatchObject({ ok: true });
+    const log = db().select({ a: auditLog.action, who: auditLog.actorId }).from(auditLog).where(eq(auditLog.entityId, id)).all();
+    expect(log).toEqual([
+      { a: "solvent-panel.create", who: PEOPLE.chemist.id },
+      { a: "solvent-panel.update", who: PEOPLE.chemist.id },
+      { a: "solvent-panel.update", who: PEOPLE.admin.id },
+      { a: "solvent-panel.delete", who: PEOPLE.admin.id },
+    ]);
+  });
+});
+
 describe("conditions are matched on every recorded field", () => {
   it("reuses a condition only when temperature, path length, blend and acid amount are all the same", () => {
     const handle = db();

@@ -16,14 +16,16 @@ import { saveMeasurementsAction } from "@/app/actions/bench";
 import { GET as listProfilesRoute } from "@/app/api/lighting/profiles/route";
 import { GET as searchRoute } from "@/app/api/search/route";
 import { db } from "@/db/client";
-import { previewRederive } from "@/db/queries/lighting";
+import { checkHistory, previewRederive } from "@/db/queries/lighting";
 import { storePhoto } from "@/db/queries/photos";
 import { auditLog, calibrationTargets, checkReadings, checkStandards, driftReadings, dyes, lightingProfiles, measurements } from "@/db/schema";
 import { mailboxDir } from "@/lib/mail";
 import { objectStore } from "@/lib/storage";
 import { CARD, cardCorners, cardCsv, cardPhoto, CARD_PATCHES } from "../support/card";
 import { RACK, rackPhoto, type Rgb8 } from "../support/photos";
-import { labOf8 } from "../support/srgb-reference";
+import { ciede2000Reference } from "../support/ciede2000-reference";
+import { readFixtureCsv } from "../support/fixtures";
+import { deltaE76, labOf8 } from "../support/srgb-reference";
 import { CARD as SPECTRAL_CARD, sceneXyzD65, spectrumLab, VIALS } from "../support/spectral-card";
 import { renderSwatches, SYNTHETIC_CAMERAS } from "@/lib/color/synthetic-camera";
 import { deltaE00 } from "@/lib/color/difference";
@@ -238,6 +240,63 @@ describe("drift", { timeout: 180_000 }, () => {
     const mails = fs.readdirSync(mailboxDir()).map((f) => JSON.parse(fs.readFileSync(path.join(mailboxDir(), f), "utf8")));
     expect(mails.length).toBeGreaterThan(mailsBefore);
     expect(mails.some((x: { to: string; subject: string }) => x.to === PEOPLE.admin.email && /Light drift/.test(x.subject))).toBe(true);
+  });
+});
+
+describe("check standards on the bench", { timeout: 180_000 }, () => {
+  it("the reference CIEDE2000 used below reproduces Sharma, Wu & Dalal (2005) Table 1", () => {
+    // Sharma, Wu & Dalal 2005, Table 1 (tests/fixtures/ciede2000_sharma2005_table1.csv), to its 4 decimals.
+    for (const r of readFixtureCsv("ciede2000_sharma2005_table1.csv")) {
+      expect(ciede2000Reference([+r.L1, +r.a1, +r.b1], [+r.L2, +r.a2, +r.b2]), `pair ${r.pair}`).toBeCloseTo(+r.dE00, 4);
+    }
+  });
+
+  it("a region marked as a registered check standard records its ΔE00 to the known value in the profile's check history, with the vials, in one save", async () => {
+    const profileId = db().select({ id: lightingProfiles.id }).from(lightingProfiles).where(eq(lightingProfiles.name, "Bench box A")).get()!.id;
+    // The check tile's true colour: its 8-bit sRGB paint through IEC 61966-2-1 and CIE 015:2018 (srgb-reference.ts).
+    const paint: Rgb8 = [176, 92, 64];
+    const truth = labOf8(paint);
+    // Its registered value, as if the spectrophotometer read it 2 L* darker and a little redder (invented offset).
+    const known: [number, number, number] = [truth[0] - 2, truth[1] + 1.5, truth[2] - 0.8];
+    await actAs("admin");
+    const created = await createCheckStandardAction(null, form({ name: "Terracotta tile", kind: "tile", l: String(known[0]), a: String(known[1]), b: String(known[2]), whitePoint: "D65", sourceInstrument: "test: computed offset", notes: "" }));
+    expect(created, JSON.stringify(created)).toMatchObject({ ok: true });
+    const standardId = db().select().from(checkStandards).where(eq(checkStandards.name, "Terracotta tile")).get()!.id;
+
+    await actAs("chemist");
+    const photo = (await storePhoto(db(), objectStore(), { bytes: await rackPhoto([[120, 120, 160], paint], { format: "png" }), originalName: "rack-with-check.png", lightingProfileId: profileId, uploaderId: PEOPLE.chemist.id, limits })).photo;
+    const box = (i: number) => ({ shape: "rect", x: RACK.vial.x0 + i * RACK.vial.step + 15, y: RACK.vial.y + 20, w: RACK.vial.w - 30, h: RACK.vial.h - 40 });
+    const payload = (standard: string) =>
+      form({
+        payload: JSON.stringify({
+          photoId: photo.id,
+          lightingProfileId: profileId,
+          references: [],
+          checkStandards: [{ standardId: standard, region: box(1) }],
+          vials: [{ region: box(0), dyeId: "dye_t1", solventId: "solv-methanol", acidBase: "neutral", ph: null, concentrationUmolL: 20, flagReason: "synthetic vial" }],
+        }),
+      });
+
+    // An unregistered standard is refused and nothing of the photo is saved.
+    const refused = await saveMeasurementsAction(null, payload("cs_nope"));
+    expect(refused).toMatchObject({ ok: false, code: "invalid_input", message: expect.stringMatching(/not registered/) });
+    expect(db().select().from(measurements).where(eq(measurements.photoId, photo.id)).all()).toHaveLength(0);
+
+    const res = await saveMeasurementsAction(null, payload(standardId));
+    expect(res, JSON.stringify(res)).toMatchObject({ ok: true, message: expect.stringMatching(/Saved 1 measurement; it waits .* Recorded in the profile's check history: “Terracotta tile” ΔE00 \d+\.\d\d to its known value\./) });
+    const readings = db().select().from(checkReadings).where(eq(checkReadings.photoId, photo.id)).all();
+    expect(readings).toHaveLength(1);
+    const reading = readings[0];
+    expect(reading).toMatchObject({ standardId, profileId, createdBy: PEOPLE.chemist.id });
+    // The profile (fitted on an sRGB card) reads the tile close to its true colour (ΔE*ab < 1, common practice, no source) …
+    expect(deltaE76([reading.l, reading.a, reading.b], truth)).toBeLessThan(1);
+    // … and the stored ΔE00 is CIEDE2000 between that reading and the registered value, computed here independently.
+    expect(reading.deltaE00).toBeCloseTo(ciede2000Reference([reading.l, reading.a, reading.b], known), 6);
+    expect(Math.abs(reading.deltaE00 - ciede2000Reference(truth, known))).toBeLessThan(0.5);
+    // The lighting page's history reads it, under the standard's name.
+    const history = checkHistory(db(), { profileId });
+    expect(history.find((h) => h.reading.id === reading.id)).toMatchObject({ standard: "Terracotta tile" });
+    expect(db().select().from(auditLog).where(and(eq(auditLog.entityId, reading.id), eq(auditLog.action, "check-reading.create"))).all()).toHaveLength(1);
   });
 });
 

@@ -20,7 +20,7 @@ beforeAll(async () => {
   const rows = [
     { id: "ms_m1", dyeId: "dye_t1", conditionId: "cond_m_acid", l: 50, a: 40, b: 0, reviewState: "accepted" as const, createdBy: PEOPLE.chemist.id, createdAt: new Date("2026-05-01T10:00:00Z") },
     { id: "ms_m2", dyeId: "dye_t1", conditionId: "cond_m_dmso", l: 30, a: 0, b: -50, reviewState: "accepted" as const, createdBy: PEOPLE.chemist2.id, createdAt: new Date("2026-06-01T10:00:00Z") },
-    { id: "ms_m3", dyeId: "dye_m2", conditionId: "cond_m_dmso", l: 70, a: -20, b: 20, reviewState: "accepted" as const, createdBy: PEOPLE.chemist.id, createdAt: new Date("2026-07-01T10:00:00Z") },
+    { id: "ms_m3", dyeId: "dye_m2", conditionId: "cond_m_dmso", l: 70, a: -20, b: 20, uL: 0.31, uA: 0.42, uB: 0.53, uDeltaE00: 0.64, reviewState: "accepted" as const, createdBy: PEOPLE.chemist.id, createdAt: new Date("2026-07-01T10:00:00Z") },
     { id: "ms_m4", dyeId: "dye_m2", conditionId: "cond_m_acid", l: 60, a: 10, b: 10, reviewState: "rejected" as const, createdBy: PEOPLE.chemist.id, createdAt: new Date("2026-07-02T10:00:00Z") },
   ];
   for (const r of rows) h.insert(measurements).values({ ...base, ...r }).run();
@@ -63,6 +63,13 @@ describe("GET /api/measurements", () => {
     const parsed = Papa.parse<Record<string, string>>(await res.text(), { header: true, skipEmptyLines: true });
     expect(parsed.data).toHaveLength(1);
     expect(parsed.data[0]).toMatchObject({ id: "ms_m3", dye_code: "'=HYPERLINK(1)", solvent: "Dimethyl sulfoxide", medium: "dipolar-aprotic", L: "70", a: "-20", b: "20", review_state: "accepted" });
+  });
+
+  it("carries each colour's standard uncertainties u(L*), u(a*), u(b*) and ± ΔE00 in columns named with their unit, empty when not recorded", async () => {
+    const parsed = Papa.parse<Record<string, string>>(await (await call("?format=csv")).text(), { header: true, skipEmptyLines: true });
+    expect(parsed.meta.fields).toEqual(expect.arrayContaining(["u_L_cielab", "u_a_cielab", "u_b_cielab", "u_delta_e00"]));
+    expect(parsed.data.find((r) => r.id === "ms_m3")).toMatchObject({ u_L_cielab: "0.31", u_a_cielab: "0.42", u_b_cielab: "0.53", u_delta_e00: "0.64" });
+    expect(parsed.data.find((r) => r.id === "ms_m2")).toMatchObject({ u_L_cielab: "", u_delta_e00: "" });
   });
 
   it("answers 422 naming the field for a bad format or date, and 401 without credentials", async () => {

@@ -13,6 +13,7 @@ import { importCsvAction } from "@/app/actions/imports";
 import { db } from "@/db/client";
 import { auditLog, dyes, measurements, photos } from "@/db/schema";
 import { deltaE00 } from "@/lib/color/difference";
+import { localMailbox } from "@/lib/mail";
 import { actAs, buildWorld, form, PEOPLE, sessionCookieFor, tokenFor, type Who } from "../support/world";
 
 type Caller = Who | "anonymous";
@@ -200,6 +201,11 @@ describe("accept all from this photo", () => {
     expect(ok?.message).toMatch(/Accepted 2 measurements.*1 of your own/);
     const states = Object.fromEntries(handle.select({ id: measurements.id, s: measurements.reviewState }).from(measurements).where(eq(measurements.photoId, "ph_acc")).all().map((r) => [r.id, r.s]));
     expect(states).toEqual({ ms_acc1: "accepted", ms_acc2: "accepted", ms_acc3: "pending" });
+    // One mail per author for the photo, listing both measurements (common practice, no source: no mail storm per vial).
+    const mails = localMailbox().filter((m) => m.to === PEOPLE.chemist2.email && /accepted/.test(m.subject));
+    expect(mails.map((m) => m.subject)).toEqual(["2 measurements accepted from one photo"]);
+    expect(mails[0].text.match(/^- T-001 \(Test Violet\) in Methanol, neutral: L\* 50\.0, a\* 2\.0, b\* 0\.0/gm)).toHaveLength(2);
+    expect(mails[0].text).toMatch(/\/bench\/photos\/ph_acc/);
     const again = await acceptPhotoAction(null, form({ photoId: "ph_acc", checked: "yes" }));
     expect(again?.message).toMatch(/your own/);
     await actAs("formulator");

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { db } from "@/db/client";
 import { earlierForMeasurements, photoMeasurements, reviewQueue } from "@/db/queries/bench";
 import { getPhoto } from "@/db/queries/photos";
+import { FlagBadges } from "@/components/bench/flag-badges";
 import { SavedMarking } from "@/components/bench/saved-marking";
 import { AcceptPhoto } from "@/components/review/accept-photo";
 import { ReplicateCompare } from "@/components/review/replicate-compare";
@@ -103,11 +104,7 @@ export default async function ReviewPage({ searchParams }: { searchParams: Promi
                   <ReplicateCompare lab={[m.l, m.a, m.b]} uncertaintyDeltaE00={m.uDeltaE00} earlier={earlier.get(m.id) ?? []} />
                   {m.flags.length > 0 && (
                     <p className="mt-1 flex flex-wrap gap-1">
-                      {m.flags.map((f) => (
-                        <Badge key={f} tone="warn">
-                          {f}
-                        </Badge>
-                      ))}
+                      <FlagBadges flags={m.flags} label={`Quality flags of measurement ${number.get(m.id) ?? ""}`.trim()} />
                       {m.flagReason && <span className="text-xs text-ink-soft">“{m.flagReason}”</span>}
                     </p>
                   )}

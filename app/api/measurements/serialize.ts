@@ -48,6 +48,8 @@ export const CSV_COLUMNS = [
   "L", "a", "b", "C", "h", "X", "Y", "Z", "raw_linear_r", "raw_linear_g", "raw_linear_b", "illuminant", "observer",
   "lighting_profile", "pixels", "rejected", "spread", "flags", "flag_reason", "review_state", "measured_at", "measured_by", "photo_id",
   "solvent_et30_kcal_mol", "solvent_etn", "solvent_kt_alpha", "solvent_kt_beta", "solvent_kt_pi_star", "solvent_permittivity",
+  // Standard uncertainties (JCGM 100:2008, k = 1) of L*, a*, b* in CIELAB units, and the combined ± in ΔE00; empty when not recorded.
+  "u_L_cielab", "u_a_cielab", "u_b_cielab", "u_delta_e00",
 ] as const;
 
 /** The shared writer (lib/csv) defuses formula-looking text; numbers stay numbers. */
@@ -60,6 +62,7 @@ export function measurementsCsv(rows: MeasurementRow[]): string {
       m.illuminant, m.observer, r.profile?.name ?? "", m.pixelCount, m.rejectedCount, m.spread, m.flags.join(" "), m.flagReason,
       m.reviewState, m.createdAt.toISOString(), r.author, m.photoId ?? "",
       r.solvent.et30 ?? "", r.solvent.etn ?? "", r.solvent.ktAlpha ?? "", r.solvent.ktBeta ?? "", r.solvent.ktPiStar ?? "", r.solvent.permittivity ?? "",
+      m.uL ?? "", m.uA ?? "", m.uB ?? "", m.uDeltaE00 ?? "",
     ];
   });
   return writeCsv(CSV_COLUMNS, data);

@@ -29,6 +29,14 @@ export class MarkingPage {
     await this.page.mouse.up();
   }
 
+  /**
+   * Waits until the editor's live colours and replicate flags belong to the regions and inputs as they
+   * are now (data-busy="false"): no measurement or replicate check is waiting or in flight.
+   */
+  async settled() {
+    await this.page.locator('[data-testid="marking-editor"][data-busy="false"]').waitFor({ timeout: 30_000 });
+  }
+
   /** A reference's card (references are listed under the rack table). */
   card(label: string): Locator {
     return this.page.getByTestId("region-card").and(this.page.locator(`[data-label="${label}"]`));

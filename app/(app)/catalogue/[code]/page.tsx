@@ -8,6 +8,7 @@ import { inArray } from "drizzle-orm";
 import { AbPlane, type PlanePoint } from "@/components/catalogue/ab-plane";
 import { TitrationSection } from "@/components/acid-base/titration-section";
 import { SpectraSection } from "@/components/spectra/spectra-section";
+import { SpectrumUpload } from "@/components/spectra/spectrum-upload";
 import { DyeEditForm } from "@/components/catalogue/dye-edit-form";
 import { ReplicateGroups } from "@/components/bench/replicate-groups";
 import { AddToShortlistForm, CreateShortlistForm } from "@/components/shortlists/shortlist-forms";
@@ -94,6 +95,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
     byCondition.set(key, entry);
   }
   const planePoints: PlanePoint[] = [...byCondition.values()].map((e) => ({ lab: mean(e.labs), label: e.label, medium: e.medium, acidBase: e.acidBase }));
+  const solventList = listSolvents(handle);
   const myLists = listShortlists(handle, { ownerId: user.id }).map(({ list }) => ({ id: list.id, name: list.name }));
 
   return (
@@ -178,7 +180,7 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             ))}
           </div>
         </Card>
-        <DyeModelSection model={ensureDyeModel(handle, { dyeId: dye.id })} solvents={listSolvents(handle)} dyeCode={dye.code} />
+        <DyeModelSection model={ensureDyeModel(handle, { dyeId: dye.id })} solvents={solventList} dyeCode={dye.code} />
         <Card title="a*b* plane, one point per condition" className="lg:col-span-1">
           {planePoints.length ? <AbPlane points={planePoints} /> : <p className="text-sm text-ink-soft">No accepted colours yet.</p>}
         </Card>
@@ -202,8 +204,13 @@ export default async function DyePage({ params, searchParams }: { params: Promis
             ))}
           </ul>
         </Card>
-        <TitrationSection db={handle} dyeId={dye.id} />
+        <TitrationSection db={handle} dyeId={dye.id} canEdit={hasRole(user.role, BENCH_ROLES)} />
         <SpectraSection db={handle} dyeId={dye.id} />
+        {hasRole(user.role, BENCH_ROLES) && (
+          <Card title="Add an absorption spectrum" className="lg:col-span-3">
+            <SpectrumUpload dyeCode={dye.code} solvents={solventList.map((s) => ({ id: s.id, name: s.name }))} />
+          </Card>
+        )}
         <ReplicateGroups rows={accepted} />
         <Card title="Measurements" className="lg:col-span-2">
           <div className="max-h-96 overflow-auto overscroll-contain">

@@ -4,7 +4,7 @@ import { notFound } from "next/navigation";
 import { db } from "@/db/client";
 import { listCalibrationTargets, listRackTemplates, listSolventPanels, photoMeasurements } from "@/db/queries/bench";
 import { listDyes } from "@/db/queries/dyes";
-import { benchProfiles } from "@/db/queries/lighting";
+import { benchProfiles, listCheckStandards } from "@/db/queries/lighting";
 import { labD50ToLabD65 } from "@/lib/color/convert";
 import { getPhoto } from "@/db/queries/photos";
 import { listSolvents } from "@/db/queries/solvents";
@@ -12,6 +12,7 @@ import { MarkingEditor } from "@/components/bench/marking-editor";
 import { PhotoFileMissing } from "@/components/bench/photo-file-missing";
 import { objectStore } from "@/lib/storage";
 import { SavedMarking } from "@/components/bench/saved-marking";
+import { FlagBadges } from "@/components/bench/flag-badges";
 import { Badge, Card, PageHeader } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import { Refused } from "@/components/shell/refused";
@@ -41,6 +42,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
   const solvents = listSolvents(handle).map((s) => ({ id: s.id, name: s.name, medium: s.medium, cautions: s.cautions }));
   const templates = listRackTemplates(handle).map((t) => ({ id: t.id, name: t.name, regions: t.regions }));
   const panels = listSolventPanels(handle).map((p) => ({ id: p.id, name: p.name, entries: p.entries }));
+  const checkStandards = listCheckStandards(handle).map((c) => ({ id: c.id, name: c.name, kind: c.kind, lab: [c.l, c.a, c.b] as [number, number, number], whitePoint: c.whitePoint === "D50" ? ("D50" as const) : ("D65" as const) }));
   const existing = photoMeasurements(handle, { photoId: photo.id });
   const fileMissing = !(await objectStore().has(photo.storageKey));
   return (
@@ -66,6 +68,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
         templates={templates}
         patches={patches}
         panels={panels}
+        checkStandards={checkStandards}
       />
       )}
       <Card title={`Measured in this photo (${existing.length})`} className="mt-6">
@@ -97,11 +100,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
                   </span>
                   <Badge tone={m.reviewState === "accepted" ? "ok" : m.reviewState === "rejected" ? "bad" : "neutral"}>{m.reviewState}</Badge>
                   <span className="text-ink-soft">by {author}</span>
-                  {m.flags.map((f) => (
-                    <Badge key={f} tone="warn">
-                      {f}
-                    </Badge>
-                  ))}
+                  <FlagBadges flags={m.flags} />
                 </li>
               );
             })}
