@@ -14,6 +14,7 @@ import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
 import { count } from "@/lib/text/count";
 import { KeepHit } from "@/components/shortlists/keep-hit";
+import { MediumSelect } from "@/components/search/medium-select";
 
 type Hit = { dye: { id: string; code: string; name: string }; deltaE00: number; lab: Lab; condition: Condition; predicted: boolean; measurements: number; replicates?: number; spreadDeltaE00?: number; uncertaintyDeltaE00?: number | null; tieWithPrevious?: boolean };
 type Answer = { target: { lab: Lab; word?: string }; results: Hit[] };
@@ -105,16 +106,7 @@ export function ColourSearch({ solvents, lists = [] }: { solvents: { id: string;
             Include colours predicted by the solvent models (marked, with their uncertainty)
           </label>
           <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5">
-            <label className="text-sm font-medium">
-              Medium
-              <select name="medium" defaultValue={params.get("medium") ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
-                <option value="any">any</option>
-                <option value="protic">protic</option>
-                <option value="dipolar-aprotic">dipolar aprotic</option>
-                <option value="nonpolar">non-polar</option>
-                <option value="aprotic">aprotic (dipolar or non-polar)</option>
-              </select>
-            </label>
+            <MediumSelect name="medium" defaultValue={params.get("medium")} />
             <label className="text-sm font-medium">
               Acid / base
               <select name="acidBase" defaultValue={params.get("acidBase") ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">

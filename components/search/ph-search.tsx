@@ -13,6 +13,7 @@ import { PH_RANGE_RULE } from "@/lib/search/ph-range";
 import { count } from "@/lib/text/count";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
+import { MediumSelect } from "@/components/search/medium-select";
 
 type Transition = { series: { name: string; medium: string; ionicStrengthMolL: number | null }; pKa: number; pKaStdErr: number | null; transition: [number, number]; thresholdDeltaE00: number; acidLab: Lab; baseLab: Lab; flags: string[]; centreOffset: number };
 type Hit = { dye: { id: string; code: string; name: string }; phTransition: Transition; deltaE00?: number; lab?: Lab; condition?: Condition };
@@ -58,16 +59,7 @@ export function PhSearch() {
               to pH
               <input name="phTo" inputMode="decimal" defaultValue={params.get("phTo") ?? ""} placeholder="e.g. 7" required className="mt-1 min-h-11 w-full rounded-md border border-field px-3 font-normal" />
             </label>
-            <label className="text-sm font-medium">
-              Medium of the series
-              <select name="medium" defaultValue={params.get("medium") ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
-                <option value="any">any</option>
-                <option value="protic">protic</option>
-                <option value="dipolar-aprotic">dipolar aprotic</option>
-                <option value="nonpolar">non-polar</option>
-                <option value="aprotic">aprotic (dipolar or non-polar)</option>
-              </select>
-            </label>
+            <MediumSelect name="medium" label="Medium of the series" defaultValue={params.get("medium")} />
           </div>
           <div className="flex flex-wrap items-center gap-3 text-sm">
             <label className="flex items-center gap-2">

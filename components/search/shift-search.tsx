@@ -9,6 +9,7 @@ import { Swatch } from "@/components/ui/swatch";
 import type { Lab } from "@/lib/color/types";
 import { describeCondition, fetchJson, type Condition } from "./api";
 import { SearchFailed, Searching } from "./query-feedback";
+import { MediumSelect } from "@/components/search/medium-select";
 
 type Side = { lab: Lab; measurementId: string; condition: Condition };
 type Check = { kind: "protan" | "deutan" | "tritan"; deltaE00: number; passes: boolean };
@@ -42,16 +43,7 @@ const PRESETS = [
 function ConditionPicker({ prefix, params }: { prefix: "a" | "b"; params: URLSearchParams }) {
   return (
     <>
-      <label className="text-sm font-medium">
-        Medium
-        <select name={`${prefix}Medium`} defaultValue={params.get(`${prefix}Medium`) ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
-          <option value="any">any</option>
-          <option value="protic">protic</option>
-          <option value="dipolar-aprotic">dipolar aprotic</option>
-          <option value="nonpolar">non-polar</option>
-          <option value="aprotic">aprotic (either)</option>
-        </select>
-      </label>
+      <MediumSelect name={`${prefix}Medium`} defaultValue={params.get(`${prefix}Medium`)} />
       <label className="text-sm font-medium">
         Acid / base
         <select name={`${prefix}AcidBase`} defaultValue={params.get(`${prefix}AcidBase`) ?? "any"} className="mt-1 min-h-11 w-full rounded-md border border-field bg-white px-3 font-normal">
