@@ -175,3 +175,27 @@ export function fitTwoPkaFromColours(points: readonly PhPoint[], blankLab: Lab =
     messages: [],
   };
 }
+
+/** Protons released per dye molecule at `pH`: n̄ = f(HIn⁻) + 2·f(In²⁻), 0 to 2 (the two-step titration curve). */
+export function protonsReleased(pH: number, pKa1: number, pKa2: number): number {
+  const [, f1, f2] = diproticFractions(pH, pKa1, pKa2);
+  return f1 + 2 * f2;
+}
+
+/**
+ * Where a vial's colour lies on the fitted model's path, as protons released (n̄ at the pH, scanned
+ * every 0.02 over pKa1 − 4 to pKa2 + 4, whose model colour is closest in ΔE00), for plotting measured
+ * vials against the fitted curve.
+ */
+export function apparentProtonsReleased(model: ThreeFormModel, lab: Lab, pKa1: number, pKa2: number): number {
+  let best = pKa1 - 4;
+  let bestD = Infinity;
+  for (let pH = pKa1 - 4; pH <= pKa2 + 4; pH += 0.02) {
+    const d = deltaE00(model.labAtPh(pH, pKa1, pKa2), lab);
+    if (d < bestD) {
+      bestD = d;
+      best = pH;
+    }
+  }
+  return protonsReleased(best, pKa1, pKa2);
+}
