@@ -53,7 +53,7 @@ export default async function PhSeriesDetailPage({ params }: { params: Promise<{
         </p>
       </Card>
       {canEdit ? (
-        <Card title="Vials">
+        <Card title="Vials" className="mt-4">
           <SeriesEditor
             seriesId={series.id}
             head={{ ...medium, name: series.name, ionicStrengthMolL: series.ionicStrengthMolL, notes: series.notes }}
@@ -63,7 +63,7 @@ export default async function PhSeriesDetailPage({ params }: { params: Promise<{
           />
         </Card>
       ) : (
-        <Card title={`${series.vials.length} vials`}>
+        <Card title={`${series.vials.length} vials`} className="mt-4">
           <table className="w-full text-left text-sm" data-testid="series-vials">
             <thead className="text-xs text-ink-soft">
               <tr>
