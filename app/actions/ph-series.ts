@@ -2,9 +2,10 @@
 
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
+import { pkaText } from "@/components/acid-base/format";
 import { db } from "@/db/client";
 import { checkInstrumentRows } from "@/db/queries/instrument-import";
-import { deletePhSeries, ensurePhSeriesFit, importPhSeries, savePhSeries } from "@/db/queries/ph-series";
+import { deletePhSeries, ensurePhSeriesFit, getPhSeries, importPhSeries, savePhSeries } from "@/db/queries/ph-series";
 import { formAction, parseInput } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
 import { AppError } from "@/lib/errors";
@@ -41,9 +42,24 @@ export const savePhSeriesAction = formAction({ access: BENCH_ROLES, schema: seri
   const id = savePhSeries(handle, { actorId: user.id, input });
   const fit = ensurePhSeriesFit(handle, { seriesId: id });
   refreshPages();
-  const fitted = fit.ok ? `pKa ${fit.fit.pKa.toFixed(2)} ± ${fit.fit.pKaStdErr.toFixed(2)} from ${fit.vials} accepted vials.` : `No pKa yet: ${fit.error}`;
+  const fitted = fit.ok ? `${pkaText(fit)} from ${fit.vials} accepted vials.` : `No pKa yet: ${fit.error}`;
   return { ok: true, message: `Series “${input.head.name}” saved with ${input.vials.length} vials. ${fitted}`, data: { id } };
 });
+
+/**
+ * The chemist's choice for a series: one colour change (one pKa) or two (H2In ⇌ HIn⁻ ⇌ In²⁻, two pKa's).
+ * The fit is redone at once with that choice and stored with it.
+ */
+export const setPhFitStepsAction = formAction(
+  { access: BENCH_ROLES, schema: z.object({ id: z.string().min(1, { error: "Choose a series first." }).max(100), steps: z.enum(["1", "2"], { error: "Choose one step or two steps." }) }) },
+  async ({ id, steps }, { user }) => {
+    const handle = db();
+    if (!getPhSeries(handle, { id })) throw new AppError("not_found", "That series no longer exists.");
+    const fit = ensurePhSeriesFit(handle, { seriesId: id, steps: steps === "2" ? 2 : 1, actorId: user.id });
+    refreshPages();
+    return { ok: true, message: fit.ok ? `Fitted with ${steps === "2" ? "two steps" : "one step"}: ${pkaText(fit)}.` : `Fitted with ${steps === "2" ? "two steps" : "one step"}, no pKa: ${fit.error}` };
+  },
+);
 
 export const deletePhSeriesAction = formAction({ access: BENCH_ROLES, schema: z.object({ id: z.string().min(1, { error: "Choose a series first." }).max(100) }) }, async ({ id }, { user }) => {
   deletePhSeries(db(), { actorId: user.id, id });

@@ -10,6 +10,7 @@ import { and, asc, eq, inArray, isNotNull, isNull, ne } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { ColorInputError } from "../../lib/color/errors";
 import { fitPkaFromColours, type PkaFit } from "../../lib/color/pka";
+import { fitTwoPkaFromColours, type PhFitSteps, type TwoStepPkaFit } from "../../lib/color/pka-two-step";
 import type { Lab } from "../../lib/color/types";
 import { AppError } from "../../lib/errors";
 import type { TransitionCandidate } from "../../lib/search/ph-range";
@@ -20,10 +21,20 @@ import { phSeriesForDye } from "./acid-base";
 import { recordAudit } from "./audit";
 import { saveInstrumentMeasurements, type InstrumentColourToSave } from "./bench";
 
-/** Bump when the fit or what is stored changes, so every stored fit is recomputed. */
-export const PH_FIT_VERSION = 1;
+/** Bump when the fit or what is stored changes, so every stored fit is recomputed. 2: `steps` and the two-step fit. */
+export const PH_FIT_VERSION = 2;
 
-export type StoredPhFit = { ok: true; fit: PkaFit; vials: number } | { ok: false; error: string; vials: number };
+/**
+ * The stored fit. `steps` is the chemist's choice for the series (one colour change or two, default 1);
+ * it is kept in this row (no column of its own) and carried over whenever the fit is redone.
+ */
+export type StoredPhFit =
+  | { ok: true; steps: 1; fit: PkaFit; vials: number }
+  | { ok: true; steps: 2; fit: TwoStepPkaFit; vials: number }
+  | { ok: false; steps: PhFitSteps; error: string; vials: number };
+
+/** The steps a stored result asks for (rows written before version 2 have none: one step). */
+const stepsOf = (result: unknown): PhFitSteps => ((result as { steps?: unknown } | undefined)?.steps === 2 ? 2 : 1);
 
 const second = alias(solvents, "second_solvent");
 
@@ -225,35 +236,53 @@ function fitInputs(db: Db, seriesId: string) {
   return vialRows(db, seriesId).filter((v) => v.reviewState === "accepted");
 }
 
-function cacheKeyOf(vials: readonly SeriesVial[]): string {
+function cacheKeyOf(vials: readonly SeriesVial[], steps: PhFitSteps): string {
   const h = createHash("sha256");
-  h.update(`v${PH_FIT_VERSION}\n`);
+  h.update(`v${PH_FIT_VERSION} steps ${steps}\n`);
   for (const v of vials) h.update(`${v.measurementId}|${v.pH}|${v.lab.join("|")}\n`);
   return h.digest("hex").slice(0, 32);
 }
 
-function computeFit(vials: readonly SeriesVial[]): StoredPhFit {
+function computeFit(vials: readonly SeriesVial[], steps: PhFitSteps): StoredPhFit {
+  const points = vials.map((v) => ({ pH: v.pH, lab: v.lab }));
   try {
-    return { ok: true, fit: fitPkaFromColours(vials.map((v) => ({ pH: v.pH, lab: v.lab }))), vials: vials.length };
+    return steps === 2 ? { ok: true, steps, fit: fitTwoPkaFromColours(points), vials: vials.length } : { ok: true, steps, fit: fitPkaFromColours(points), vials: vials.length };
   } catch (error) {
     if (!(error instanceof ColorInputError)) throw error;
-    return { ok: false, error: error.message, vials: vials.length };
+    return { ok: false, steps, error: error.message, vials: vials.length };
   }
 }
 
-/** The series' fit: the stored one while its cache key matches the accepted vials, else fitted again and stored. */
-export function ensurePhSeriesFit(db: Db, { seriesId }: { seriesId: string }): StoredPhFit {
+/** The fitted pKa('s) of a result, for audit entries and messages. */
+export function fittedPkas(result: StoredPhFit): number[] {
+  return !result.ok ? [] : result.steps === 2 ? result.fit.pKas : [result.fit.pKa];
+}
+
+/**
+ * The series' fit: the stored one while its cache key matches the accepted vials and the steps asked
+ * for, else fitted again and stored. `steps` changes the chemist's choice (audited with `actorId`);
+ * without it the stored choice holds.
+ */
+export function ensurePhSeriesFit(db: Db, { seriesId, steps: asked, actorId = null }: { seriesId: string; steps?: PhFitSteps; actorId?: string | null }): StoredPhFit {
   const vials = fitInputs(db, seriesId);
-  const key = cacheKeyOf(vials);
   const stored = db.select().from(phSeriesFits).where(eq(phSeriesFits.seriesId, seriesId)).get();
+  const steps = asked ?? stepsOf(stored?.result);
+  const key = cacheKeyOf(vials, steps);
   if (stored && stored.cacheKey === key) return stored.result as StoredPhFit;
-  const result = computeFit(vials);
+  const result = computeFit(vials, steps);
   const row = { cacheKey: key, version: PH_FIT_VERSION, result, computedAt: new Date() };
   db.transaction((tx) => {
     // The series may have been deleted while the fit ran.
     if (!tx.select({ id: phSeries.id }).from(phSeries).where(eq(phSeries.id, seriesId)).get()) return;
     tx.insert(phSeriesFits).values({ seriesId, ...row }).onConflictDoUpdate({ target: phSeriesFits.seriesId, set: row }).run();
-    recordAudit(tx, { actorId: null, action: "ph-fit.recompute", entity: "ph_series", entityId: seriesId, before: stored ? { cacheKey: stored.cacheKey } : null, after: { cacheKey: key, pKa: result.ok ? result.fit.pKa : null } });
+    recordAudit(tx, {
+      actorId,
+      action: asked !== undefined && asked !== stepsOf(stored?.result) ? "ph-fit.steps" : "ph-fit.recompute",
+      entity: "ph_series",
+      entityId: seriesId,
+      before: stored ? { cacheKey: stored.cacheKey, steps: stepsOf(stored.result) } : null,
+      after: { cacheKey: key, steps, pKa: fittedPkas(result) },
+    });
   });
   return result;
 }
@@ -263,7 +292,8 @@ export function ensureAllPhSeriesFits(db: Db): number {
   let n = 0;
   for (const { id } of db.select({ id: phSeries.id }).from(phSeries).all()) {
     const before = db.select({ key: phSeriesFits.cacheKey }).from(phSeriesFits).where(eq(phSeriesFits.seriesId, id)).get()?.key;
-    if (before !== cacheKeyOf(fitInputs(db, id))) {
+    const stored = db.select({ result: phSeriesFits.result }).from(phSeriesFits).where(eq(phSeriesFits.seriesId, id)).get();
+    if (before !== cacheKeyOf(fitInputs(db, id), stepsOf(stored?.result))) {
       ensurePhSeriesFit(db, { seriesId: id });
       n++;
     }
@@ -290,10 +320,25 @@ export function transitionCandidates(db: Db, { solventId, media }: { solventId?:
     .flatMap((s): TransitionCandidate[] => {
       const f = fits.get(s.id);
       if (!f?.ok) return [];
+      const series = { id: s.id, name: s.name, medium: s.mediumLabel, solventId: s.solvent.id, ionicStrengthMolL: s.ionicStrengthMolL };
+      // A two-step indicator changes colour twice: each step is a candidate with its own end colours.
+      if (f.steps === 2) {
+        return ([0, 1] as const).map((i) => ({
+          dye: s.dye,
+          series,
+          pKa: f.fit.pKas[i],
+          pKaStdErr: Number.isFinite(f.fit.pKaStdErrs[i]) ? f.fit.pKaStdErrs[i] : null,
+          transition: f.fit.transitions[i],
+          thresholdDeltaE00: f.fit.transitionThresholdDeltaE00,
+          acidLab: f.fit.labs[i],
+          baseLab: f.fit.labs[i + 1],
+          flags: [],
+        }));
+      }
       return [
         {
           dye: s.dye,
-          series: { id: s.id, name: s.name, medium: s.mediumLabel, solventId: s.solvent.id, ionicStrengthMolL: s.ionicStrengthMolL },
+          series,
           pKa: f.fit.pKa,
           pKaStdErr: Number.isFinite(f.fit.pKaStdErr) ? f.fit.pKaStdErr : null,
           transition: f.fit.transition,

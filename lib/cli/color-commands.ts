@@ -5,7 +5,8 @@ import { ColorInputError } from "../color/errors";
 import type { WhitePointName } from "../color/illuminants";
 import { measureCalibratedColour, type DayReference } from "../color/calibrated-measure";
 import { decodePhoto, measureRegion, type RegionSpec } from "../color/regions";
-import { fitPkaFromColours, parsePhSeriesCsv } from "../color/pka";
+import { fitPkaFromColours, parsePhSeriesCsv, type PhPoint } from "../color/pka";
+import { fitTwoPkaFromColours } from "../color/pka-two-step";
 import { parseAbsorbanceCsv, spectrumColour } from "../color/spectrum";
 import type { Lab } from "../color/types";
 import { readCalibrationFile } from "./calibration-file";
@@ -161,16 +162,39 @@ export async function spectrumCommand(args: string[]): Promise<unknown> {
   }
 }
 
-const PKA_USAGE = "use 'pka <csv> [--blank L,a,b]'";
+const PKA_USAGE = "use 'pka <csv> [--blank L,a,b] [--steps 1|2]'";
+
+/** `--steps 2`: a two-step indicator (H2In ⇌ HIn⁻ ⇌ In²⁻), beyond the contract's one-pKa output. */
+function twoStepOutput(points: PhPoint[], blank: Lab) {
+  const fit = fitTwoPkaFromColours(points, blank);
+  return {
+    steps: 2,
+    pKas: fit.pKas,
+    pKaStdErrs: fit.pKaStdErrs,
+    transitions: fit.transitions,
+    acidLab: fit.labs[0],
+    intermediateLab: fit.labs[1],
+    baseLab: fit.labs[2],
+    rmsDeltaE00: fit.rmsDeltaE00,
+    method: fit.method,
+    apparent: true,
+    transitionThresholdDeltaE00: fit.transitionThresholdDeltaE00,
+    bootstrapRuns: fit.bootstrapRuns,
+    bands: fit.bands,
+  };
+}
 
 export async function pkaCommand(args: string[]): Promise<unknown> {
-  const { values, positionals } = parse(args, { blank: { type: "string" } }, PKA_USAGE);
+  const { values, positionals } = parse(args, { blank: { type: "string" }, steps: { type: "string" } }, PKA_USAGE);
+  if (values.steps !== undefined && values.steps !== "1" && values.steps !== "2") throw new CliError(`--steps is 1 (one colour change) or 2 (two changes, H2In ⇌ HIn⁻ ⇌ In²⁻), not “${values.steps}”; ${PKA_USAGE}.`);
   if (positionals.length > 1) throw new CliError(`Give one pH series file, not ${positionals.length}; ${PKA_USAGE}.`);
   const blank = values.blank !== undefined ? (numberList(values.blank, 3, "--blank", "100,0,0") as Lab) : ([100, 0, 0] as Lab);
   const bytes = await readInput(positionals[0], "pH series CSV", PKA_USAGE);
   try {
     const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
-    const fit = fitPkaFromColours(parsePhSeriesCsv(text), blank);
+    const points = parsePhSeriesCsv(text);
+    if (values.steps === "2") return twoStepOutput(points, blank);
+    const fit = fitPkaFromColours(points, blank);
     return {
       pKa: fit.pKa,
       pKaStdErr: fit.pKaStdErr,

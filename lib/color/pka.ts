@@ -84,11 +84,13 @@ const LN_P_RANGE: [number, number] = [Math.log(1e-4), Math.log(5)];
 const clamp = (v: number, [lo, hi]: [number, number]) => Math.min(hi, Math.max(lo, v));
 const outside = (v: number, [lo, hi]: [number, number]) => (v < lo ? lo - v : v > hi ? v - hi : 0);
 
-function bandOf(p: readonly number[]): AbsorptionBand {
+/** Band of one form from its fit parameters (clamped to the ranges above). */
+export function bandOf(p: readonly number[]): AbsorptionBand {
   return { wavenumberCm1: 1000 * clamp(p[0], NU_RANGE), fwhmCm1: 1000 * Math.exp(clamp(p[1], LN_W_RANGE)), peakAbsorbance: Math.exp(clamp(p[2], LN_P_RANGE)) };
 }
 
-function penalty(p: readonly number[]): number {
+/** How far one form's fit parameters lie outside their ranges (0 inside). */
+export function penalty(p: readonly number[]): number {
   return outside(p[0], NU_RANGE) + 10 * outside(p[1], LN_W_RANGE) + 10 * outside(p[2], LN_P_RANGE);
 }
 
@@ -117,48 +119,54 @@ function weights5(): Grid5 {
 }
 
 /**
- * The forward model: CIELAB (D65) of the per-wavelength mixture 10^−((1−f)·A_acid + f·A_base), each
- * form's absorbance from the shared band model (lib/color/band.ts), seen through the blank vial. The blank
- * (the vial with solvent only, measured as a colour) is applied as a component-wise XYZ factor
- * blank/white (an approximation: the blank's spectrum is not known).
+ * Colour of a mixture of forms, each an absorption band of the shared band model (lib/color/band.ts):
+ * CIELAB (D65) of 10^−Σ wᵢ·Aᵢ(λ), mixed per wavelength, seen through the blank vial. The blank (the vial
+ * with solvent only, measured as a colour) is applied as a component-wise XYZ factor blank/white (an
+ * approximation: the blank's spectrum is not known).
  */
-export class TwoFormModel {
-  private readonly acid: Float64Array;
-  private readonly base: Float64Array;
+export class FormMixture {
+  /** Per form, −ln 10 · A(λ) on the 5 nm grid, so that T = exp(Σ wᵢ·valueᵢ). */
+  private readonly forms: Float64Array[];
   private readonly g = weights5();
   private readonly white: Xyz = WHITE_POINTS_2DEG.D65;
   private readonly blankFactor: Xyz;
 
-  constructor(
-    readonly acidBand: AbsorptionBand,
-    readonly baseBand: AbsorptionBand,
-    blankLab: Lab = [100, 0, 0],
-  ) {
-    const n = this.g.nm.length;
-    this.acid = new Float64Array(n);
-    this.base = new Float64Array(n);
-    for (let k = 0; k < n; k++) {
-      // Stored as −ln 10 · A so that T = exp(value).
-      this.acid[k] = -Math.LN10 * bandAbsorbanceAt(acidBand, this.g.nm[k]);
-      this.base[k] = -Math.LN10 * bandAbsorbanceAt(baseBand, this.g.nm[k]);
-    }
+  constructor(bands: readonly AbsorptionBand[], blankLab: Lab = [100, 0, 0]) {
+    this.forms = bands.map((band) => Float64Array.from(this.g.nm, (nm) => -Math.LN10 * bandAbsorbanceAt(band, nm)));
     this.blankFactor = blankLab[0] === 100 && blankLab[1] === 0 && blankLab[2] === 0 ? [1, 1, 1] : blankFactorOf(blankLab, this.white);
   }
 
-  /** Colour at base fraction f. */
-  labAt(f: number): Lab {
+  /** Colour with form i at mole fraction `weights[i]`. */
+  labOf(weights: readonly number[]): Lab {
     const { wx, wy, wz } = this.g;
     let x = 0;
     let y = 0;
     let z = 0;
-    const g = 1 - f;
     for (let i = 0; i < wx.length; i++) {
-      const t = Math.exp(g * this.acid[i] + f * this.base[i]);
+      let e = 0;
+      for (let j = 0; j < this.forms.length; j++) e += weights[j] * this.forms[j][i];
+      const t = Math.exp(e);
       x += t * wx[i];
       y += t * wy[i];
       z += t * wz[i];
     }
     return xyzToLab([x * this.blankFactor[0], y * this.blankFactor[1], z * this.blankFactor[2]], this.white);
+  }
+}
+
+/** The forward model of a one-step indicator: the acid form HIn and the base form In⁻ (FormMixture). */
+export class TwoFormModel extends FormMixture {
+  constructor(
+    readonly acidBand: AbsorptionBand,
+    readonly baseBand: AbsorptionBand,
+    blankLab: Lab = [100, 0, 0],
+  ) {
+    super([acidBand, baseBand], blankLab);
+  }
+
+  /** Colour at base fraction f. */
+  labAt(f: number): Lab {
+    return this.labOf([1 - f, f]);
   }
 }
 
@@ -178,7 +186,7 @@ function sseOf(x: readonly number[], points: readonly PhPoint[], blank: Lab): nu
 }
 
 /** A single band whose colour is close to `lab` (start values only), colourless allowed. */
-function startForm(lab: Lab, blank: Lab): number[] {
+export function startForm(lab: Lab, blank: Lab): number[] {
   if (deltaE00(lab, blank) < 1.5) return [20, Math.log(4), Math.log(0.001)];
   let best: { x: number[]; v: number } = { x: [20, Math.log(4), Math.log(0.5)], v: Infinity };
   for (let nu = 13; nu <= 27; nu += 1) {
@@ -220,7 +228,8 @@ function fitOnce(points: readonly PhPoint[], blank: Lab, start: number[] | null,
   return { pKa: r.x[0], acid: r.x.slice(1, 4), base: r.x.slice(4, 7), sse: r.value };
 }
 
-function validate(points: readonly PhPoint[], blankLab: Lab) {
+/** Refuses a series no pKa can be read from (too few vials or pH values, not numbers, a bad blank). */
+export function validatePhSeries(points: readonly PhPoint[], blankLab: Lab) {
   if (points.length < 5) throw new ColorInputError(`A pKa fit needs at least 5 vials across the pH range and ${points.length} were given; measure more pH values.`);
   if (!points.every((p) => Number.isFinite(p.pH) && p.lab.every(Number.isFinite))) {
     throw new ColorInputError("A vial of the pH series has a value that is not a number; check the data.");
@@ -242,7 +251,7 @@ function validate(points: readonly PhPoint[], blankLab: Lab) {
  * vials inside the transition, and a colourless form (one-colour indicator).
  */
 export function fitPkaFromColours(points: readonly PhPoint[], blankLab: Lab = [100, 0, 0], opts: { bootstrapRuns?: number } = {}): PkaFit {
-  validate(points, blankLab);
+  validatePhSeries(points, blankLab);
   const fit = fitOnce(points, blankLab, null, 1500);
   const acidBand = bandOf(fit.acid);
   const baseBand = bandOf(fit.base);
@@ -260,17 +269,9 @@ export function fitPkaFromColours(points: readonly PhPoint[], blankLab: Lab = [1
     throw new ColorInputError(`The fitted pKa ${fit.pKa.toFixed(2)} lies outside the measured pH range ${lo}–${hi}; add vials on that side of the transition.`);
   }
 
-  const runs = opts.bootstrapRuns ?? BOOTSTRAP_RUNS;
-  const random = mulberry32(0x9ca + points.length);
-  const boot: number[] = [];
   const start = [fit.pKa, ...fit.acid, ...fit.base];
-  for (let b = 0; b < runs; b++) {
-    const sample = points.map(() => points[Math.floor(random() * points.length)]);
-    if (new Set(sample.map((p) => p.pH)).size < 4) continue;
-    boot.push(fitOnce(sample, blankLab, start, 250, false).pKa);
-  }
-  const mean = boot.reduce((s, v) => s + v, 0) / Math.max(1, boot.length);
-  const pKaStdErr = boot.length > 1 ? Math.sqrt(boot.reduce((s, v) => s + (v - mean) ** 2, 0) / (boot.length - 1)) : Number.NaN;
+  const boot = bootstrapStdErrs(points, opts.bootstrapRuns ?? BOOTSTRAP_RUNS, (sample) => [fitOnce(sample, blankLab, start, 250, false).pKa]);
+  const pKaStdErr = boot.stdErrs[0];
 
   const residuals = points.map((p) => deltaE00(p.lab, model.labAt(baseFraction(p.pH, fit.pKa))));
   const rmsDeltaE00 = Math.sqrt(residuals.reduce((s, d) => s + d * d, 0) / residuals.length);
@@ -307,7 +308,7 @@ export function fitPkaFromColours(points: readonly PhPoint[], blankLab: Lab = [1
     method: "colour-forward-model",
     pKa: fit.pKa,
     pKaStdErr,
-    bootstrapRuns: boot.length,
+    bootstrapRuns: boot.runs,
     transition: visualTransition(model, fit.pKa, acidLab, baseLab),
     transitionThresholdDeltaE00: TRANSITION_THRESHOLD_DELTA_E00,
     acidLab,
@@ -322,21 +323,52 @@ export function fitPkaFromColours(points: readonly PhPoint[], blankLab: Lab = [1
 }
 
 /**
+ * Standard errors by bootstrap (B. Efron & R. Tibshirani, "An Introduction to the Bootstrap", 1993):
+ * the standard deviation of each refitted value over `runs` resamples of the vials with replacement,
+ * seeded by the series length so a series always gives the same figures. Resamples with fewer than 4
+ * distinct pH values are skipped.
+ */
+export function bootstrapStdErrs(points: readonly PhPoint[], runs: number, refit: (sample: PhPoint[]) => number[]): { stdErrs: number[]; runs: number } {
+  const random = mulberry32(0x9ca + points.length);
+  const boot: number[][] = [];
+  for (let b = 0; b < runs; b++) {
+    const sample = points.map(() => points[Math.floor(random() * points.length)]);
+    if (new Set(sample.map((p) => p.pH)).size < 4) continue;
+    boot.push(refit(sample));
+  }
+  if (boot.length < 2) return { stdErrs: [Number.NaN], runs: boot.length };
+  const stdErrs = boot[0].map((_, i) => {
+    const mean = boot.reduce((s, v) => s + v[i], 0) / boot.length;
+    return Math.sqrt(boot.reduce((s, v) => s + (v[i] - mean) ** 2, 0) / (boot.length - 1));
+  });
+  return { stdErrs, runs: boot.length };
+}
+
+/**
+ * The pH range within [from, to] where `colourAt` differs from both end colours by at least the
+ * threshold, scanned every 0.01 pH; [NaN, NaN] when no pH there qualifies.
+ */
+export function visibleChangeInterval(colourAt: (pH: number) => Lab, from: number, to: number, endA: Lab, endB: Lab, threshold = TRANSITION_THRESHOLD_DELTA_E00): [number, number] {
+  let low = Number.NaN;
+  let high = Number.NaN;
+  for (let k = 0; from + k / 100 <= to + 1e-9; k++) {
+    const pH = from + k / 100;
+    const lab = colourAt(pH);
+    if (deltaE00(lab, endA) >= threshold && deltaE00(lab, endB) >= threshold) {
+      if (Number.isNaN(low)) low = pH;
+      high = pH;
+    }
+  }
+  return [low, high];
+}
+
+/**
  * The pH range where the model colour differs from both end colours by at least the threshold, scanned
  * every 0.01 pH over pKa ± 5. Not pKa ± 1: a one-colour indicator's interval is lopsided, and an intense
  * two-colour one is wider than a faint one.
  */
 export function visualTransition(model: TwoFormModel, pKa: number, acidLab: Lab, baseLab: Lab, threshold = TRANSITION_THRESHOLD_DELTA_E00): [number, number] {
-  let low = Number.NaN;
-  let high = Number.NaN;
-  for (let k = -500; k <= 500; k++) {
-    const pH = pKa + k / 100;
-    const lab = model.labAt(baseFraction(pH, pKa));
-    if (deltaE00(lab, acidLab) >= threshold && deltaE00(lab, baseLab) >= threshold) {
-      if (Number.isNaN(low)) low = pH;
-      high = pH;
-    }
-  }
+  const [low, high] = visibleChangeInterval((pH) => model.labAt(baseFraction(pH, pKa)), pKa - 5, pKa + 5, acidLab, baseLab, threshold);
   return Number.isNaN(low) ? [pKa, pKa] : [low, high];
 }
 

@@ -12,7 +12,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { labToLinearSrgb, linearSrgbToLab } from "@/lib/color/convert";
 import { deltaE00 } from "@/lib/color/difference";
 import { srgbEncode } from "@/lib/color/srgb";
-import { indicatorForm, indicatorSeries } from "../support/indicator-series";
+import { indicatorForm, indicatorSeries, twoStepIndicatorSeries } from "../support/indicator-series";
 import type { Lab } from "@/lib/color/types";
 
 const ROOT = process.cwd();
@@ -82,6 +82,9 @@ beforeAll(async () => {
   fs.writeFileSync(file("series.csv"), ["pH,L,a,b", ...rows].join("\n") + "\n");
   fs.writeFileSync(file("short-series.csv"), ["pH,L,a,b", ...rows.slice(0, 3)].join("\n") + "\n");
   fs.writeFileSync(file("binary.csv"), Buffer.from([0xff, 0xfe, 0x00, 0x81, 0x00]));
+  // Thymol blue, two steps (same booklet: Ka1 2.2e-2, Ka2 6.3e-10; red → yellow → blue), three log-normal forms.
+  const thymol = twoStepIndicatorSeries([indicatorForm(545, 1.0), indicatorForm(430, 1.0), indicatorForm(596, 1.0)], -Math.log10(2.2e-2), -Math.log10(6.3e-10), Array.from({ length: 16 }, (_, i) => 0.75 * i), 0.2, 5);
+  fs.writeFileSync(file("thymol-blue.csv"), ["pH,L,a,b", ...thymol.map((p) => [p.pH, ...p.lab].join(","))].join("\n") + "\n");
 });
 
 describe("cli measure", () => {
@@ -216,11 +219,24 @@ describe("cli pka", () => {
     expect(out.rmsDeltaE00).toBeLessThan(0.5);
   });
 
+  it("--steps 2 fits both constants of a two-step indicator (thymol blue) within 0.1", async () => {
+    const run = await cli(["pka", file("thymol-blue.csv"), "--steps", "2"]);
+    expect(run.stderr).toBe("");
+    const out = JSON.parse(run.stdout);
+    expect(out.steps).toBe(2);
+    expect(Math.abs(out.pKas[0] - -Math.log10(2.2e-2)), run.stdout).toBeLessThan(0.1);
+    expect(Math.abs(out.pKas[1] - -Math.log10(6.3e-10)), run.stdout).toBeLessThan(0.1);
+    expect(out.pKaStdErrs.every((s: number) => s > 0 && s < 0.1)).toBe(true);
+    expect(out.transitions).toHaveLength(2);
+    expect(out.intermediateLab).toHaveLength(3);
+  }, 120_000);
+
   it.each([
     [["pka", "/no/such/series.csv"], /does not exist/],
     [["pka", "short-series.csv"], /at least 5 vials/],
     [["pka", "band.csv"], /header/],
     [["pka", "series.csv", "--blank", "100,0"], /3 comma-separated numbers/],
+    [["pka", "series.csv", "--steps", "3"], /--steps is 1 \(one colour change\) or 2/],
     [["pka"], /Give the pH series CSV file/],
   ])("refuses %j cleanly", async (args, pattern) => {
     const run = await cli(args.map((a, i) => (i === 1 && !a.startsWith("/") ? file(a) : a)));

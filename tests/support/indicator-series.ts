@@ -47,18 +47,43 @@ export function indicatorForm(lambdaMaxNm: number, peak: number, fwhm = 4200): L
 }
 
 export function mixtureLab(acid: SampledSpectrum, base: SampledSpectrum, f: number): Lab {
-  const mixed = { wavelengths: acid.wavelengths, values: acid.values.map((v, i) => (1 - f) * v + f * base.values[i]) };
+  return mixedFormsLab([acid, base], [1 - f, f]);
+}
+
+/** CIELAB D65 of forms mixed per wavelength in absorbance, form i at mole fraction weights[i]. */
+export function mixedFormsLab(forms: readonly SampledSpectrum[], weights: readonly number[]): Lab {
+  const mixed = { wavelengths: forms[0].wavelengths, values: forms[0].values.map((_, i) => forms.reduce((s, form, j) => s + weights[j] * form.values[i], 0)) };
   return xyzToLab(absorbanceToXyz(mixed, "D65"), WHITE_POINTS_2DEG.D65);
+}
+
+/** Vials at the given pHs with the forms' mole fractions from `fractionsAt`, Gaussian noise σ in each of L*, a*, b*. */
+function seriesOf(forms: LogNormalBand[][], fractionsAt: (pH: number) => number[], pHs: readonly number[], sigma: number, seed: number): PhPoint[] {
+  const random = mulberry32(seed);
+  const spectra = forms.map(formSpectrum);
+  return pHs.map((pH) => {
+    const lab = mixedFormsLab(spectra, fractionsAt(pH));
+    return { pH, lab: [lab[0] + sigma * gaussian(random), lab[1] + sigma * gaussian(random), lab[2] + sigma * gaussian(random)] as Lab };
+  });
 }
 
 /** Vials at the given pHs, Henderson–Hasselbalch fractions for `pKa`, Gaussian noise σ in each of L*, a*, b*. */
 export function indicatorSeries(acid: LogNormalBand[], base: LogNormalBand[], pKa: number, pHs: readonly number[], sigma: number, seed: number): PhPoint[] {
-  const random = mulberry32(seed);
-  const a = formSpectrum(acid);
-  const b = formSpectrum(base);
-  return pHs.map((pH) => {
+  return seriesOf([acid, base], (pH) => {
     const f = 1 / (1 + 10 ** (pKa - pH));
-    const lab = mixtureLab(a, b, f);
-    return { pH, lab: [lab[0] + sigma * gaussian(random), lab[1] + sigma * gaussian(random), lab[2] + sigma * gaussian(random)] as Lab };
-  });
+    return [1 - f, f];
+  }, pHs, sigma, seed);
+}
+
+/**
+ * A two-step indicator H2In ⇌ HIn⁻ ⇌ In²⁻: fractions [H⁺]² : [H⁺]·Ka1 : Ka1·Ka2 written out here in
+ * concentrations (not the fit's logarithmic form), three log-normal forms mixed per wavelength.
+ */
+export function twoStepIndicatorSeries(forms: [LogNormalBand[], LogNormalBand[], LogNormalBand[]], pKa1: number, pKa2: number, pHs: readonly number[], sigma: number, seed: number): PhPoint[] {
+  const ka1 = 10 ** -pKa1;
+  const ka2 = 10 ** -pKa2;
+  return seriesOf(forms, (pH) => {
+    const h = 10 ** -pH;
+    const d = h * h + h * ka1 + ka1 * ka2;
+    return [(h * h) / d, (h * ka1) / d, (ka1 * ka2) / d];
+  }, pHs, sigma, seed);
 }

@@ -1,4 +1,4 @@
-import { seText } from "@/components/acid-base/format";
+import { formColours, pkaText, transitionText } from "@/components/acid-base/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { db } from "@/db/client";
@@ -66,16 +66,18 @@ export default async function PhSeriesPage() {
                     {s.fit.ok ? (
                       <>
                         <td className="py-2 pr-3 tabular-nums">
-                          {s.fit.fit.pKa.toFixed(2)} ± {seText(s.fit.fit.pKaStdErr)}
+                          {pkaText(s.fit)}
                           <span className="block text-xs text-ink-soft">{s.fit.vials} accepted vials</span>
-                          {s.fit.fit.flags.length > 0 && <Badge tone="warn">check</Badge>}
+                          {s.fit.fit.messages.length > 0 && <Badge tone="warn">check</Badge>}
                         </td>
-                        <td className="py-2 pr-3 tabular-nums">
-                          pH {s.fit.fit.transition[0].toFixed(1)}–{s.fit.fit.transition[1].toFixed(1)}
-                        </td>
+                        <td className="py-2 pr-3 tabular-nums">{transitionText(s.fit)}</td>
                         <td className="py-2">
                           <span className="flex items-center gap-1">
-                            <Swatch lab={s.fit.fit.acidLab} size="sm" label="acid form" /> → <Swatch lab={s.fit.fit.baseLab} size="sm" label="base form" />
+                            {formColours(s.fit).map((c, i) => (
+                              <span key={c.name} className="flex items-center gap-1">
+                                {i > 0 && "→"} <Swatch lab={c.lab} size="sm" label={c.name} />
+                              </span>
+                            ))}
                           </span>
                         </td>
                       </>

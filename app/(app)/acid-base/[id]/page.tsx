@@ -1,4 +1,6 @@
-import { seText } from "@/components/acid-base/format";
+import { pkaText, transitionText } from "@/components/acid-base/format";
+import { StepsChoice } from "@/components/acid-base/steps-choice";
+import { SeriesBlock, TWO_STEP_NOTE, seriesBlock } from "@/components/acid-base/titration-section";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
@@ -33,13 +35,25 @@ export default async function PhSeriesDetailPage({ params }: { params: Promise<{
             </Link>{" "}
             in {series.mediumLabel}, ionic strength {series.ionicStrengthMolL === null ? "not recorded" : `${series.ionicStrengthMolL} mol/L`}.{" "}
             {fit.ok
-              ? `Apparent pKa ${fit.fit.pKa.toFixed(2)} ± ${seText(fit.fit.pKaStdErr)} from ${fit.vials} accepted vials; visual transition pH ${fit.fit.transition[0].toFixed(1)}–${fit.fit.transition[1].toFixed(1)}.`
+              ? `Apparent ${pkaText(fit)} from ${fit.vials} accepted vials; visual transition ${transitionText(fit)}.`
               : `No pKa from ${fit.vials} accepted vials: ${fit.error}`}
           </>
         }
       />
+      <Card title="pKa and titration curve">
+        <SeriesBlock block={seriesBlock(series, fit)} />
+        {canEdit && (
+          <div className="mt-4 border-t border-line pt-4">
+            <StepsChoice seriesId={series.id} steps={fit.steps} />
+          </div>
+        )}
+        <p className="mt-4 text-xs text-ink-soft">
+          ± is the standard deviation of refits over vials resampled with replacement (bootstrap); shaded: where the colour differs from both neighbouring forms by ΔE00 ≥ 3
+          (common practice, no source). {fit.steps === 2 && TWO_STEP_NOTE}
+        </p>
+      </Card>
       {canEdit ? (
-        <Card title="Vials">
+        <Card title="Vials" className="mt-4">
           <SeriesEditor
             seriesId={series.id}
             head={{ ...medium, name: series.name, ionicStrengthMolL: series.ionicStrengthMolL, notes: series.notes }}
@@ -49,7 +63,7 @@ export default async function PhSeriesDetailPage({ params }: { params: Promise<{
           />
         </Card>
       ) : (
-        <Card title={`${series.vials.length} vials`}>
+        <Card title={`${series.vials.length} vials`} className="mt-4">
           <table className="w-full text-left text-sm" data-testid="series-vials">
             <thead className="text-xs text-ink-soft">
               <tr>
