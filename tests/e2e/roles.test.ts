@@ -6,9 +6,9 @@ const base = inject("baseUrl");
 const browser = useBrowser();
 
 const EXPECTED_NAV = {
-  "admin@demo.test": ["Overview", "Bench", "Review", "Lighting", "Catalogue", "Measurements", "Solvents", "Search", "Tune", "Compare", "Shortlists", "People"],
-  "chemist@demo.test": ["Overview", "Bench", "Review", "Lighting", "Catalogue", "Measurements", "Solvents", "Search", "Tune", "Compare", "Shortlists"],
-  "formulator@demo.test": ["Overview", "Lighting", "Catalogue", "Measurements", "Solvents", "Search", "Tune", "Compare", "Shortlists"],
+  "admin@demo.test": ["Overview", "Bench", "Review", "Lighting", "Catalogue", "Measurements", "pH series", "Solvents", "Search", "Tune", "Compare", "Shortlists", "People"],
+  "chemist@demo.test": ["Overview", "Bench", "Review", "Lighting", "Catalogue", "Measurements", "pH series", "Solvents", "Search", "Tune", "Compare", "Shortlists"],
+  "formulator@demo.test": ["Overview", "Lighting", "Catalogue", "Measurements", "pH series", "Solvents", "Search", "Tune", "Compare", "Shortlists"],
 } as const;
 
 describe("each demo user", () => {
