@@ -6,7 +6,7 @@ import type { LabBox } from "../../lib/search/bound";
 import { conditionMatches, type ConditionFilter } from "../../lib/search/filters";
 import { ReplicateMeansIndex, type KeyedMean } from "../../lib/search/means-index";
 import { rankByColourIndexed, type ColourColumns } from "../../lib/search/rank";
-import { replicateGroupKey, replicateMeanGroups, replicateMeans, type ReplicateRow } from "../../lib/search/replicates";
+import { replicateGroupKey, replicateMeanGroups, replicateMeans, replicateMeanUncertainty, type ReplicateRow } from "../../lib/search/replicates";
 import type { ShiftDye } from "../../lib/search/shift";
 import type { Db } from "../connection";
 import { solvents, type AcidBase, type Medium } from "../schema";
@@ -25,6 +25,8 @@ export type ColourHit = {
   spreadDeltaE00: number;
   /** Same as `replicates` (kept for existing clients). */
   measurements: number;
+  /** ± ΔE00 of the mean `lab` (lib/search/replicates `replicateMeanUncertainty`); null when no replicate has one. */
+  uncertaintyDeltaE00: number | null;
 };
 
 /** How the in-memory means were brought to the current state for this search. */
@@ -73,7 +75,7 @@ const meansStates = new WeakMap<Database.Database, MeansState>();
 const meansStatements = new WeakMap<Database.Database, ReturnType<typeof prepareMeansStatements>>();
 
 function prepareMeansStatements(client: Database.Database) {
-  const groupColumns = "m.dye_id, m.condition_id, c.solvent_id, c.acid_base, c.ph, m.l, m.a, m.b";
+  const groupColumns = "m.dye_id, m.condition_id, c.solvent_id, c.acid_base, c.ph, m.l, m.a, m.b, m.u_delta_e00";
   return {
     counter: client.prepare("SELECT n FROM change_counters WHERE name = 'search_means'").pluck(true),
     // Ordered by condition and id within a dye, so a group's sums add up in the same order either way.
@@ -98,9 +100,9 @@ function meansStatementsOf(client: Database.Database) {
   return st;
 }
 
-type GroupRow = [dyeId: string, conditionId: string, solventId: string, acidBase: string, ph: number | null, l: number, a: number, b: number];
+type GroupRow = [dyeId: string, conditionId: string, solventId: string, acidBase: string, ph: number | null, l: number, a: number, b: number, u: number | null];
 const replicateRows = function* (rows: Iterable<GroupRow>): Generator<ReplicateRow> {
-  for (const [dyeId, conditionId, solventId, acidBase, ph, l, a, b] of rows) yield { dyeId, conditionId, solventId, acidBase, ph, lab: [l, a, b] };
+  for (const [dyeId, conditionId, solventId, acidBase, ph, l, a, b, u] of rows) yield { dyeId, conditionId, solventId, acidBase, ph, lab: [l, a, b], u };
 };
 
 function buildMeansState(client: Database.Database, counter: number): MeansState {
@@ -228,6 +230,7 @@ export function searchByColour(
         replicates: mean.replicates,
         spreadDeltaE00: mean.spreadDeltaE00,
         measurements: mean.replicates,
+        uncertaintyDeltaE00: replicateMeanUncertainty(mean),
       },
     ];
   });
