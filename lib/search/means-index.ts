@@ -52,6 +52,21 @@ export class ReplicateMeansIndex {
     this.regrid();
   }
 
+  /**
+   * The same index built step by step: yields after every `every` means, so a caller can spread the
+   * build over event-loop turns (lib/ops/slices); the grid is built in the last step.
+   */
+  static *building(means: Iterable<KeyedMean>, every = 256): Generator<void, ReplicateMeansIndex> {
+    const index = new ReplicateMeansIndex([]);
+    let n = 0;
+    for (const { key, mean } of means) {
+      index.add(key, mean);
+      if (++n % every === 0) yield;
+    }
+    index.regrid();
+    return index;
+  }
+
   /** Live means (groups with at least one accepted replicate). */
   get size(): number {
     return this.live;

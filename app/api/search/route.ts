@@ -1,5 +1,5 @@
 import { db } from "@/db/client";
-import { resolveSolvent, searchByColour } from "@/db/queries/search";
+import { resolveSolvent, searchByColour, searchMeansReady } from "@/db/queries/search";
 import { isTie } from "@/lib/color/uncertainty";
 import { apiRoute, parseInput } from "@/lib/auth/guard";
 import { dyesChangingColourWithin, searchByColourAmongDyes, transitionSummary } from "@/db/queries/ph-search";
@@ -55,6 +55,9 @@ export const GET = apiRoute({ access: ANY_ROLE, query: rawQuery }, async ({ quer
   const within = phRange ? dyesChangingColourWithin(handle, { range: phRange }) : null;
   const word = query.target.word;
   const accept = word ? (l: number, a: number, b: number) => matchesColourWord(word, l, a, b) : undefined;
+  // Just after start-up the means may still be building in the background: wait for that build
+  // without holding the event loop (other requests go on meanwhile).
+  if (!within) await searchMeansReady(handle);
   const results = within
     ? searchByColourAmongDyes(handle, { target: query.target.lab, filter: { ...query.filter, solventId }, dyeIds: [...within.keys()], limit: query.limit, accept })
     : searchByColour(handle, { target: query.target.lab, filter: { ...query.filter, solventId }, limit: query.limit, accept }).results;
