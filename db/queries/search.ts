@@ -155,8 +155,7 @@ export function warmSearchMeans(db: Db, { sliceMs = 8 }: { sliceMs?: number } = 
     try {
       reader.exec("BEGIN");
       const state = yield* buildingMeansState(reader, meansStatementsOf(reader).counter.get() as number);
-      // A search inside a caller's transaction may have built throw-away means meanwhile; never kept, so
-      // nothing is installed over. Only a missing state is filled.
+      // Searches finish this build before keeping means of their own, so none are there yet; checked anyway.
       if (!meansStates.has(client)) meansStates.set(client, state);
       return meansStates.get(client);
     } finally {
