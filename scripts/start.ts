@@ -3,12 +3,14 @@
  * empty; the invented demo scenario with --seed-demo when there are no users), then serve the built
  * app in this process: Next's request handler inside our HTTP server (lib/ops/serve.ts), which logs
  * JSON lines with a request id and on SIGTERM finishes the requests in flight before exiting.
- * While serving, DATA_DIR/server.pid names this process so `restore` refuses to run under it.
+ * While serving, DATA_DIR/server.pid names this process so `restore` refuses to run under it. Once it
+ * listens, the colour search's means are built in the background (warmSearch).
  */
 import { spawn } from "node:child_process";
 import { createRequire } from "node:module";
 import path from "node:path";
-import { databaseFile, migrateDatabase, openDatabase } from "../db/connection";
+import { databaseFile, migrateDatabase, openDatabase, type Db } from "../db/connection";
+import { warmSearchMeans } from "../db/queries/search";
 import { seedDemo, seedSolvents } from "../db/seed/demo";
 import { dataDir, env } from "../lib/config/env";
 import { createLogger } from "../lib/log/logger";
@@ -62,10 +64,26 @@ async function main() {
   });
   writeServerMark(dir, { pid: process.pid, startedAt: new Date().toISOString(), port: settings.PORT });
   logger.info({ dataDir: dir, url: `http://localhost:${settings.PORT}` }, `Serving Solvatlas on http://localhost:${settings.PORT}`);
+  warmSearch(dir);
   if (process.argv.includes("--seed-demo")) {
     const models = spawn(process.execPath, [path.join("node_modules", "tsx", "dist", "cli.mjs"), "scripts/precompute-models.ts"], { stdio: "inherit", env: { ...process.env, DATA_DIR: dir } });
     process.on("exit", () => models.exitCode === null && models.kill("SIGTERM"));
   }
+}
+
+/**
+ * Builds the colour search's means in the background now that the server listens, on the app's own
+ * handle (db/client.ts picks up the one made here), so the first search does not wait for them (at a
+ * million measurements 7–11 s). Requests, health included, are served meanwhile.
+ */
+function warmSearch(dir: string) {
+  const app = globalThis as { solvatlasDb?: Db };
+  app.solvatlasDb ??= openDatabase(databaseFile(dir));
+  const started = performance.now();
+  warmSearchMeans(app.solvatlasDb).then(
+    (means) => logger.info({ means, ms: Math.round(performance.now() - started) }, "search means ready"),
+    (error: unknown) => logger.warn({ err: error }, "search means not built in the background; the first search builds them"),
+  );
 }
 
 main().catch((error) => {

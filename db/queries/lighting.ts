@@ -18,6 +18,7 @@ import { ColorInputError, measureRegion } from "../../lib/color/regions";
 import type { ObjectStore } from "../../lib/storage/driver";
 import { benchRefusal, profileStatus } from "../../lib/lighting/status";
 import { AppError } from "../../lib/errors";
+import { replicateMeanUncertainty } from "../../lib/search/replicates";
 import type { Db } from "../connection";
 import {
   calibrationTargets,
@@ -518,18 +519,17 @@ export function uncertaintiesOf(db: Db, ids: string[]): Map<string, number | nul
 const replicateUStatements = new WeakMap<Database.Database, Database.Statement>();
 
 /**
- * ± ΔE00 of a replicate mean (one search hit: a dye in one solvent, acid/base state and pH): the
- * replicates' own uncertainties do not average down (the calibration part is shared by all of them), so
- * u = √(mean(uᵢ²) + s²/n) with s the replicates' RMS spread from their mean (GUM type A for the mean,
- * type B kept whole: conservative). Null when no replicate has an uncertainty.
+ * ± ΔE00 of one replicate mean (a dye in one solvent, acid/base state and pH) read straight from its
+ * accepted rows, with the formula of lib/search/replicates `replicateMeanUncertainty`. The search does
+ * not call this per hit: its means index carries mean(uᵢ²) per group (db/queries/search.ts); this one
+ * group query stays as the independent check of that (tests/integration/search-api.test.ts).
  */
-export function replicateMeanUncertainty(
+export function groupMeanUncertainty(
   db: Db,
   hit: { dyeId: string; solvent: string; acidBase: string; pH: number | null; replicates: number; spreadDeltaE00: number },
 ): number | null {
-  // Called once per search hit: the statement is prepared once per connection. `+m.review_state` keeps
-  // SQLite on the dye's rows: without ANALYZE statistics it chose the review-state index and read every
-  // accepted measurement per hit (20 hits at 100,000 measurements: 0.3–0.9 s per search).
+  // `+m.review_state` keeps SQLite on the dye's rows: without ANALYZE statistics it chose the
+  // review-state index and read every accepted measurement.
   let st = replicateUStatements.get(db.$client);
   if (!st) {
     st = db.$client.prepare(
@@ -540,10 +540,8 @@ export function replicateMeanUncertainty(
   }
   const rows = st.all(hit.dyeId, hit.solvent, hit.acidBase, hit.pH, hit.pH) as { u: number | null }[];
   const known = rows.map((r) => r.u).filter((u): u is number => typeof u === "number");
-  if (known.length === 0) return null;
-  const meanSq = known.reduce((s, u) => s + u * u, 0) / known.length;
-  const n = Math.max(1, hit.replicates);
-  return Math.sqrt(meanSq + (hit.spreadDeltaE00 * hit.spreadDeltaE00) / n);
+  const meanSquaredU = known.length === 0 ? null : known.reduce((s, u) => s + u * u, 0) / known.length;
+  return replicateMeanUncertainty({ meanSquaredU, replicates: hit.replicates, spreadDeltaE00: hit.spreadDeltaE00 });
 }
 
 export function standardOrRefuse(db: Db, id: string) {

@@ -9,7 +9,7 @@ import type { Lab } from "../../lib/color/types";
 import { ciede2000 } from "../../lib/search/ciede2000";
 import { conditionMatches, type ConditionFilter } from "../../lib/search/filters";
 import { dyesChangingWithin, type PhRange, type TransitionHit } from "../../lib/search/ph-range";
-import { replicateMeans } from "../../lib/search/replicates";
+import { replicateMeans, replicateMeanUncertainty } from "../../lib/search/replicates";
 import type { Db } from "../connection";
 import { conditions, dyes, measurements, type Medium } from "../schema";
 import { transitionCandidates } from "./ph-series";
@@ -22,7 +22,7 @@ export function searchByColourAmongDyes(
   if (dyeIds.length === 0) return [];
   const catalogue = new Map(conditionCatalogue(db).map((c) => [c.id, c]));
   const rows = db
-    .select({ dyeId: measurements.dyeId, conditionId: measurements.conditionId, solventId: conditions.solventId, acidBase: conditions.acidBase, ph: conditions.ph, l: measurements.l, a: measurements.a, b: measurements.b })
+    .select({ dyeId: measurements.dyeId, conditionId: measurements.conditionId, solventId: conditions.solventId, acidBase: conditions.acidBase, ph: conditions.ph, l: measurements.l, a: measurements.a, b: measurements.b, u: measurements.uDeltaE00 })
     .from(measurements)
     .innerJoin(conditions, eq(measurements.conditionId, conditions.id))
     .where(and(eq(measurements.reviewState, "accepted"), inArray(measurements.dyeId, [...dyeIds])))
@@ -51,6 +51,7 @@ export function searchByColourAmongDyes(
         replicates: mean.replicates,
         spreadDeltaE00: mean.spreadDeltaE00,
         measurements: mean.replicates,
+        uncertaintyDeltaE00: replicateMeanUncertainty(mean),
       };
     });
 }

@@ -1,12 +1,13 @@
 import { performance } from "node:perf_hooks";
-import type Database from "better-sqlite3";
+import Database from "better-sqlite3";
 import { sql } from "drizzle-orm";
 import type { Lab } from "../../lib/color/types";
+import { runInSlices, type Sliced } from "../../lib/ops/slices";
 import type { LabBox } from "../../lib/search/bound";
 import { conditionMatches, type ConditionFilter } from "../../lib/search/filters";
 import { ReplicateMeansIndex, type KeyedMean } from "../../lib/search/means-index";
 import { rankByColourIndexed, type ColourColumns } from "../../lib/search/rank";
-import { replicateGroupKey, replicateMeanGroups, replicateMeans, type ReplicateRow } from "../../lib/search/replicates";
+import { replicateGroupKey, replicateMeanGroups, replicateMeans, replicateMeanUncertainty, type ReplicateRow } from "../../lib/search/replicates";
 import type { ShiftDye } from "../../lib/search/shift";
 import type { Db } from "../connection";
 import { solvents, type AcidBase, type Medium } from "../schema";
@@ -25,6 +26,8 @@ export type ColourHit = {
   spreadDeltaE00: number;
   /** Same as `replicates` (kept for existing clients). */
   measurements: number;
+  /** ± ΔE00 of the mean `lab` (lib/search/replicates `replicateMeanUncertainty`); null when no replicate has one. */
+  uncertaintyDeltaE00: number | null;
 };
 
 /** How the in-memory means were brought to the current state for this search. */
@@ -69,11 +72,21 @@ type GroupFields = { solventId: string; acidBase: string; ph: number | null };
  */
 const maxReplay = (means: number) => Math.min(65_536 - 4096, Math.max(4096, Math.floor(means / 16)));
 
-const meansStates = new WeakMap<Database.Database, MeansState>();
+/**
+ * Per connection: its means, and a background build in progress (warmSearchMeans). Kept on globalThis:
+ * scripts/start.ts (run by tsx) and the route handlers (bundled by Next) load separate copies of this
+ * module but share the app's one handle (db/client.ts), so they must share its means too.
+ */
+type MeansRegistry = { states: WeakMap<Database.Database, MeansState>; warming: WeakMap<Database.Database, Sliced<MeansState | undefined>> };
+const registry: MeansRegistry = ((globalThis as { [k: symbol]: MeansRegistry })[Symbol.for("solvatlas.searchMeans")] ??= {
+  states: new WeakMap(),
+  warming: new WeakMap(),
+});
+const meansStates = registry.states;
 const meansStatements = new WeakMap<Database.Database, ReturnType<typeof prepareMeansStatements>>();
 
 function prepareMeansStatements(client: Database.Database) {
-  const groupColumns = "m.dye_id, m.condition_id, c.solvent_id, c.acid_base, c.ph, m.l, m.a, m.b";
+  const groupColumns = "m.dye_id, m.condition_id, c.solvent_id, c.acid_base, c.ph, m.l, m.a, m.b, m.u_delta_e00";
   return {
     counter: client.prepare("SELECT n FROM change_counters WHERE name = 'search_means'").pluck(true),
     // Ordered by condition and id within a dye, so a group's sums add up in the same order either way.
@@ -98,17 +111,67 @@ function meansStatementsOf(client: Database.Database) {
   return st;
 }
 
-type GroupRow = [dyeId: string, conditionId: string, solventId: string, acidBase: string, ph: number | null, l: number, a: number, b: number];
+type GroupRow = [dyeId: string, conditionId: string, solventId: string, acidBase: string, ph: number | null, l: number, a: number, b: number, u: number | null];
 const replicateRows = function* (rows: Iterable<GroupRow>): Generator<ReplicateRow> {
-  for (const [dyeId, conditionId, solventId, acidBase, ph, l, a, b] of rows) yield { dyeId, conditionId, solventId, acidBase, ph, lab: [l, a, b] };
+  for (const [dyeId, conditionId, solventId, acidBase, ph, l, a, b, u] of rows) yield { dyeId, conditionId, solventId, acidBase, ph, lab: [l, a, b], u };
 };
 
-function buildMeansState(client: Database.Database, counter: number): MeansState {
+/** Builds the means from `client`'s current snapshot, yielding every few hundred means (see warmSearchMeans). */
+function* buildingMeansState(client: Database.Database, counter: number): Generator<void, MeansState> {
   const st = meansStatementsOf(client);
   const conditions = new Map(
     (st.conditions.all() as [string, string, string, number | null][]).map(([id, solventId, acidBase, ph]) => [id, { solventId, acidBase, ph }]),
   );
-  return { counter, conditions, index: new ReplicateMeansIndex(meansDyeByDye(st.all.iterate() as IterableIterator<GroupRow>)) };
+  const index = yield* ReplicateMeansIndex.building(meansDyeByDye(st.all.iterate() as IterableIterator<GroupRow>));
+  return { counter, conditions, index };
+}
+
+function buildMeansState(client: Database.Database, counter: number): MeansState {
+  const steps = buildingMeansState(client, counter);
+  for (;;) {
+    const r = steps.next();
+    if (r.done) return r.value;
+  }
+}
+
+/**
+ * Builds the means of `db`'s connection in the background (scripts/start.ts calls it once the server
+ * listens), so the first search does not pay for them: the rows are read on a second, read-only
+ * connection inside one read transaction (one snapshot; the app's connection stays free for requests),
+ * a few milliseconds per event-loop turn. A search that arrives before the end finishes this same build
+ * (searchMeansReady waits for it; a synchronous caller completes it at once) and then replays whatever
+ * was written since the snapshot. Resolves with the number of means; resolves at once when the means
+ * exist already or the database is in memory (no second connection can see it).
+ */
+export function warmSearchMeans(db: Db, { sliceMs = 8 }: { sliceMs?: number } = {}): Promise<number> {
+  const client = db.$client;
+  const known = meansStates.get(client);
+  if (known) return Promise.resolve(known.index.size);
+  const running = registry.warming.get(client);
+  if (running) return running.done.then((s) => s?.index.size ?? 0);
+  if (client.memory) return Promise.resolve(0);
+  const reader = new Database(client.name, { readonly: true, fileMustExist: true });
+  const steps = (function* (): Generator<void, MeansState | undefined> {
+    try {
+      reader.exec("BEGIN");
+      const state = yield* buildingMeansState(reader, meansStatementsOf(reader).counter.get() as number);
+      // Searches finish this build before keeping means of their own, so none are there yet; checked anyway.
+      if (!meansStates.has(client)) meansStates.set(client, state);
+      return meansStates.get(client);
+    } finally {
+      registry.warming.delete(client);
+      // Closing ends the read transaction (nothing was written).
+      reader.close();
+    }
+  })();
+  const sliced = runInSlices(steps, { sliceMs });
+  registry.warming.set(client, sliced);
+  return sliced.done.then((s) => s?.index.size ?? 0);
+}
+
+/** Resolves when no background build of the means (warmSearchMeans) is running on `db`'s connection. */
+export function searchMeansReady(db: Db): Promise<unknown> | undefined {
+  return registry.warming.get(db.$client)?.done.catch(() => undefined);
 }
 
 /** Groups rows ordered by dye one dye at a time, so only one dye's rows are held at once. */
@@ -169,6 +232,16 @@ function replayChanges(client: Database.Database, state: MeansState, counter: nu
  */
 function meansIndex(client: Database.Database): { index: ReplicateMeansIndex; means: MeansRefresh } {
   const st = meansStatementsOf(client);
+  // A background build in progress is finished here rather than started again beside it; if it
+  // fails, this search builds as if there had been none.
+  const warming = registry.warming.get(client);
+  if (warming) {
+    try {
+      warming.finishNow();
+    } catch {
+      /* rebuilt below */
+    }
+  }
   const cached = meansStates.get(client);
   const counter = st.counter.get() as number;
   if (cached && cached.counter === counter) return { index: cached.index, means: "reused" };
@@ -228,6 +301,7 @@ export function searchByColour(
         replicates: mean.replicates,
         spreadDeltaE00: mean.spreadDeltaE00,
         measurements: mean.replicates,
+        uncertaintyDeltaE00: replicateMeanUncertainty(mean),
       },
     ];
   });

@@ -33,6 +33,8 @@ export class ReplicateMeansIndex {
   /** Replicates per slot; 0 marks a dead slot. */
   private slotReplicates: number[] = [];
   private slotSpread: number[] = [];
+  /** Mean uᵢ² of the replicates that have a ± ΔE00; NaN when none has (the tie rule's input). */
+  private slotMeanSqU: number[] = [];
   private slotDye: number[] = [];
   private slotCond: number[] = [];
   private slotLab: number[] = [];
@@ -50,6 +52,21 @@ export class ReplicateMeansIndex {
     this.regrid();
   }
 
+  /**
+   * The same index built step by step: yields after every `every` means, so a caller can spread the
+   * build over event-loop turns (lib/ops/slices); the grid is built in the last step.
+   */
+  static *building(means: Iterable<KeyedMean>, every = 256): Generator<void, ReplicateMeansIndex> {
+    const index = new ReplicateMeansIndex([]);
+    let n = 0;
+    for (const { key, mean } of means) {
+      index.add(key, mean);
+      if (++n % every === 0) yield;
+    }
+    index.regrid();
+    return index;
+  }
+
   /** Live means (groups with at least one accepted replicate). */
   get size(): number {
     return this.live;
@@ -65,6 +82,7 @@ export class ReplicateMeansIndex {
       lab: [lab[3 * slot], lab[3 * slot + 1], lab[3 * slot + 2]],
       replicates: this.slotReplicates[slot],
       spreadDeltaE00: this.slotSpread[slot],
+      meanSquaredU: Number.isNaN(this.slotMeanSqU[slot]) ? null : this.slotMeanSqU[slot],
     };
   }
 
@@ -147,6 +165,7 @@ export class ReplicateMeansIndex {
     this.liveByCond[cond]++;
     this.slotReplicates.push(mean.replicates);
     this.slotSpread.push(mean.spreadDeltaE00);
+    this.slotMeanSqU.push(mean.meanSquaredU ?? Number.NaN);
     this.slotDye.push(this.intern(this.dyeIds, this.dyeIndex, mean.dyeId));
     this.slotCond.push(cond);
     this.slotLab.push(mean.lab[0], mean.lab[1], mean.lab[2]);
@@ -187,9 +206,10 @@ export class ReplicateMeansIndex {
   }
 
   private compact(): void {
-    const old = { replicates: this.slotReplicates, spread: this.slotSpread, dye: this.slotDye, cond: this.slotCond, lab: this.slotLab };
+    const old = { replicates: this.slotReplicates, spread: this.slotSpread, meanSqU: this.slotMeanSqU, dye: this.slotDye, cond: this.slotCond, lab: this.slotLab };
     this.slotReplicates = [];
     this.slotSpread = [];
+    this.slotMeanSqU = [];
     this.slotDye = [];
     this.slotCond = [];
     this.slotLab = [];
@@ -197,6 +217,7 @@ export class ReplicateMeansIndex {
     for (const [key, s] of this.groups) {
       this.groups.set(key, this.slotReplicates.push(old.replicates[s]) - 1);
       this.slotSpread.push(old.spread[s]);
+      this.slotMeanSqU.push(old.meanSqU[s]);
       this.slotDye.push(old.dye[s]);
       this.slotCond.push(old.cond[s]);
       this.slotLab.push(old.lab[3 * s], old.lab[3 * s + 1], old.lab[3 * s + 2]);

@@ -9,6 +9,8 @@ import { GET as search } from "@/app/api/search/route";
 import { db } from "@/db/client";
 import { databaseFile, openDatabase } from "@/db/connection";
 import { searchByColour } from "@/db/queries/search";
+import { groupMeanUncertainty } from "@/db/queries/lighting";
+import { isTie } from "@/lib/color/uncertainty";
 import { acceptedMeasurements } from "@/db/queries/bench";
 import { conditions, measurements, solvents } from "@/db/schema";
 import { seedDemo } from "@/db/seed/demo";
@@ -221,6 +223,45 @@ describe("GET /api/search", () => {
     expect((await call("lab=50,0,0&solvent=Toluene&medium=nonpolar&limit=3")).body.results).toEqual([]);
     db().update(solvents).set({ medium: "nonpolar" }).where(eq(solvents.name, "Toluene")).run();
     expect((await call("lab=50,0,0&solvent=Toluene&medium=nonpolar&limit=3")).body.results.map((r: Hit) => r.dye.id)).toEqual(before.results.map((r: Hit) => r.dye.id));
+  });
+
+  it("carries each hit's ± ΔE00 and tie mark in the means: equal to the per-group query, and follows a changed uᵢ", async () => {
+    // Invented uncertainties on the demo's accepted rows (every seventh left without one), so groups mix
+    // known and missing figures and neighbouring hits tie; the ranking itself does not read them.
+    const ids = db().$client.prepare("SELECT id FROM measurements WHERE review_state = 'accepted' ORDER BY id").pluck().all() as string[];
+    const setU = db().$client.prepare("UPDATE measurements SET u_delta_e00 = ? WHERE id = ?");
+    db().$client.transaction(() => ids.forEach((id, i) => setU.run(i % 7 === 3 ? null : 0.4 + ((i * 37) % 23) / 10, id)))();
+    type UHit = Hit & { uncertaintyDeltaE00: number | null; tieWithPrevious: boolean };
+    const perGroup = (r: UHit) =>
+      groupMeanUncertainty(db(), { dyeId: r.dye.id, solvent: r.condition.solvent, acidBase: r.condition.acidBase, pH: r.condition.pH, replicates: r.replicates, spreadDeltaE00: r.spreadDeltaE00 });
+    let ties = 0;
+    let known = 0;
+    for (const target of ["50,0,0", "30,40,-60", "70,-30,50", "60,60,30"]) {
+      for (const qs of ["", "&medium=protic", "&acidBase=base"]) {
+        const { body } = await call(`lab=${target}&limit=20${qs}`);
+        const hits = body.results as UHit[];
+        hits.forEach((r, i) => {
+          const u = perGroup(r);
+          if (u === null) expect(r.uncertaintyDeltaE00).toBeNull();
+          else expect(r.uncertaintyDeltaE00).toBeCloseTo(u, 12);
+          const prevU = i > 0 ? perGroup(hits[i - 1]) : null;
+          expect(r.tieWithPrevious).toBe(i > 0 && u !== null && prevU !== null && isTie({ deltaE00: r.deltaE00, uncertaintyDeltaE00: u }, { deltaE00: hits[i - 1].deltaE00, uncertaintyDeltaE00: prevU }));
+          if (r.tieWithPrevious) ties++;
+          if (u !== null) known++;
+        });
+      }
+    }
+    expect(ties).toBeGreaterThan(0);
+    expect(known).toBeGreaterThan(0);
+
+    // One replicate's uᵢ changed after the means were built: the next search replays that group.
+    const { body: first } = await call("lab=50,0,0&limit=1");
+    const top = first.results[0] as UHit;
+    const row = acceptedMeasurements(db()).find((r) => r.dye.id === top.dye.id && r.solvent.name === top.condition.solvent && r.condition.acidBase === top.condition.acidBase && r.condition.ph === top.condition.pH)!;
+    db().update(measurements).set({ uDeltaE00: 9 }).where(eq(measurements.id, row.m.id)).run();
+    const { body: second } = await call("lab=50,0,0&limit=1");
+    expect(second.results[0].uncertaintyDeltaE00).toBeCloseTo(perGroup(second.results[0])!, 12);
+    expect(second.results[0].uncertaintyDeltaE00).not.toBeCloseTo(top.uncertaintyDeltaE00 ?? 0, 6);
   });
 
   it("returns an empty list when no condition matches", async () => {

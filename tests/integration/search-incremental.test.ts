@@ -8,7 +8,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "@/db/client";
 import { databaseFile, openDatabase, type Db } from "@/db/connection";
-import { searchByColour, type MeansRefresh } from "@/db/queries/search";
+import { searchByColour, searchMeansReady, warmSearchMeans, type MeansRefresh } from "@/db/queries/search";
 import { seedSolvents } from "@/db/seed/demo";
 import { dataDir } from "@/lib/config/env";
 import type { Lab } from "@/lib/color/types";
@@ -84,11 +84,11 @@ const FILTERS: ConditionFilter[] = [
   { medium: "any", acidBase: "base", phMin: 10 },
 ];
 
-function checkSearch(): MeansRefresh {
+function checkSearch(handle: Db = db()): MeansRefresh {
   const target = randomLab();
   const filter = pick(FILTERS);
   const limit = pick([1, 5, 15]);
-  const got = searchByColour(db(), { target, filter, limit });
+  const got = searchByColour(handle, { target, filter, limit });
   const want = exhaustive(target, filter, limit);
   expect(got.results.map((r) => r.dye.id)).toEqual(want.map((w) => w.dyeId));
   got.results.forEach((r, i) => {
@@ -181,6 +181,35 @@ describe("search means kept in step with writes", () => {
     expect(checkSearch()).toBe("reused");
     insert(second);
     expect(checkSearch()).toBe("replayed");
+  });
+
+  it("warms the means in the background a slice at a time, and a search arriving meanwhile finishes that build (no second one)", async () => {
+    // Fresh connections: no means yet. sliceMs 0 → one step (256 means) per event-loop turn.
+    const waiting = openDatabase(databaseFile(dataDir()));
+    const hurried = openDatabase(databaseFile(dataDir()));
+    try {
+      const warm = warmSearchMeans(waiting, { sliceMs: 0 });
+      // After the build's first turn this callback runs while the build is still going (not one blocking run).
+      await new Promise((r) => setImmediate(r));
+      expect(searchMeansReady(waiting)).toBeDefined();
+      await searchMeansReady(waiting);
+      const size = await warm;
+      expect(size).toBeGreaterThan(256);
+      expect(checkSearch(waiting)).toBe("reused");
+
+      const hurry = warmSearchMeans(hurried, { sliceMs: 0 });
+      await new Promise((r) => setImmediate(r)); // the build's first turn: its snapshot is taken
+      expect(searchMeansReady(hurried)).toBeDefined();
+      insert(second); // written after that snapshot
+      // This synchronous search completes the same build, then replays the write: nothing rebuilt.
+      expect(checkSearch(hurried)).toBe("replayed");
+      expect(searchMeansReady(hurried)).toBeUndefined();
+      expect(await hurry).toBeGreaterThan(256);
+      expect(checkSearch(hurried)).toBe("reused");
+    } finally {
+      waiting.$client.close();
+      hurried.$client.close();
+    }
   });
 
   it("rebuilds after a bulk import by another process (more changes than worth replaying, more than the change rows keep)", () => {

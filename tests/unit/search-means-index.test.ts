@@ -16,7 +16,8 @@ const CONDITIONS = ["c0", "c1", "c2", "c3", "c4"];
 
 function randomMean(random: () => number, dyeId: string, conditionId: string): ReplicateMean {
   const lab: Lab = [100 * random(), 180 * random() - 90, 180 * random() - 90];
-  return { dyeId, conditionId, lab, replicates: 1 + Math.floor(random() * 4), spreadDeltaE00: random() };
+  // meanSquaredU null for a group without any ± ΔE00, so both forms go through the index.
+  return { dyeId, conditionId, lab, replicates: 1 + Math.floor(random() * 4), spreadDeltaE00: random(), meanSquaredU: random() < 0.3 ? null : random() };
 }
 
 describe("ReplicateMeansIndex", () => {
@@ -78,10 +79,10 @@ describe("ReplicateMeansIndex", () => {
   });
 
   it("answers get() per group and forgets removed groups", () => {
-    const m: ReplicateMean = { dyeId: "d", conditionId: "c", lab: [50, 1, 2], replicates: 2, spreadDeltaE00: 0.3 };
+    const m: ReplicateMean = { dyeId: "d", conditionId: "c", lab: [50, 1, 2], replicates: 2, spreadDeltaE00: 0.3, meanSquaredU: 0.09 };
     const index = new ReplicateMeansIndex([{ key: "k", mean: m }]);
     expect(index.get("k")).toEqual(m);
-    const moved = { ...m, lab: [60, 1, 2] as Lab };
+    const moved = { ...m, lab: [60, 1, 2] as Lab, meanSquaredU: null };
     index.set("k", moved);
     expect(index.get("k")).toEqual(moved);
     expect(index.size).toBe(1);

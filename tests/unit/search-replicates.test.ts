@@ -9,7 +9,7 @@ import { mulberry32 as rng, gaussian } from "@/lib/random";
 import { ciede2000 } from "@/lib/search/ciede2000";
 import { buildLabGrid, queryLabGrid } from "@/lib/search/grid";
 import { rankByColourExhaustive, rankByColourIndexed, type ColourColumns } from "@/lib/search/rank";
-import { replicateMeans, type ReplicateRow } from "@/lib/search/replicates";
+import { replicateMeans, replicateMeanUncertainty, type ReplicateRow } from "@/lib/search/replicates";
 
 function rows(random: () => number, dyes: number): ReplicateRow[] {
   const out: ReplicateRow[] = [];
@@ -124,5 +124,16 @@ describe("replicate means", () => {
     const byVial = rankByColourExhaustive(target, all.map((r) => ({ dyeId: r.dyeId, lab: r.lab, payload: r })), 2);
     expect(byVial[0].dyeId).toBe("noisy");
     expect(ranked[1].payload.spreadDeltaE00).toBeGreaterThan(5);
+  });
+
+  it("carries mean(uᵢ²) of the replicates that have a ± ΔE00, and u = √(mean(uᵢ²) + s²/n) from it (GUM §4.2.3; values worked by hand)", () => {
+    const at = (u: number | null | undefined, ph: number | null): ReplicateRow => ({ dyeId: "d", conditionId: "c", solventId: "s", acidBase: "neutral", ph, lab: [50, 0, 0], u });
+    const [withU, withoutU] = replicateMeans([at(0.3, 7), at(null, 7), at(0.4, 7), at(null, null), at(undefined, null)]);
+    // (0.3² + 0.4²) / 2 = 0.125: the replicate without a figure neither counts nor adds a zero.
+    expect(withU.meanSquaredU).toBeCloseTo(0.125, 14);
+    expect(withoutU.meanSquaredU).toBeNull();
+    expect(replicateMeanUncertainty({ meanSquaredU: 0.125, replicates: 3, spreadDeltaE00: 0.6 })).toBeCloseTo(Math.sqrt(0.125 + 0.36 / 3), 14);
+    expect(replicateMeanUncertainty({ meanSquaredU: 0.25, replicates: 1, spreadDeltaE00: 0 })).toBe(0.5);
+    expect(replicateMeanUncertainty({ meanSquaredU: null, replicates: 3, spreadDeltaE00: 0.6 })).toBeNull();
   });
 });

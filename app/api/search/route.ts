@@ -1,6 +1,5 @@
 import { db } from "@/db/client";
-import { replicateMeanUncertainty } from "@/db/queries/lighting";
-import { resolveSolvent, searchByColour } from "@/db/queries/search";
+import { resolveSolvent, searchByColour, searchMeansReady } from "@/db/queries/search";
 import { isTie } from "@/lib/color/uncertainty";
 import { apiRoute, parseInput } from "@/lib/auth/guard";
 import { dyesChangingColourWithin, searchByColourAmongDyes, transitionSummary } from "@/db/queries/ph-search";
@@ -56,6 +55,9 @@ export const GET = apiRoute({ access: ANY_ROLE, query: rawQuery }, async ({ quer
   const within = phRange ? dyesChangingColourWithin(handle, { range: phRange }) : null;
   const word = query.target.word;
   const accept = word ? (l: number, a: number, b: number) => matchesColourWord(word, l, a, b) : undefined;
+  // Just after start-up the means may still be building in the background: wait for that build
+  // without holding the event loop (other requests go on meanwhile).
+  if (!within) await searchMeansReady(handle);
   const results = within
     ? searchByColourAmongDyes(handle, { target: query.target.lab, filter: { ...query.filter, solventId }, dyeIds: [...within.keys()], limit: query.limit, accept })
     : searchByColour(handle, { target: query.target.lab, filter: { ...query.filter, solventId }, limit: query.limit, accept }).results;
@@ -68,25 +70,17 @@ export const GET = apiRoute({ access: ANY_ROLE, query: rawQuery }, async ({ quer
     replicates: r.replicates,
     spreadDeltaE00: r.spreadDeltaE00,
     measurements: r.measurements,
+    uncertaintyDeltaE00: r.uncertaintyDeltaE00,
   }));
   const ranked =
     query.predicted === "include"
       ? rankWithPredictions(query.target.lab, measured, searchPredictions(handle, { filter: { ...query.filter, solventId }, accept }).filter((p) => !within || within.has(p.dye.id)), query.limit)
       : measured;
-  // ± ΔE00 of each result (a measured replicate mean's, or a prediction's own); a result whose distance
-  // differs from the one before it by less than their combined uncertainty is marked as a tie.
-  const withU = ranked.map((r) => ({
+  // ± ΔE00 of each result (a measured replicate mean's, carried by the search, or a prediction's own); a
+  // result whose distance differs from the one before it by less than their combined uncertainty is a tie.
+  const final = ranked.map((r, i) => ({
     ...r,
-    uncertaintyDeltaE00:
-      "uncertaintyDeltaE00" in r && typeof r.uncertaintyDeltaE00 === "number"
-        ? r.uncertaintyDeltaE00
-        : !r.predicted && "spreadDeltaE00" in r
-          ? replicateMeanUncertainty(handle, { dyeId: r.dye.id, solvent: r.condition.solvent, acidBase: r.condition.acidBase, pH: r.condition.pH, replicates: r.replicates, spreadDeltaE00: r.spreadDeltaE00 })
-          : null,
-  }));
-  const final = withU.map((r, i) => ({
-    ...r,
-    tieWithPrevious: i > 0 && r.uncertaintyDeltaE00 !== null && withU[i - 1].uncertaintyDeltaE00 !== null && isTie(r, withU[i - 1]),
+    tieWithPrevious: i > 0 && r.uncertaintyDeltaE00 !== null && ranked[i - 1].uncertaintyDeltaE00 !== null && isTie(r, ranked[i - 1]),
   }));
   if (!within) return { target: { lab: query.target.lab, ...(word ? { word: word.word } : {}) }, results: final };
   return {
