@@ -14,7 +14,7 @@ export function TitrationChart({ vials, curve, pKa, transition, label }: { vials
   return (
     <figure aria-label={`Titration curve: ${label}`} data-testid="titration-curve" className="h-64 w-full">
       <ResponsiveContainer width="100%" height="100%">
-        <ComposedChart margin={{ top: 8, right: 12, bottom: 20, left: 4 }}>
+        <ComposedChart margin={{ top: 22, right: 12, bottom: 20, left: 4 }}>
           <CartesianGrid strokeDasharray="3 3" stroke="#e3e6ec" />
           <XAxis type="number" dataKey="pH" domain={[lo, hi]} tickCount={hi - lo + 1} label={{ value: "pH", position: "insideBottom", offset: -10 }} />
           <YAxis type="number" dataKey="fraction" domain={[0, 1]} label={{ value: "base fraction", angle: -90, position: "insideLeft", offset: 12 }} />

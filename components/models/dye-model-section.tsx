@@ -254,7 +254,7 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
                 <span className="text-ink-soft">measured ×{it.measured.n}</span>
               ) : (
                 <span className="font-medium text-ink">
-                  predicted ± {it.predicted!.uncertaintyDeltaE00.toFixed(1)}
+                  predicted ± {it.predicted!.uncertaintyDeltaE00.toFixed(1)} ΔE00
                   {it.predicted!.extrapolated && <span className="block text-warn">extrapolated</span>}
                 </span>
               )}

@@ -33,9 +33,9 @@ export function ScaleChart({
           <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
             <CartesianGrid stroke="#e4e1da" />
             <XAxis type="number" dataKey="x" domain={["auto", "auto"]} tickFormatter={(v: number) => v.toLocaleString("en-GB", { maximumFractionDigits: xDecimals, minimumFractionDigits: xDecimals })} label={{ value: xLabel, position: "insideBottom", offset: -16 }} />
-            <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={64} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
+            <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={78} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
             <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
-            <Legend verticalAlign="top" height={28} />
+            <Legend verticalAlign="top" wrapperStyle={{ fontSize: 13, paddingBottom: 4 }} />
             <Line data={slopeLine} dataKey="line" name="fit" stroke="#1d2433" dot={false} strokeWidth={1.5} isAnimationActive={false} />
             <Scatter data={points.map((p) => ({ x: p.x, y: p.observed, solvent: p.solvent }))} dataKey="y" name={observedLabel} fill="#1d2433" shape="circle" isAnimationActive={false} />
             <Scatter data={points.map((p) => ({ x: p.x, y: p.loo, solvent: p.solvent }))} dataKey="y" name="leave-one-out prediction" fill="none" stroke="#8a4b00" shape="triangle" isAnimationActive={false} />
@@ -62,9 +62,9 @@ export function ObservedPredictedChart({ points }: { points: ScalePoint[] }) {
         <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
           <CartesianGrid stroke="#e4e1da" />
           <XAxis type="number" dataKey="x" domain={["auto", "auto"]} tickFormatter={fmt} label={{ value: "observed ν̃ / cm⁻¹", position: "insideBottom", offset: -16 }} />
-          <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={64} label={{ value: "predicted ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
+          <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={78} label={{ value: "predicted ν̃ / cm⁻¹", angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
           <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
-          <Legend verticalAlign="top" height={28} />
+          <Legend verticalAlign="top" wrapperStyle={{ fontSize: 13, paddingBottom: 4 }} />
           <Line data={[{ x: lo, y: lo }, { x: hi, y: hi }]} dataKey="y" name="observed = predicted" stroke="#8b8578" strokeDasharray="4 4" dot={false} isAnimationActive={false} />
           <Scatter data={points.map((p) => ({ x: p.observed, y: p.fitted, solvent: p.solvent }))} dataKey="y" name="fitted (all solvents)" fill="#1d2433" shape="circle" isAnimationActive={false} />
           <Scatter data={points.map((p) => ({ x: p.observed, y: p.loo, solvent: p.solvent }))} dataKey="y" name="leave-one-out" fill="none" stroke="#8a4b00" shape="triangle" isAnimationActive={false} />

@@ -68,7 +68,11 @@ export default async function PhSeriesPage() {
                         <td className="py-2 pr-3 tabular-nums">
                           {s.fit.fit.pKa.toFixed(2)} ± {seText(s.fit.fit.pKaStdErr)}
                           <span className="block text-xs text-ink-soft">{s.fit.vials} accepted vials</span>
-                          {s.fit.fit.flags.length > 0 && <Badge tone="warn">check</Badge>}
+                          {s.fit.fit.messages.map((m) => (
+                            <span key={m} className="mt-1 block max-w-xs text-xs">
+                              <Badge tone="warn">check</Badge> {m}
+                            </span>
+                          ))}
                         </td>
                         <td className="py-2 pr-3 tabular-nums">
                           pH {s.fit.fit.transition[0].toFixed(1)}–{s.fit.fit.transition[1].toFixed(1)}
