@@ -118,7 +118,7 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
           </Notice>
         </div>
         <div className="mt-4 overflow-x-auto">
-          <table className="w-full text-left text-sm" aria-label="Fits side by side">
+          <table className="w-full min-w-[40rem] text-left text-sm" aria-label="Fits side by side">
             <thead className="text-xs text-ink-soft">
               <tr>
                 <th className="py-1 pr-3">Route</th>
