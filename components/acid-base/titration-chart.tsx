@@ -17,7 +17,7 @@ export function TitrationChart({ vials, curve, pKa, transition, label }: { vials
         <ComposedChart margin={{ top: 22, right: 12, bottom: 20, left: 4 }}>
           <CartesianGrid strokeDasharray="3 3" stroke="#e3e6ec" />
           <XAxis type="number" dataKey="pH" domain={[lo, hi]} tickCount={hi - lo + 1} label={{ value: "pH", position: "insideBottom", offset: -10 }} />
-          <YAxis type="number" dataKey="fraction" domain={[0, 1]} label={{ value: "base fraction", angle: -90, position: "insideLeft", offset: 12 }} />
+          <YAxis type="number" dataKey="fraction" domain={[0, 1]} width={66} label={{ value: "base fraction", angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
           <ReferenceArea x1={transition[0]} x2={transition[1]} fill="#c9d3ea" fillOpacity={0.35} ifOverflow="extendDomain" />
           <ReferenceLine x={pKa} stroke="#3b4a6b" strokeDasharray="4 3" label={{ value: `pKa ${pKa.toFixed(2)}`, position: "top", fontSize: 11 }} />
           <Line data={curve} dataKey="fraction" dot={false} stroke="#3b4a6b" strokeWidth={2} isAnimationActive={false} name="fitted model" />

@@ -26,6 +26,9 @@ export function ScaleChart({
   observedLabel?: string;
 }) {
   const slopeLine = [...points].sort((a, b) => a.x - b.x).map((p) => ({ x: p.x, line: p.fitted }));
+  // The axis spans the predictions and their intervals too, so no predicted point is drawn outside the plot.
+  const ys = [...points.flatMap((p) => [p.observed, p.fitted, p.loo]), ...(predictions ?? []).flatMap((p) => [p.value - p.halfWidth, p.value + p.halfWidth])];
+  const yDomain: [number, number] | ["auto", "auto"] = ys.length ? [Math.floor(Math.min(...ys) / 500) * 500, Math.ceil(Math.max(...ys) / 500) * 500] : ["auto", "auto"];
   return (
     <figure>
       <div style={{ width: "100%", height: 280 }}>
@@ -33,7 +36,7 @@ export function ScaleChart({
           <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
             <CartesianGrid stroke="#e4e1da" />
             <XAxis type="number" dataKey="x" domain={["auto", "auto"]} tickFormatter={(v: number) => v.toLocaleString("en-GB", { maximumFractionDigits: xDecimals, minimumFractionDigits: xDecimals })} label={{ value: xLabel, position: "insideBottom", offset: -16 }} />
-            <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={78} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
+            <YAxis type="number" domain={yDomain} tickFormatter={fmt} width={78} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
             <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
             <Legend verticalAlign="top" wrapperStyle={{ fontSize: 13, paddingBottom: 4 }} />
             <Line data={slopeLine} dataKey="line" name="fit" stroke="#1d2433" dot={false} strokeWidth={1.5} isAnimationActive={false} />
@@ -47,6 +50,9 @@ export function ScaleChart({
           </ComposedChart>
         </ResponsiveContainer>
       </div>
+      {predictions && predictions.length > 0 && (
+        <figcaption className="mt-1 text-xs text-ink-soft">◇ with a bar: predicted band position in a solvent not measured, with its 95 % prediction interval.</figcaption>
+      )}
     </figure>
   );
 }
