@@ -9,7 +9,7 @@ export function ProfileStatusBadge({ status }: { status: ProfileStatus }) {
   return (
     <span data-testid="profile-status" data-status={status}>
       <Badge tone={TONE[status]}>
-        <span aria-hidden="true">{MARK[status]} </span>
+        <span aria-hidden="true" className="mr-1">{MARK[status]}</span>
         {STATUS_LABELS[status]}
       </Badge>
     </span>
