@@ -67,7 +67,7 @@ describe("on a 390 px phone", () => {
     await new SignInPage(page, base).signIn("chemist@demo.test");
     await page.getByText("Menu", { exact: true }).click();
     const menu = page.locator("details[open] nav[aria-label=Main]");
-    expect(await menu.getByRole("link").allInnerTexts()).toEqual(["Overview", "Bench", "Review", "Lighting", "Catalogue", "Measurements", "Solvents", "Search", "Tune", "Compare", "Shortlists"]);
+    expect(await menu.getByRole("link").allInnerTexts()).toEqual(["Overview", "Bench", "Review", "Lighting", "Catalogue", "Measurements", "pH series", "Solvents", "Search", "Tune", "Compare", "Shortlists"]);
     await menu.getByRole("link", { name: "Solvents" }).click();
     await page.waitForURL(`${base}/solvents`);
     await expect.poll(() => page.locator("details[open]").count()).toBe(0);
