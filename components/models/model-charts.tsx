@@ -38,7 +38,8 @@ export function ScaleChart({
             <XAxis type="number" dataKey="x" domain={["auto", "auto"]} tickFormatter={(v: number) => v.toLocaleString("en-GB", { maximumFractionDigits: xDecimals, minimumFractionDigits: xDecimals })} label={{ value: xLabel, position: "insideBottom", offset: -16 }} />
             <YAxis type="number" domain={yDomain} tickFormatter={fmt} width={78} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
             <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
-            <Legend verticalAlign="top" wrapperStyle={{ fontSize: 13, paddingBottom: 4 }} />
+            {/* Legend text in ink: it would otherwise take each series' fill, white for the predictions. */}
+            <Legend verticalAlign="top" wrapperStyle={{ fontSize: 13, paddingBottom: 4 }} formatter={(value: string) => <span style={{ color: "#1d2433" }}>{value}</span>} />
             <Line data={slopeLine} dataKey="line" name="fit" stroke="#1d2433" dot={false} strokeWidth={1.5} isAnimationActive={false} />
             <Scatter data={points.map((p) => ({ x: p.x, y: p.observed, solvent: p.solvent }))} dataKey="y" name={observedLabel} fill="#1d2433" shape="circle" isAnimationActive={false} />
             <Scatter data={points.map((p) => ({ x: p.x, y: p.loo, solvent: p.solvent }))} dataKey="y" name="leave-one-out prediction" fill="none" stroke="#8a4b00" shape="triangle" isAnimationActive={false} />
@@ -50,9 +51,6 @@ export function ScaleChart({
           </ComposedChart>
         </ResponsiveContainer>
       </div>
-      {predictions && predictions.length > 0 && (
-        <figcaption className="mt-1 text-xs text-ink-soft">◇ with a bar: predicted band position in a solvent not measured, with its 95 % prediction interval.</figcaption>
-      )}
     </figure>
   );
 }
