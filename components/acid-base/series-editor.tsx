@@ -63,13 +63,14 @@ export function SeriesEditor({ seriesId, head, mediumLabel, candidates, selected
         <Field label="Notes (buffer, temperature, how the pH was measured)" name="notes">
           <TextArea name="notes" value={notes} onChange={(e) => setNotes(e.target.value)} />
         </Field>
-        <fieldset>
+        <fieldset className="min-w-0">
           <legend className="mb-2 text-sm font-semibold">
             Vials of this dye in {mediumLabel} ({chosen.length} of {candidates.length} selected)
           </legend>
           {candidates.length === 0 ? (
             <p className="text-sm text-ink-soft">No accepted or pending measurement of this dye in this medium yet. Measure the vials on the bench, or import the series from CSV.</p>
           ) : (
+            <div className="overflow-x-auto">
             <table className="w-full text-left text-sm" data-testid="series-candidates">
               <thead className="text-xs text-ink-soft">
                 <tr>
@@ -124,6 +125,7 @@ export function SeriesEditor({ seriesId, head, mediumLabel, candidates, selected
                 })}
               </tbody>
             </table>
+            </div>
           )}
           <p className="mt-2 text-xs text-ink-soft">Only accepted vials are fitted; pending ones join the fit once another chemist accepts them. A pKa needs five accepted vials at four or more pH values.</p>
         </fieldset>

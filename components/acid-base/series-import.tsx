@@ -54,7 +54,7 @@ export function SeriesImport({ dyes, solvents }: { dyes: Option[]; solvents: Opt
           </Field>
         </div>
         <p className="text-xs text-ink-soft">
-          Columns (header row, any order): <code>{PH_SERIES_COLUMNS.join(",")}</code>. pH, L, a, b and white_point (D65 or D50) are needed in every row; observer is the CIE
+          Columns (header row, any order): <code className="break-all">{PH_SERIES_COLUMNS.join(",")}</code>. pH, L, a, b and white_point (D65 or D50) are needed in every row; observer is the CIE
           1931 2° one (write 2); D50 colours are adapted to D65 (Bradford). Without acid_base a vial counts as acid below pH 6, base above pH 8 and neutral between (our
           convention). The colours are stored like instrument measurements and wait for review; the pKa is fitted from the accepted ones.
         </p>

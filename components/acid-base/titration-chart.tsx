@@ -32,10 +32,10 @@ export function TitrationChart({
   return (
     <figure aria-label={`Titration curve: ${label}`} data-testid="titration-curve" className="h-64 w-full">
       <ResponsiveContainer width="100%" height="100%">
-        <ComposedChart margin={{ top: 8, right: 12, bottom: 20, left: 4 }}>
+        <ComposedChart margin={{ top: 22, right: 12, bottom: 20, left: 4 }}>
           <CartesianGrid strokeDasharray="3 3" stroke="#e3e6ec" />
           <XAxis type="number" dataKey="pH" domain={[lo, hi]} tickCount={Math.min(hi - lo + 1, 15)} label={{ value: "pH", position: "insideBottom", offset: -10 }} />
-          <YAxis type="number" dataKey="fraction" domain={[0, yMax]} label={{ value: yLabel, angle: -90, position: "insideLeft", offset: 12 }} />
+          <YAxis type="number" dataKey="fraction" domain={[0, yMax]} width={66} label={{ value: yLabel, angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
           {transitions.map(([x1, x2], i) => (
             <ReferenceArea key={`t${i}`} x1={x1} x2={x2} fill="#c9d3ea" fillOpacity={0.35} ifOverflow="extendDomain" data-testid="transition-band" />
           ))}

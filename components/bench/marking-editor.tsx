@@ -643,6 +643,7 @@ export function MarkingEditor(props: {
                   </button>
                 ))}
               </fieldset>
+              {props.checkStandards.length === 0 && <p className="w-full text-xs text-ink-soft">Check standard: none registered yet; an admin registers them on the Lighting page.</p>}
               <div className="flex items-center gap-1">
                 <button type="button" onClick={() => setZoom((z) => ZOOMS[Math.max(ZOOMS.indexOf(z) - 1, 0)])} className={`${BUTTON} min-w-10 px-0 text-lg`} aria-label="Zoom out">
                   −

@@ -27,7 +27,7 @@ export function CsvImport() {
           ))}
         </fieldset>
         <p className="text-xs text-ink-soft">
-          Columns (header row, any order): <code>{(kind === "dyes" ? DYE_COLUMNS : MEASUREMENT_COLUMNS).join(",")}</code>.{" "}
+          Columns (header row, any order): <code className="break-all">{(kind === "dyes" ? DYE_COLUMNS : MEASUREMENT_COLUMNS).join(",")}</code>.{" "}
           {kind === "dyes"
             ? "code, name and class are needed; synonyms separated by semicolons."
             : "dye (code), solvent (name or synonym), L, a, b, white_point (D65 or D50) and instrument are needed; observer is the CIE 1931 2° one (write 2); D50 colours are adapted to D65 (Bradford). Imported colours wait for review."}

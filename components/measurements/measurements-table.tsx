@@ -4,6 +4,7 @@ import { usePathname, useRouter } from "next/navigation";
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import { useMemo, useTransition } from "react";
 import { FlagBadges } from "@/components/bench/flag-badges";
+import { MEDIUM_LABELS, type MediumClass } from "@/lib/solvents/parameters";
 
 export type TableRow = {
   id: string;
@@ -53,7 +54,7 @@ const columns = [
   }),
   col.accessor("dye", { header: "Dye" }),
   col.accessor("solvent", { header: "Solvent" }),
-  col.accessor("medium", { header: "Medium", cell: (c) => c.getValue().replace("-", " ") }),
+  col.accessor("medium", { header: "Medium", cell: (c) => MEDIUM_LABELS[c.getValue() as MediumClass] ?? c.getValue() }),
   col.accessor("acidBase", { header: "Condition" }),
   col.accessor("ph", { header: "pH", cell: (c) => (c.getValue() === null ? "—" : c.getValue()) }),
   col.accessor("l", { header: "L* (D65)", cell: (c) => num(c.getValue()) }),

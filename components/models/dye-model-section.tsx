@@ -118,7 +118,7 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
           </Notice>
         </div>
         <div className="mt-4 overflow-x-auto">
-          <table className="w-full text-left text-sm" aria-label="Fits side by side">
+          <table className="w-full min-w-[40rem] text-left text-sm" aria-label="Fits side by side">
             <thead className="text-xs text-ink-soft">
               <tr>
                 <th className="py-1 pr-3">Route</th>
@@ -254,7 +254,7 @@ export function DyeModelSection({ model, solvents, dyeCode }: { model: DyeModel;
                 <span className="text-ink-soft">measured ×{it.measured.n}</span>
               ) : (
                 <span className="font-medium text-ink">
-                  predicted ± {it.predicted!.uncertaintyDeltaE00.toFixed(1)}
+                  predicted ± {it.predicted!.uncertaintyDeltaE00.toFixed(1)} ΔE00
                   {it.predicted!.extrapolated && <span className="block text-warn">extrapolated</span>}
                 </span>
               )}

@@ -26,6 +26,9 @@ export function ScaleChart({
   observedLabel?: string;
 }) {
   const slopeLine = [...points].sort((a, b) => a.x - b.x).map((p) => ({ x: p.x, line: p.fitted }));
+  // The axis spans the predictions and their intervals too, so no predicted point is drawn outside the plot.
+  const ys = [...points.flatMap((p) => [p.observed, p.fitted, p.loo]), ...(predictions ?? []).flatMap((p) => [p.value - p.halfWidth, p.value + p.halfWidth])];
+  const yDomain: [number, number] | ["auto", "auto"] = ys.length ? [Math.floor(Math.min(...ys) / 500) * 500, Math.ceil(Math.max(...ys) / 500) * 500] : ["auto", "auto"];
   return (
     <figure>
       <div style={{ width: "100%", height: 280 }}>
@@ -33,9 +36,10 @@ export function ScaleChart({
           <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
             <CartesianGrid stroke="#e4e1da" />
             <XAxis type="number" dataKey="x" domain={["auto", "auto"]} tickFormatter={(v: number) => v.toLocaleString("en-GB", { maximumFractionDigits: xDecimals, minimumFractionDigits: xDecimals })} label={{ value: xLabel, position: "insideBottom", offset: -16 }} />
-            <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={64} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
+            <YAxis type="number" domain={yDomain} tickFormatter={fmt} width={78} label={{ value: "ν̃ / cm⁻¹", angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
             <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
-            <Legend verticalAlign="top" height={28} />
+            {/* Legend text in ink: it would otherwise take each series' fill, white for the predictions. */}
+            <Legend verticalAlign="top" wrapperStyle={{ fontSize: 13, paddingBottom: 4 }} formatter={(value: string) => <span style={{ color: "#1d2433" }}>{value}</span>} />
             <Line data={slopeLine} dataKey="line" name="fit" stroke="#1d2433" dot={false} strokeWidth={1.5} isAnimationActive={false} />
             <Scatter data={points.map((p) => ({ x: p.x, y: p.observed, solvent: p.solvent }))} dataKey="y" name={observedLabel} fill="#1d2433" shape="circle" isAnimationActive={false} />
             <Scatter data={points.map((p) => ({ x: p.x, y: p.loo, solvent: p.solvent }))} dataKey="y" name="leave-one-out prediction" fill="none" stroke="#8a4b00" shape="triangle" isAnimationActive={false} />
@@ -62,9 +66,9 @@ export function ObservedPredictedChart({ points }: { points: ScalePoint[] }) {
         <ComposedChart margin={{ top: 10, right: 16, bottom: 28, left: 16 }}>
           <CartesianGrid stroke="#e4e1da" />
           <XAxis type="number" dataKey="x" domain={["auto", "auto"]} tickFormatter={fmt} label={{ value: "observed ν̃ / cm⁻¹", position: "insideBottom", offset: -16 }} />
-          <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={64} label={{ value: "predicted ν̃ / cm⁻¹", angle: -90, position: "insideLeft" }} />
+          <YAxis type="number" domain={["auto", "auto"]} tickFormatter={fmt} width={78} label={{ value: "predicted ν̃ / cm⁻¹", angle: -90, position: "insideLeft", offset: 0, style: { textAnchor: "middle" } }} />
           <Tooltip formatter={(v: unknown) => (typeof v === "number" ? `${fmt(v)} cm⁻¹` : String(v))} />
-          <Legend verticalAlign="top" height={28} />
+          <Legend verticalAlign="top" wrapperStyle={{ fontSize: 13, paddingBottom: 4 }} />
           <Line data={[{ x: lo, y: lo }, { x: hi, y: hi }]} dataKey="y" name="observed = predicted" stroke="#8b8578" strokeDasharray="4 4" dot={false} isAnimationActive={false} />
           <Scatter data={points.map((p) => ({ x: p.observed, y: p.fitted, solvent: p.solvent }))} dataKey="y" name="fitted (all solvents)" fill="#1d2433" shape="circle" isAnimationActive={false} />
           <Scatter data={points.map((p) => ({ x: p.observed, y: p.loo, solvent: p.solvent }))} dataKey="y" name="leave-one-out" fill="none" stroke="#8a4b00" shape="triangle" isAnimationActive={false} />

@@ -147,7 +147,7 @@ export function ShiftSearch() {
       <SearchFailed error={search.isError ? search.error : null} labels={SCREEN_LABELS} />
       {asked && answer && (
         <>
-          <Card className="mt-4" title={`${answer.results.length} ${answer.results.length === 1 ? "dye" : "dyes"} with a fitting shift (ΔE00 between A and B, CIEDE2000)`}>
+          <Card className="mt-4" title={`${answer.results.length} ${answer.results.length === 1 ? "dye" : "dyes"} with a fitting shift between A and B`}>
             {answer.results.length === 0 ? (
               <p className="text-sm text-ink-soft">No dye passes. Lower the minimum shift or the viewer threshold, or widen a condition; the reasons are listed below.</p>
             ) : (

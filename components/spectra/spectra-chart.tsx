@@ -59,7 +59,7 @@ export function SpectraChart({ spectra }: { spectra: ChartSpectrum[] }) {
           <LineChart data={rows} margin={{ top: 8, right: 12, bottom: 20, left: 4 }}>
             <CartesianGrid strokeDasharray="3 3" stroke="#e3e6ec" />
             <XAxis dataKey="nm" type="number" domain={["dataMin", "dataMax"]} label={{ value: "wavelength (nm)", position: "insideBottom", offset: -10 }} />
-            <YAxis domain={[(min: number) => Math.min(0, Math.floor(min * 20) / 20), "auto"]} label={{ value: "absorbance (as measured)", angle: -90, position: "insideLeft", offset: 12 }} />
+            <YAxis domain={[(min: number) => Math.min(0, Math.floor(min * 20) / 20), "auto"]} label={{ value: "absorbance (as measured)", angle: -90, position: "insideLeft", offset: 12, fontSize: 12, style: { textAnchor: "middle" } }} />
             <Tooltip formatter={(v) => (typeof v === "number" ? v.toFixed(3) : String(v))} labelFormatter={(nm) => `${nm} nm`} />
             <Legend verticalAlign="top" height={24} />
             {spectra.map((s, i) => (
@@ -77,7 +77,7 @@ export function SpectraChart({ spectra }: { spectra: ChartSpectrum[] }) {
             <th className="py-1 pr-2">Spectrum</th>
             <th className="py-1 pr-2 text-right">λmax (nm)</th>
             <th className="py-1 pr-2 text-right">ν̃max (cm⁻¹)</th>
-            <th className="py-1 pr-2 text-right">E_T (kcal/mol)</th>
+            <th className="py-1 pr-2 text-right">E<sub>T</sub> (kcal/mol)</th>
             <th className="py-1 pr-2 text-right">L*, a*, b*</th>
           </tr>
         </thead>
@@ -92,7 +92,7 @@ export function SpectraChart({ spectra }: { spectra: ChartSpectrum[] }) {
                 {s.source && <span className="block text-xs text-ink-soft">{s.source}</span>}
               </td>
               <td className="py-1 pr-2 text-right tabular-nums">{peak === null ? "no band in the visible" : peak.toFixed(1)}</td>
-              <td className="py-1 pr-2 text-right tabular-nums">{peak === null ? "—" : Math.round(1e7 / peak)}</td>
+              <td className="py-1 pr-2 text-right tabular-nums">{peak === null ? "—" : Math.round(1e7 / peak).toLocaleString("en-GB")}</td>
               <td className="py-1 pr-2 text-right tabular-nums">{colour.transitionEnergyKcalMol === null ? "—" : colour.transitionEnergyKcalMol.toFixed(1)}</td>
               <td className="py-1 pr-2 text-right tabular-nums">{colour.lab.map((v) => v.toFixed(1)).join(", ")}</td>
             </tr>

@@ -29,7 +29,7 @@ export function SpectraSection({ db, dyeId }: { db: Db; dyeId: string }) {
       <SpectraChart spectra={spectra} />
       <p className="mt-3 text-xs text-ink-soft">
         Each spectrum as measured, with its concentration, path length and instrument beside it. λmax is the maximum of the longest-wavelength band in the visible (380–780 nm), the
-        band E_T(30)-type scales use, not the strongest band (“no band in the visible” when there is only a rising UV tail); E_T = 28591/λmax kcal/mol (Reichardt 1994). Neutral spectra
+        band E<sub>T</sub>(30)-type scales use, not the strongest band (“no band in the visible” when there is only a rising UV tail); E<sub>T</sub> = 28591/λmax kcal/mol (Reichardt 1994). Neutral spectra
         in neat solvents give the solvent model its band positions ν̃max = 10⁷/λmax cm⁻¹ where there are enough of them. Colours: CIE 015 summation at 1 nm, CIE 1931 2° observer,
         CIELAB relative to the chosen illuminant&apos;s white, absorbance scaled by Beer–Lambert to the concentration × path length given. UV–visible work: shield UV sources and follow
         your lab&apos;s safety officer and local regulations.

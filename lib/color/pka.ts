@@ -297,7 +297,7 @@ export function fitPkaFromColours(points: readonly PhPoint[], blankLab: Lab = [1
   }
   if (inTransition < 2) {
     flags.push("few-vials-in-transition");
-    messages.push(`Only ${inTransition} vial${inTransition === 1 ? "" : "s"} lie inside the colour change (10–90 % base form); add vials between pH ${(fit.pKa - 1).toFixed(1)} and ${(fit.pKa + 1).toFixed(1)}.`);
+    messages.push(`Only ${inTransition} ${inTransition === 1 ? "vial lies" : "vials lie"} inside the colour change (10–90 % base form); add vials between pH ${(fit.pKa - 1).toFixed(1)} and ${(fit.pKa + 1).toFixed(1)}.`);
   }
   if (acidBand.peakAbsorbance < COLOURLESS_PEAK || baseBand.peakAbsorbance < COLOURLESS_PEAK) {
     flags.push("one-colour-indicator");

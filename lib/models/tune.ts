@@ -92,7 +92,7 @@ export function tune(target: Lab, dyes: readonly TuneDye[], { limit = 20, blends
         deltaE00: deltaE00(target, n.lab),
         uncertaintyDeltaE00: n.uncertaintyDeltaE00,
         measured: n.measured,
-        basis: n.measured ? "measured" : "model prediction",
+        basis: n.measured ? "measured" : "solvent model, neat solvent",
         extrapolated: n.extrapolated,
       });
     }

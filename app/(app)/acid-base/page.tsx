@@ -68,7 +68,11 @@ export default async function PhSeriesPage() {
                         <td className="py-2 pr-3 tabular-nums">
                           {pkaText(s.fit)}
                           <span className="block text-xs text-ink-soft">{s.fit.vials} accepted vials</span>
-                          {s.fit.fit.messages.length > 0 && <Badge tone="warn">check</Badge>}
+                          {s.fit.fit.messages.map((m) => (
+                            <span key={m} className="mt-1 block max-w-xs text-xs">
+                              <Badge tone="warn">check</Badge> {m}
+                            </span>
+                          ))}
                         </td>
                         <td className="py-2 pr-3 tabular-nums">{transitionText(s.fit)}</td>
                         <td className="py-2">

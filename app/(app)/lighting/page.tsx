@@ -96,14 +96,14 @@ export default async function LightingPage() {
         <Card key={t.id} title={t.name} className="mb-4">
           <p className="mb-3 text-sm text-ink-soft">
             {t.description} Values under {t.whitePoint}
-            {t.source ? ` (${t.source})` : ""}. Layout: {t.gridRows && t.gridColumns ? `${t.gridRows} rows × ${t.gridColumns} columns` : "not given"}.
+            {t.source ? ` (${t.source})` : ""}; numbers under each patch are L* / a* / b*. Layout: {t.gridRows && t.gridColumns ? `${t.gridRows} rows × ${t.gridColumns} columns` : "not given"}.
           </p>
           <ul className="flex flex-wrap gap-3">
             {t.patches.map((p) => (
               <li key={p.name} className="flex flex-col items-center text-xs">
                 <Swatch lab={t.whitePoint === "D50" ? labD50ToLabD65(p.lab) : p.lab} size="lg" label={p.name} />
                 <span className="mt-1">{p.name}</span>
-                <span className="text-ink-soft tabular-nums">{p.lab.map((v) => v.toFixed(1)).join(" / ")}</span>
+                <span className="text-ink-soft tabular-nums">{p.lab.map((v) => v.toFixed(1).replace(/^-0\.0$/, "0.0")).join(" / ")}</span>
               </li>
             ))}
           </ul>

@@ -19,7 +19,7 @@ export default async function SearchPage() {
     <>
       <PageHeader
         title="Search by colour"
-        lead="Give a target colour and a condition; each dye appears once, with its accepted colour closest to the target under that condition, ranked exactly by CIEDE2000."
+        lead="Give a target colour and a condition; each dye appears once, with the condition whose mean colour (of its accepted replicates there) is closest to the target, ranked exactly by CIEDE2000."
       />
       <SearchTabs current="colour" />
       <Suspense fallback={<p className="text-sm text-ink-soft">Loading the search…</p>}>

@@ -20,6 +20,9 @@ export const metadata: Metadata = { title: "Tune a colour" };
  * Tune: a target colour and a dye (or every dye) → the table's neat solvents and binary blends ranked by
  * predicted ΔE00 to the target, with uncertainty, what each figure rests on, and each solvent's cautions.
  */
+/** Above this ΔE00 the best result is told as "nothing close", not offered as an answer (common practice, no source). */
+const FAR_DELTA_E00 = 10;
+
 export default async function TunePage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
   await pageAccess(ANY_ROLE);
   const handle = db();
@@ -102,8 +105,16 @@ export default async function TunePage({ searchParams }: { searchParams: Promise
                   Target L* {query.target[0].toFixed(1)}, a* {query.target[1].toFixed(1)}, b* {query.target[2].toFixed(1)} (CIELAB D65)
                 </span>
               </div>
+              {results[0].deltaE00 > FAR_DELTA_E00 && (
+                <div className="mb-3">
+                  <Notice tone="caution" title="Nothing here comes close to the target">
+                    The nearest colour is ΔE00 {results[0].deltaE00.toFixed(1)} from it, far more than a visible difference (more than {FAR_DELTA_E00} ΔE00; common practice, no source).
+                    {dye ? " Try every dye, or another dye." : " No dye with a solvent model reaches this colour in the table's solvents or their blends."}
+                  </Notice>
+                </div>
+              )}
               <div className="overflow-x-auto">
-                <table className="w-full text-left text-sm" aria-label="Ranked solvents and blends">
+                <table className="w-full min-w-[40rem] text-left text-sm" aria-label="Ranked solvents and blends">
                   <thead className="text-xs text-ink-soft">
                     <tr>
                       <th className="py-1 pr-2">#</th>

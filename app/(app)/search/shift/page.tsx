@@ -14,7 +14,7 @@ export default async function ShiftSearchPage() {
     <>
       <PageHeader
         title="Search by colour shift"
-        lead="Find the dye whose colour changes the way a product needs between two conditions: from a colour in A to a colour in B, or simply the largest change. Every pair of accepted colours is scored with CIEDE2000."
+        lead="Find the dye whose colour changes the way a product needs between two conditions: from a colour in A to a colour in B, or simply the largest change. Every pair of accepted colours is scored: by closeness to the colours you give, otherwise by the size of the change in ΔEOK (OKLab, which holds for large changes); the minimum shift is in ΔE00 (CIEDE2000)."
       />
       <SearchTabs current="shift" />
       <Suspense fallback={<p className="text-sm text-ink-soft">Loading the search…</p>}>

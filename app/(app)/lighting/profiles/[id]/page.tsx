@@ -91,7 +91,7 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
       {p.residuals && (
         <Card title="Residuals per patch (ΔE00, CIEDE2000)" className="mt-4">
           <p className="mb-2 text-xs text-ink-soft">
-            Training: the fit on all patches. Leave-one-out: each patch predicted by a fit to the others, which is what a colour the card does not hold can expect. Swatches: as the camera saw the patch, after the profile, and the card&apos;s known value.
+            Training: the fit on all patches. Leave-one-out: each patch predicted by a fit to the others, which is what a colour the card does not hold can expect. Swatches: as the camera saw the patch, after the profile, and the card&apos;s known value{p.fitSamples?.length ? "" : " (none here: this profile keeps no sampled card photo; they appear after a fit from a photo)"}.
           </p>
           <div className="overflow-x-auto">
             <table className="w-full text-sm" data-testid="residuals">
