@@ -79,11 +79,15 @@ it("a chemist uploads a rack photo, marks four vials and the reference, sees liv
   // The solvents in use bring their cautions.
   await expect(page.getByRole("complementary", { name: "Safety" }).innerText()).resolves.toMatch(/Methanol:.*Toxic/);
 
+  // Save only once the live colours belong to the inputs as they are now (the editor says so with data-busy).
+  await marking.settled();
   await page.getByRole("button", { name: "Save 4 measurements" }).click();
   await page.getByRole("status").filter({ hasText: "Saved 4 measurements" }).waitFor();
   await expect(page.getByTestId("saved-measurements").locator("li").count()).resolves.toBe(4);
   const photoUrl = page.url();
   const photoId = photoUrl.split("/").pop()!;
+  // No live check may still be in flight when the session ends (it would be answered 401).
+  await marking.settled();
   await chemist.signOut();
 
   // The chemist's own measurements are not theirs to review; the admin accepts them.
@@ -94,7 +98,7 @@ it("a chemist uploads a rack photo, marks four vials and the reference, sees liv
   await expect(items.count()).resolves.toBe(4);
   for (let left = 4; left > 0; left--) {
     await items.filter({ has: page.getByRole("button", { name: "Accept" }) }).first().getByRole("button", { name: "Accept" }).click();
-    await expect.poll(() => items.filter({ has: page.getByRole("button", { name: "Accept" }) }).count()).toBe(left - 1);
+    await expect.poll(() => items.filter({ has: page.getByRole("button", { name: "Accept" }) }).count(), { timeout: 20_000 }).toBe(left - 1);
   }
   const res = await page.request.get(`${base}/api/measurements?state=accepted`);
   const body = await res.json();
