@@ -21,6 +21,7 @@ import {
   calibrationTargets,
   conditions,
   dyes,
+  checkStandards,
   lightingProfiles,
   measurements,
   photos,
@@ -329,6 +330,22 @@ export async function seedDemo(db: Db, dataDirectory: string, options: { models?
       })
       .run();
     for (const p of profileDefs) tx.insert(lightingProfiles).values(p.row).run();
+    // One registered check standard, so the bench's "Check standard" region has something to pick (no readings seeded:
+    // the lab's accuracy history starts with the first photo that holds it).
+    tx.insert(checkStandards)
+      .values({
+        id: "cs_demo_tile",
+        name: "Kestrel Bay blue check tile (demo)",
+        kind: "tile",
+        l: 52.4,
+        a: -4.1,
+        b: -31.6,
+        whitePoint: "D65",
+        sourceInstrument: "Invented certificate of the demo tile (d/8° spectrophotometer, D65/2°)",
+        notes: "Demo data: an invented tile for trying the check-standard region on the bench.",
+        createdBy: admin.id,
+      })
+      .run();
     for (const d of dyeList) {
       tx.insert(dyes)
         .values({
