@@ -3,7 +3,6 @@
  * readings and re-derivation. Every change is one transaction with its audit entry.
  */
 import { randomUUID } from "node:crypto";
-import type Database from "better-sqlite3";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { labD65ToLabD50, linearSrgbToLab, linearSrgbToXyz, type LabWhite } from "../../lib/color/convert";
 import { deltaE00 } from "../../lib/color/difference";
@@ -18,7 +17,6 @@ import { ColorInputError, measureRegion } from "../../lib/color/regions";
 import type { ObjectStore } from "../../lib/storage/driver";
 import { benchRefusal, profileStatus } from "../../lib/lighting/status";
 import { AppError } from "../../lib/errors";
-import { replicateMeanUncertainty } from "../../lib/search/replicates";
 import type { Db } from "../connection";
 import {
   calibrationTargets,
@@ -514,34 +512,6 @@ export function recordPhotoDrift(
 export function uncertaintiesOf(db: Db, ids: string[]): Map<string, number | null> {
   if (ids.length === 0) return new Map();
   return new Map(db.select({ id: measurements.id, u: measurements.uDeltaE00 }).from(measurements).where(inArray(measurements.id, ids)).all().map((r) => [r.id, r.u]));
-}
-
-const replicateUStatements = new WeakMap<Database.Database, Database.Statement>();
-
-/**
- * ± ΔE00 of one replicate mean (a dye in one solvent, acid/base state and pH) read straight from its
- * accepted rows, with the formula of lib/search/replicates `replicateMeanUncertainty`. The search does
- * not call this per hit: its means index carries mean(uᵢ²) per group (db/queries/search.ts); this one
- * group query stays as the independent check of that (tests/integration/search-api.test.ts).
- */
-export function groupMeanUncertainty(
-  db: Db,
-  hit: { dyeId: string; solvent: string; acidBase: string; pH: number | null; replicates: number; spreadDeltaE00: number },
-): number | null {
-  // `+m.review_state` keeps SQLite on the dye's rows: without ANALYZE statistics it chose the
-  // review-state index and read every accepted measurement.
-  let st = replicateUStatements.get(db.$client);
-  if (!st) {
-    st = db.$client.prepare(
-      `SELECT m.u_delta_e00 AS u FROM measurements m JOIN conditions c ON c.id = m.condition_id JOIN solvents s ON s.id = c.solvent_id
-       WHERE m.dye_id = ? AND +m.review_state = 'accepted' AND s.name = ? AND c.acid_base = ? AND (c.ph IS ? OR c.ph = ?)`,
-    );
-    replicateUStatements.set(db.$client, st);
-  }
-  const rows = st.all(hit.dyeId, hit.solvent, hit.acidBase, hit.pH, hit.pH) as { u: number | null }[];
-  const known = rows.map((r) => r.u).filter((u): u is number => typeof u === "number");
-  const meanSquaredU = known.length === 0 ? null : known.reduce((s, u) => s + u * u, 0) / known.length;
-  return replicateMeanUncertainty({ meanSquaredU, replicates: hit.replicates, spreadDeltaE00: hit.spreadDeltaE00 });
 }
 
 export function standardOrRefuse(db: Db, id: string) {

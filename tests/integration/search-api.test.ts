@@ -9,7 +9,7 @@ import { GET as search } from "@/app/api/search/route";
 import { db } from "@/db/client";
 import { databaseFile, openDatabase } from "@/db/connection";
 import { searchByColour } from "@/db/queries/search";
-import { groupMeanUncertainty } from "@/db/queries/lighting";
+import { replicateMeanUncertainty } from "@/lib/search/replicates";
 import { isTie } from "@/lib/color/uncertainty";
 import { acceptedMeasurements } from "@/db/queries/bench";
 import { conditions, measurements, solvents } from "@/db/schema";
@@ -232,8 +232,17 @@ describe("GET /api/search", () => {
     const setU = db().$client.prepare("UPDATE measurements SET u_delta_e00 = ? WHERE id = ?");
     db().$client.transaction(() => ids.forEach((id, i) => setU.run(i % 7 === 3 ? null : 0.4 + ((i * 37) % 23) / 10, id)))();
     type UHit = Hit & { uncertaintyDeltaE00: number | null; tieWithPrevious: boolean };
-    const perGroup = (r: UHit) =>
-      groupMeanUncertainty(db(), { dyeId: r.dye.id, solvent: r.condition.solvent, acidBase: r.condition.acidBase, pH: r.condition.pH, replicates: r.replicates, spreadDeltaE00: r.spreadDeltaE00 });
+    // The independent check: each hit's group read straight from its accepted rows with SQL, not from the means index.
+    const groupU = db().$client.prepare(
+      `SELECT m.u_delta_e00 AS u FROM measurements m JOIN conditions c ON c.id = m.condition_id JOIN solvents s ON s.id = c.solvent_id
+       WHERE m.dye_id = ? AND m.review_state = 'accepted' AND s.name = ? AND c.acid_base = ? AND (c.ph IS ? OR c.ph = ?)`,
+    );
+    const perGroup = (r: UHit) => {
+      const rows = groupU.all(r.dye.id, r.condition.solvent, r.condition.acidBase, r.condition.pH, r.condition.pH) as { u: number | null }[];
+      const known = rows.map((x) => x.u).filter((u): u is number => typeof u === "number");
+      const meanSquaredU = known.length === 0 ? null : known.reduce((sum, u) => sum + u * u, 0) / known.length;
+      return replicateMeanUncertainty({ meanSquaredU, replicates: r.replicates, spreadDeltaE00: r.spreadDeltaE00 });
+    };
     let ties = 0;
     let known = 0;
     for (const target of ["50,0,0", "30,40,-60", "70,-30,50", "60,60,30"]) {
