@@ -1,5 +1,6 @@
 "use server";
 
+import { redirect } from "next/navigation";
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { db } from "@/db/client";
@@ -41,7 +42,9 @@ export const saveProfileAction = formAction({ access: ADMIN_ONLY, schema: profil
   }
   const newId = createDraftProfile(db(), { actorId: user.id, fields });
   refresh(newId);
-  return { ok: true, message: `Draft “${fields.name}” created; next, fit it from a card photo.`, data: { id: newId } };
+  // Straight to the new draft: fitting it from a card photo is the next step, and a redirect does not
+  // depend on the list page keeping the form's state while it re-renders.
+  redirect(`/lighting/profiles/${newId}?created=1`);
 });
 
 export const approveProfileAction = formAction({ access: ADMIN_ONLY, schema: approveSchema }, async ({ id, toleranceMean, toleranceMax }, { user }) => {

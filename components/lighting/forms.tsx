@@ -85,13 +85,6 @@ export function ProfileForm({ values, targets }: { values?: ProfileDraftValues; 
       <div className="space-y-2 md:col-span-2">
         <SubmitButton pendingText="Saving…">{v?.id ? "Save draft" : "Create draft profile"}</SubmitButton>
         <FormMessage state={state} />
-        {state?.ok && !v?.id && typeof state.data?.id === "string" && (
-          <p className="text-sm">
-            <a className="text-accent underline" href={`/lighting/profiles/${state.data.id}`}>
-              Open the new draft to fit it
-            </a>
-          </p>
-        )}
       </div>
     </form>
   );

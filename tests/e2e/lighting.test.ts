@@ -65,8 +65,9 @@ it("the admin fits and approves a profile from a card photo; the chemist measure
   await draft.getByLabel("Calibration target").selectOption(option!);
   await draft.getByLabel("Method").selectOption("auto");
   await draft.getByRole("button", { name: "Create draft profile" }).click();
-  await page.getByRole("link", { name: "Open the new draft to fit it" }).click();
-  await page.waitForURL(/\/lighting\/profiles\/lp_/);
+  // Creating a draft lands on it, ready to be fitted.
+  await page.waitForURL(/\/lighting\/profiles\/lp_[^?]*\?created=1/);
+  await page.getByTestId("draft-created").waitFor();
   await expect(page.getByTestId("profile-status").innerText()).resolves.toMatch(/Draft/);
 
   await page.getByTestId("card-photo-input").setInputFiles(card.file);

@@ -30,7 +30,7 @@ import { CARD as SPECTRAL_CARD, sceneXyzD65, spectrumLab, VIALS } from "../suppo
 import { renderSwatches, SYNTHETIC_CAMERAS } from "@/lib/color/synthetic-camera";
 import { deltaE00 } from "@/lib/color/difference";
 import sharp from "sharp";
-import { actAs, addMeasurement, buildWorld, form, PEOPLE, tokenFor } from "../support/world";
+import { actAs, addMeasurement, buildWorld, form, PEOPLE, redirectOf, tokenFor } from "../support/world";
 
 const limits = { maxBytes: 40 * 1048576, maxPixels: 100e6 };
 let targetId: string;
@@ -55,9 +55,11 @@ const profileFields = (name: string, extra: Record<string, string> = {}) => ({
 
 async function draft(name: string, extra: Record<string, string> = {}): Promise<string> {
   await actAs("admin");
-  const res = await saveProfileAction(null, form(profileFields(name, extra)));
-  expect(res, JSON.stringify(res)).toMatchObject({ ok: true });
-  return res!.data!.id as string;
+  // Creating a draft sends the admin to it, ready to be fitted.
+  const to = await redirectOf(saveProfileAction(null, form(profileFields(name, extra))));
+  const id = /^\/lighting\/profiles\/(lp_[^?]+)\?created=1$/.exec(to)?.[1];
+  expect(id, to).toBeDefined();
+  return id!;
 }
 
 async function fit(profileId: string, photoId: string) {

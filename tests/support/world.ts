@@ -76,3 +76,19 @@ export function form(fields: Record<string, string>): FormData {
   for (const [k, v] of Object.entries(fields)) fd.append(k, v);
   return fd;
 }
+
+/**
+ * Runs a server action that ends in a redirect and returns where it sent the browser; fails with the
+ * action's own answer when it returned instead (a refusal names what was wrong).
+ */
+export async function redirectOf(promise: Promise<unknown>): Promise<string> {
+  let answer: unknown;
+  try {
+    answer = await promise;
+  } catch (error) {
+    const digest = (error as { digest?: unknown }).digest;
+    if (typeof digest === "string" && digest.startsWith("NEXT_REDIRECT;")) return digest.split(";")[2];
+    throw error;
+  }
+  throw new Error(`expected a redirect, the action answered ${JSON.stringify(answer)}`);
+}

@@ -11,7 +11,7 @@ import { CardFit } from "@/components/lighting/card-fit";
 import { ProfileForm } from "@/components/lighting/forms";
 import { HistoryChart } from "@/components/lighting/history-chart";
 import { ProfileStatusBadge } from "@/components/lighting/status-badge";
-import { Card, PageHeader } from "@/components/ui/card";
+import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { Field, TextInput } from "@/components/ui/field";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
@@ -26,10 +26,11 @@ export const metadata: Metadata = { title: "Lighting profile" };
 const day = (d: Date | null) => (d ? d.toISOString().slice(0, 10) : "");
 const f2 = (v: number | null | undefined) => (v === null || v === undefined ? "—" : v.toFixed(2));
 
-export default async function ProfilePage({ params }: { params: Promise<{ id: string }> }) {
+export default async function ProfilePage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ created?: string }> }) {
   const { user } = await pageAccess(ANY_ROLE);
   const isAdmin = user.role === "admin";
   const { id } = await params;
+  const { created } = await searchParams;
   const handle = db();
   const p = getProfile(handle, id);
   if (!p) notFound();
@@ -52,6 +53,11 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
           All lighting profiles
         </Link>
       </p>
+      {created === "1" && isAdmin && p.state === "draft" && (
+        <div className="mb-4" data-testid="draft-created">
+          <Notice tone="ok">Draft “{p.name}” created. Next, upload a photo of the card under this light and fit it below.</Notice>
+        </div>
+      )}
       <div className="grid gap-4 lg:grid-cols-2">
         <Card title="Profile">
           <dl className="grid grid-cols-2 gap-x-4 gap-y-2 text-sm">
