@@ -316,6 +316,10 @@ export const checkStandards = sqliteTable("check_standards", {
   notes: text("notes").notNull().default(""),
   createdBy: text("created_by").references(() => users.id),
   createdAt: createdAt(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }),
+  /** A retired standard is no longer offered on the bench; its readings stay in the profiles' check histories. */
+  retiredAt: integer("retired_at", { mode: "timestamp_ms" }),
+  retiredBy: text("retired_by").references(() => users.id),
 });
 export type CheckStandard = typeof checkStandards.$inferSelect;
 

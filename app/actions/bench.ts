@@ -5,22 +5,26 @@ import { z } from "zod";
 import { db } from "@/db/client";
 import { deleteRackTemplate, deleteSolventPanel, earlierReplicates, saveMeasurements, saveRackTemplate, saveSolventPanel } from "@/db/queries/bench";
 import { getPhoto, measureOnPhoto } from "@/db/queries/photos";
-import { adminEmails, getProfile, recordPhotoDrift, standardOrRefuse } from "@/db/queries/lighting";
+import { adminEmails, getProfile, standardOrRefuse } from "@/db/queries/lighting";
 import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
 import { send } from "@/lib/mail";
 import { formAction, parseInput } from "@/lib/auth/guard";
 import { BENCH_ROLES } from "@/lib/auth/roles";
+import { checkStandardRefusal } from "@/lib/bench/checks";
 import { checkReplicate, replicateFlags } from "@/lib/bench/replicates";
 import { panelSchema, saveRequestSchema, templateSchema } from "@/lib/bench/schemas";
 import { AppError } from "@/lib/errors";
 import { objectStore } from "@/lib/storage";
 import { photoLimits } from "@/lib/storage/limits";
 
-/** Drift of the photo's references through its profile: recorded, and admins told by e-mail above the limit. */
-async function noteDrift(photoId: string, profileId: string | null, references: { label?: string; driftDeltaE00: number }[]) {
+/**
+ * Tells the admins by e-mail about references that drifted past the limit. Called only once the save
+ * has committed (mail cannot be part of the transaction); a mail failure does not undo the save, it
+ * is logged and named in the chemist's message instead.
+ */
+async function mailDrift(photoId: string, profileId: string | null, flagged: { label: string; deltaE00: number }[]): Promise<string> {
+  if (flagged.length === 0 || !profileId) return "";
   const handle = db();
-  const flagged = recordPhotoDrift(handle, { profileId, photoId, references, limit: DRIFT_LIMIT_DE00 });
-  if (flagged.length === 0 || !profileId) return;
   const profile = getProfile(handle, profileId);
   const text = [
     `A bench photo's references no longer match the lighting profile “${profile?.name ?? profileId}”:`,
@@ -29,7 +33,13 @@ async function noteDrift(photoId: string, profileId: string | null, references: 
     "The measurements from this photo are flagged. Check the light and the camera settings, and re-fit the profile if the light has changed.",
     `Photo: /bench/photos/${photoId}   Profile: /lighting/profiles/${profileId}`,
   ].join("\n");
-  for (const to of adminEmails(handle)) await send({ to, subject: `Light drift on “${profile?.name ?? profileId}”`, text });
+  try {
+    for (const to of adminEmails(handle)) await send({ to, subject: `Light drift on “${profile?.name ?? profileId}”`, text });
+    return "";
+  } catch (error) {
+    console.error("Drift mail not sent:", error);
+    return " The admins could not be e-mailed about the light drift; tell them yourself.";
+  }
 }
 
 const jsonPayload = z.object({ payload: z.string().min(2, { error: "Nothing to save." }).max(2_000_000) });
@@ -43,8 +53,9 @@ function parseJson(text: string): unknown {
 }
 
 /**
- * Saves the marked vials of a photo. The colours are measured again here, on the stored photo: what
- * the browser showed is never trusted as the record. Flagged vials need a reason, or nothing is saved.
+ * Saves the marked vials and check standards of a photo. The colours are measured again here, on the
+ * stored photo: what the browser showed is never trusted as the record. Flagged vials need a reason, or
+ * nothing is saved. Vials, drift and check readings are one transaction; the drift mail follows the commit.
  */
 export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {
   const input = parseInput(saveRequestSchema, parseJson(payload));
@@ -53,6 +64,8 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
   if (!photo) throw new AppError("not_found", "That photo no longer exists.");
   const checks = input.checkStandards ?? [];
   const checkNames = checks.map((c) => `“${standardOrRefuse(handle, c.standardId).name}”`);
+  const needsCorrection = checks.length > 0 ? checkStandardRefusal({ lightingProfileId: input.lightingProfileId, referenceCount: input.references.length }) : null;
+  if (needsCorrection) throw new AppError("invalid_input", needsCorrection, { checkStandards: [needsCorrection] });
   const measured = await measureOnPhoto(handle, objectStore(), photo, {
     lightingProfileId: input.lightingProfileId,
     references: input.references,
@@ -109,20 +122,20 @@ export const saveMeasurementsAction = formAction({ access: BENCH_ROLES, schema: 
       };
     }),
     checks: checks.map((c, i) => ({ standardId: c.standardId, labD65: (checkResults[i] as Extract<(typeof checkResults)[number], { ok: true }>).colour.lab })),
+    drift: { references: result.references, limit: DRIFT_LIMIT_DE00 },
   });
-  await noteDrift(photo.id, input.lightingProfileId, result.references);
+  const mailProblem = await mailDrift(photo.id, input.lightingProfileId, saved.driftFlagged);
   revalidatePath("/bench");
   revalidatePath(`/bench/photos/${photo.id}`);
   revalidatePath("/review");
   const { ids } = saved;
   const checkWords = saved.checks.map((c, i) => `${checkNames[i]} ΔE00 ${c.deltaE00.toFixed(2)} to its known value`);
-  return {
-    ok: true,
-    message:
-      `Saved ${ids.length} measurement${ids.length === 1 ? "; it waits" : "s; they wait"} for review by another chemist or an admin.` +
-      (checkWords.length ? ` Recorded ${input.lightingProfileId ? "in the profile's check history" : "with no profile, so in no profile's check history"}: ${checkWords.join("; ")}.` : ""),
-    data: { ids, checks: saved.checks },
-  };
+  const where = input.lightingProfileId ? "in the profile's check history" : "with no profile (reference scaling only), so in no profile's check history";
+  const message =
+    ids.length === 0
+      ? `Check reading${checkWords.length === 1 ? "" : "s"} saved, no measurements (only check standards were marked). Recorded ${where}: ${checkWords.join("; ")}.`
+      : `Saved ${ids.length} measurement${ids.length === 1 ? "; it waits" : "s; they wait"} for review by another chemist or an admin.` + (checkWords.length ? ` Recorded ${where}: ${checkWords.join("; ")}.` : "");
+  return { ok: true, message: message + mailProblem, data: { ids, checks: saved.checks } };
 });
 
 export const saveTemplateAction = formAction({ access: BENCH_ROLES, schema: jsonPayload }, async ({ payload }, { user }) => {

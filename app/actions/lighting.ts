@@ -12,14 +12,16 @@ import {
   createTarget,
   fitProfileFromPhoto,
   reopenProfile,
+  retireCheckStandard,
   retireProfile,
+  updateCheckStandard,
   updateDraftProfile,
   updateTarget,
 } from "@/db/queries/lighting";
 import { formAction, parseInput } from "@/lib/auth/guard";
 import { ADMIN_ONLY } from "@/lib/auth/roles";
 import { AppError } from "@/lib/errors";
-import { approveSchema, checkStandardSchema, fitRequestSchema, profileFormSchema, profileIdSchema, rederiveSchema, targetFormSchema } from "@/lib/lighting/schemas";
+import { approveSchema, checkStandardEditSchema, checkStandardIdSchema, checkStandardSchema, fitRequestSchema, profileFormSchema, profileIdSchema, rederiveSchema, targetFormSchema } from "@/lib/lighting/schemas";
 import { parseTargetCsv } from "@/lib/lighting/target-csv";
 import { objectStore } from "@/lib/storage";
 import { photoLimits } from "@/lib/storage/limits";
@@ -111,13 +113,35 @@ export const saveTargetAction = formAction({ access: ADMIN_ONLY, schema: targetF
   return { ok: true, message: `Target “${input.name}” created with ${parsed.patches.length} patches.`, data: { id } };
 });
 
+const standardFields = (input: z.infer<typeof checkStandardSchema>) => ({
+  name: input.name,
+  kind: input.kind,
+  lab: [input.l!, input.a!, input.b!] as [number, number, number],
+  whitePoint: input.whitePoint,
+  sourceInstrument: input.sourceInstrument,
+  notes: input.notes,
+});
+
 export const createCheckStandardAction = formAction({ access: ADMIN_ONLY, schema: checkStandardSchema }, async (input, { user }) => {
-  createCheckStandard(db(), {
-    actorId: user.id,
-    fields: { name: input.name, kind: input.kind, lab: [input.l!, input.a!, input.b!], whitePoint: input.whitePoint, sourceInstrument: input.sourceInstrument, notes: input.notes },
-  });
+  createCheckStandard(db(), { actorId: user.id, fields: standardFields(input) });
   refresh();
   return { ok: true, message: `Check standard “${input.name}” registered.` };
+});
+
+/** Edits a check standard; its known value is refused once readings were computed against it (db/queries/lighting.ts). Admins only; audited. */
+export const updateCheckStandardAction = formAction({ access: ADMIN_ONLY, schema: checkStandardEditSchema }, async ({ id, ...input }, { user }) => {
+  updateCheckStandard(db(), { actorId: user.id, id, fields: standardFields(input) });
+  refresh();
+  revalidatePath("/lighting/profiles", "layout");
+  return { ok: true, message: `Check standard “${input.name}” saved.` };
+});
+
+/** Retires a check standard: no longer offered on the bench, its readings stay in the check histories. Admins only; audited. */
+export const retireCheckStandardAction = formAction({ access: ADMIN_ONLY, schema: checkStandardIdSchema }, async ({ id }, { user }) => {
+  retireCheckStandard(db(), { actorId: user.id, id });
+  refresh();
+  revalidatePath("/lighting/profiles", "layout");
+  return { ok: true, message: "Check standard retired; it is no longer offered on the bench. Its readings stay in the profiles' check histories." };
 });
 
 /** Re-derives every measurement under a profile after the admin saw the preview (count must match). */

@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import { useActionState, useEffect, useMemo, useRef, useState } from "react";
 import { deletePanelAction, deleteTemplateAction, saveMeasurementsAction, savePanelAction, saveTemplateAction } from "@/app/actions/bench";
 import { SafetyNotice } from "@/components/ui/safety";
+import { checkStandardRefusal } from "@/lib/bench/checks";
 import { flagWords } from "@/lib/bench/flags";
 import { labD65ToLabD50 } from "@/lib/color/convert";
 import { deltaE00 } from "@/lib/color/difference";
@@ -357,7 +358,8 @@ export function MarkingEditor(props: {
           body: JSON.stringify({
             lightingProfileId: profileId || null,
             references: refInputs.map((r) => ({ region: r.region, lab: r.lab, label: r.label })),
-            vials: measured.map((m) => ({ key: m.key, region: { shape: m.shape, x: m.x, y: m.y, w: m.w, h: m.h } })),
+            vials: vials.map((m) => ({ key: m.key, region: { shape: m.shape, x: m.x, y: m.y, w: m.w, h: m.h } })),
+            checks: checks.map((m) => ({ key: m.key, region: { shape: m.shape, x: m.x, y: m.y, w: m.w, h: m.h } })),
           }),
         });
         const body = await res.json();
@@ -368,7 +370,8 @@ export function MarkingEditor(props: {
         const refMap: Record<string, RefResult> = {};
         (body.references as RefResult[]).forEach((r, i) => (refMap[refInputs[i].key] = r));
         setLive({
-          vials: Object.fromEntries((body.vials as ({ key: string } & Live["vials"][string])[]).map((v) => [v.key, v])),
+          // Check standards answer beside the vials (or say what is missing before they can be read).
+          vials: Object.fromEntries([...(body.vials as ({ key: string } & Live["vials"][string])[]), ...((body.checks ?? []) as ({ key: string } & Live["vials"][string])[])].map((v) => [v.key, v])),
           references: refMap,
           photoFlags: body.photoFlags,
           correction: body.correction.kind,
@@ -482,7 +485,10 @@ export function MarkingEditor(props: {
     return [...r.colour.flags, ...extra.filter((f) => !r.colour.flags.includes(f))];
   };
   const problems: string[] = [];
-  if (vials.length === 0) problems.push("Mark at least one vial.");
+  if (vials.length === 0 && checks.length === 0) problems.push("Mark at least one vial, or a check standard to check the light.");
+  // A check standard is read through the light correction: without one its ΔE00 would say nothing (lib/bench/checks.ts).
+  const checkNeeds = checks.length > 0 ? checkStandardRefusal({ lightingProfileId: profileId || null, referenceCount: refInputs.length }) : null;
+  if (checkNeeds) problems.push(checkNeeds);
   for (const r of refs) if (!refInputs.some((x) => x.key === r.key)) problems.push(`${r.label} needs its known L*, a*, b* (from the tile's certificate).`);
   for (const v of vials) {
     if (!v.dyeId) problems.push(`${v.label} needs a dye.`);
@@ -514,7 +520,7 @@ export function MarkingEditor(props: {
   for (const c of checks) {
     if (!c.standardId) problems.push(`${c.label} needs its registered check standard, or remove it.`);
     const r = live.vials[c.key];
-    if (r && !r.ok) problems.push(`${c.label}: ${r.error}`);
+    if (r && !r.ok && !checkNeeds) problems.push(`${c.label}: ${r.error}`);
   }
   const measuredAll = measured.every((v) => live.vials[v.key]?.ok) && !measuring && !checkingReplicates;
 
@@ -1031,7 +1037,13 @@ export function MarkingEditor(props: {
                       <button type="button" aria-label={`Remove ${m.label}`} onClick={() => setMarks((all) => all.filter((x) => x.key !== m.key))} className={`${BUTTON} text-bad`}>
                         ✕
                       </button>
-                      {r && !r.ok && <p className="text-xs text-bad sm:col-span-3">{r.error}</p>}
+                      {checkNeeds ? (
+                        <p className="text-xs text-warn sm:col-span-3" data-testid="check-needs-correction">
+                          {checkNeeds}
+                        </p>
+                      ) : (
+                        r && !r.ok && <p className="text-xs text-bad sm:col-span-3">{r.error}</p>
+                      )}
                       {seen && standard && (
                         <p className="text-xs text-ink-soft sm:col-span-3" data-testid="check-result">
                           Measured (CIELAB {standard.whitePoint}): L* {fmt(seen[0], 2)} a* {fmt(seen[1], 2)} b* {fmt(seen[2], 2)} · ΔE00 {fmt(deltaE00(seen, standard.lab), 2)} to its known value
@@ -1109,11 +1121,20 @@ export function MarkingEditor(props: {
                 </ul>
               )}
               <button disabled={saving || problems.length > 0 || !measuredAll} className="min-h-11 w-full rounded-md bg-accent px-4 text-base font-semibold text-white disabled:opacity-40">
-                {saving ? "Saving…" : `Save ${vials.length} measurement${vials.length === 1 ? "" : "s"}`}
+                {saving
+                  ? "Saving…"
+                  : vials.length === 0 && checks.length > 0
+                    ? `Save ${checks.length} check reading${checks.length === 1 ? "" : "s"}`
+                    : `Save ${vials.length} measurement${vials.length === 1 ? "" : "s"}`}
               </button>
               {saveState && (
                 <p role={saveState.ok ? "status" : "alert"} className={`text-sm ${saveState.ok ? "text-ok" : "text-bad"}`}>
-                  {saveState.message} {saveState.ok && <Link href={`/review?photoId=${photo.id}`} className="font-semibold underline">Open them in the review queue</Link>}
+                  {saveState.message}{" "}
+                  {saveState.ok && ((saveState.data?.ids as string[] | undefined)?.length ?? 0) > 0 && (
+                    <Link href={`/review?photoId=${photo.id}`} className="font-semibold underline">
+                      Open them in the review queue
+                    </Link>
+                  )}
                 </p>
               )}
             </form>

@@ -1,7 +1,7 @@
 "use client";
 
 import { useActionState } from "react";
-import { createCheckStandardAction, saveProfileAction, saveTargetAction } from "@/app/actions/lighting";
+import { createCheckStandardAction, saveProfileAction, saveTargetAction, updateCheckStandardAction } from "@/app/actions/lighting";
 import { Field, Select, TextArea, TextInput } from "@/components/ui/field";
 import { FormMessage, SubmitButton } from "@/components/ui/form-status";
 
@@ -134,46 +134,60 @@ export function TargetForm({ values }: { values?: TargetValues }) {
   );
 }
 
-export function CheckStandardForm() {
-  const [state, action] = useActionState(createCheckStandardAction, null);
-  const idp = "check-";
+export type CheckStandardValues = { id: string; name: string; kind: "vial" | "tile"; l: number; a: number; b: number; whitePoint: string; sourceInstrument: string; notes: string; readings: number };
+
+/** Registers a check standard, or edits one (`values`); a standard with readings keeps its known value (the server refuses a change). */
+export function CheckStandardForm({ values }: { values?: CheckStandardValues }) {
+  const [state, action] = useActionState(values ? updateCheckStandardAction : createCheckStandardAction, null);
+  const idp = `check-${values?.id ?? "new"}-`;
   const e = state?.fieldErrors ?? {};
+  const v = values;
+  // The known value is what earlier readings' ΔE00 were computed against: shown, not editable, once there are readings.
+  const locked = (v?.readings ?? 0) > 0;
+  const lockHint = locked ? `fixed: ${v!.readings} reading${v!.readings === 1 ? "" : "s"} were computed against it` : undefined;
+  // Full precision, so an unchanged value is sent back exactly as stored.
+  const num = (n: number | undefined) => (n === undefined ? "" : String(n));
   return (
-    <form action={action} className="grid gap-3 md:grid-cols-3" noValidate aria-label="New check standard">
+    <form action={action} className="grid gap-3 md:grid-cols-3" noValidate aria-label={v ? `Edit check standard ${v.name}` : "New check standard"}>
+      {v && <input type="hidden" name="id" value={v.id} />}
       <Field label="Name" name={`${idp}name`} error={e.name}>
-        <TextInput id={`${idp}name`} name="name" error={e.name} />
+        <TextInput id={`${idp}name`} name="name" defaultValue={v?.name ?? ""} error={e.name} />
       </Field>
       <Field label="Kind" name={`${idp}kind`} error={e.kind}>
-        <Select id={`${idp}kind`} name="kind" defaultValue="vial">
+        <Select id={`${idp}kind`} name="kind" defaultValue={v?.kind ?? "vial"}>
           <option value="vial">sealed vial</option>
           <option value="tile">tile</option>
         </Select>
       </Field>
-      <Field label="White point" name={`${idp}whitePoint`} error={e.whitePoint}>
-        <Select id={`${idp}whitePoint`} name="whitePoint" defaultValue="D50">
-          <option value="D50">D50</option>
-          <option value="D65">D65</option>
-        </Select>
+      <Field label="White point" name={`${idp}whitePoint`} error={e.whitePoint} hint={lockHint}>
+        {locked ? (
+          <>
+            <input type="hidden" name="whitePoint" value={v!.whitePoint} />
+            <TextInput id={`${idp}whitePoint`} value={v!.whitePoint} readOnly aria-readonly="true" />
+          </>
+        ) : (
+          <Select id={`${idp}whitePoint`} name="whitePoint" defaultValue={v?.whitePoint ?? "D50"}>
+            <option value="D50">D50</option>
+            <option value="D65">D65</option>
+          </Select>
+        )}
       </Field>
-      <Field label="L*" name={`${idp}l`} error={e.l}>
-        <TextInput id={`${idp}l`} name="l" inputMode="decimal" error={e.l} />
-      </Field>
-      <Field label="a*" name={`${idp}a`} error={e.a}>
-        <TextInput id={`${idp}a`} name="a" inputMode="decimal" error={e.a} />
-      </Field>
-      <Field label="b*" name={`${idp}b`} error={e.b}>
-        <TextInput id={`${idp}b`} name="b" inputMode="decimal" error={e.b} />
-      </Field>
+      {(["l", "a", "b"] as const).map((f) => (
+        <Field key={f} label={{ l: "L*", a: "a*", b: "b*" }[f]} name={`${idp}${f}`} error={e[f]} hint={lockHint}>
+          <TextInput id={`${idp}${f}`} name={f} inputMode="decimal" defaultValue={num(v?.[f])} readOnly={locked} aria-readonly={locked || undefined} error={e[f]} />
+        </Field>
+      ))}
       <Field label="Measured with (instrument, date)" name={`${idp}sourceInstrument`} error={e.sourceInstrument}>
-        <TextInput id={`${idp}sourceInstrument`} name="sourceInstrument" error={e.sourceInstrument} />
+        <TextInput id={`${idp}sourceInstrument`} name="sourceInstrument" defaultValue={v?.sourceInstrument ?? ""} error={e.sourceInstrument} />
       </Field>
       <div className="md:col-span-2">
         <Field label="Notes" name={`${idp}notes`} error={e.notes}>
-          <TextInput id={`${idp}notes`} name="notes" error={e.notes} />
+          <TextInput id={`${idp}notes`} name="notes" defaultValue={v?.notes ?? ""} error={e.notes} />
         </Field>
       </div>
       <div className="space-y-2 md:col-span-3">
-        <SubmitButton pendingText="Saving…">Register check standard</SubmitButton>
+        {locked && <p className="text-xs text-ink-soft">For a new known value, register it as a new check standard and retire this one.</p>}
+        <SubmitButton pendingText="Saving…">{v ? "Save check standard" : "Register check standard"}</SubmitButton>
         <FormMessage state={state} />
       </div>
     </form>

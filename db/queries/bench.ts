@@ -29,7 +29,7 @@ import {
   type TemplateRegion,
 } from "../schema";
 import { recordAudit } from "./audit";
-import { assertBenchProfile, recordPhotoChecks } from "./lighting";
+import { assertBenchProfile, recordPhotoChecks, recordPhotoDrift } from "./lighting";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
@@ -214,8 +214,10 @@ export type MeasurementToSave = ConditionInput & {
 
 /**
  * Saves the vials of one photo in one transaction: the photo's lighting profile, a condition per vial
- * (reused when identical), one measurement per vial (pending review), a check reading per check
- * standard in the photo, and an audit entry for each change. Any failure saves nothing.
+ * (reused when identical), one measurement per vial (pending review), a drift reading per in-photo
+ * reference seen through the profile, a check reading per check standard in the photo, and an audit
+ * entry for each change. A photo may hold only check standards (no vials). Any failure saves nothing.
+ * The drift readings above the limit are returned so the caller can tell the admins after the commit.
  */
 export function saveMeasurements(
   db: Db,
@@ -228,11 +230,14 @@ export function saveMeasurements(
     vials: MeasurementToSave[];
     /** Check standards measured in the photo (CIELAB D65 from the same pipeline as the vials). */
     checks?: { standardId: string; labD65: [number, number, number] }[];
+    /** Each reference's ΔE00 between what the profile alone sees and its known value, and the limit above which it is flagged. */
+    drift?: { references: { label?: string; driftDeltaE00: number }[]; limit: number };
   },
-): { ids: string[]; checks: { id: string; deltaE00: number }[] } {
+): { ids: string[]; checks: { id: string; deltaE00: number }[]; driftFlagged: { label: string; deltaE00: number }[] } {
   return db.transaction((tx) => {
     const photo = tx.select().from(photos).where(eq(photos.id, input.photoId)).get();
     if (!photo) throw new AppError("not_found", "That photo no longer exists.");
+    if (input.vials.length === 0 && (input.checks ?? []).length === 0) throw new AppError("invalid_input", "Mark at least one vial or check standard before saving.");
     for (const [i, v] of input.vials.entries()) {
       if (v.flags.length > 0 && !v.flagReason) {
         throw new AppError("invalid_input", `Vial ${i + 1} is flagged (${v.flags.join(", ")}); say why it should be kept, or re-mark it.`, { [`vials.${i}.flagReason`]: ["Give a reason to keep a flagged measurement."] });
@@ -315,8 +320,9 @@ export function saveMeasurements(
       });
       ids.push(id);
     }
+    const drift = input.drift ? recordPhotoDrift(tx, { profileId: input.lightingProfileId, photoId: photo.id, references: input.drift.references, limit: input.drift.limit }) : [];
     const checks = recordPhotoChecks(tx, { actorId: input.actorId, photoId: photo.id, profileId: input.lightingProfileId, readings: input.checks ?? [] });
-    return { ids, checks };
+    return { ids, checks, driftFlagged: drift.map((d) => ({ label: d.label, deltaE00: d.deltaE00 })) };
   });
 }
 

@@ -3,7 +3,7 @@
  * readings and re-derivation. Every change is one transaction with its audit entry.
  */
 import { randomUUID } from "node:crypto";
-import { and, asc, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { labD65ToLabD50, linearSrgbToLab, linearSrgbToXyz, type LabWhite } from "../../lib/color/convert";
 import { deltaE00 } from "../../lib/color/difference";
 import type { Lab } from "../../lib/color/types";
@@ -23,6 +23,7 @@ import {
   checkReadings,
   checkStandards,
   driftReadings,
+  type CheckStandard,
   lightingProfiles,
   measurements,
   users,
@@ -283,15 +284,30 @@ export function updateTarget(db: Db, { actorId, id, fields }: { actorId: string;
 
 export type CheckStandardFields = { name: string; kind: "vial" | "tile"; lab: Lab; whitePoint: "D65" | "D50"; sourceInstrument: string; notes: string };
 
+/** Every check standard, retired ones included (the Lighting page lists them all), with its number of readings. */
 export function listCheckStandards(db: Db) {
-  return db.select().from(checkStandards).orderBy(checkStandards.name).all();
+  return db
+    // Spelled out: in a one-table select drizzle leaves column names unqualified, and "id" would be the reading's.
+    .select({ standard: checkStandards, readings: sql<number>`(select count(*) from check_readings cr where cr.standard_id = check_standards.id)` })
+    .from(checkStandards)
+    .orderBy(checkStandards.name)
+    .all()
+    .map(({ standard, readings }) => ({ ...standard, readings }));
+}
+
+/** The check standards a chemist may mark on the bench: those not retired. */
+export function benchCheckStandards(db: Db) {
+  return db.select().from(checkStandards).where(isNull(checkStandards.retiredAt)).orderBy(checkStandards.name).all();
+}
+
+function checkStandardNameFree(tx: Tx, name: string, exceptId?: string) {
+  const other = tx.select({ id: checkStandards.id }).from(checkStandards).where(eq(checkStandards.name, name)).get();
+  if (other && other.id !== exceptId) throw new AppError("conflict", `A check standard is already called “${name}”; choose another name.`, { name: ["Name in use."] });
 }
 
 export function createCheckStandard(db: Db, { actorId, fields }: { actorId: string; fields: CheckStandardFields }): string {
   return db.transaction((tx) => {
-    if (tx.select({ id: checkStandards.id }).from(checkStandards).where(eq(checkStandards.name, fields.name)).get()) {
-      throw new AppError("conflict", `A check standard is already called “${fields.name}”; choose another name.`, { name: ["Name in use."] });
-    }
+    checkStandardNameFree(tx, fields.name);
     const id = `cs_${randomUUID()}`;
     const [l, a, b] = fields.lab;
     tx.insert(checkStandards).values({ id, name: fields.name, kind: fields.kind, l, a, b, whitePoint: fields.whitePoint, sourceInstrument: fields.sourceInstrument, notes: fields.notes, createdBy: actorId }).run();
@@ -300,6 +316,49 @@ export function createCheckStandard(db: Db, { actorId, fields }: { actorId: stri
   });
 }
 
+const standardFields = (s: CheckStandard): CheckStandardFields => ({ name: s.name, kind: s.kind, lab: [s.l, s.a, s.b], whitePoint: s.whitePoint === "D50" ? "D50" : "D65", sourceInstrument: s.sourceInstrument, notes: s.notes });
+
+/**
+ * Edits a check standard. Once it has readings, its known value (L*, a*, b*, white point) is what
+ * their ΔE00 were computed against: changing it would silently change what the history says, so it is
+ * refused (register a new standard and retire this one). Name, kind, instrument and notes stay editable.
+ */
+export function updateCheckStandard(db: Db, { actorId, id, fields }: { actorId: string; id: string; fields: CheckStandardFields }) {
+  db.transaction((tx) => {
+    const before = tx.select().from(checkStandards).where(eq(checkStandards.id, id)).get();
+    if (!before) throw new AppError("not_found", "That check standard no longer exists.");
+    checkStandardNameFree(tx, fields.name, id);
+    const valuesChanged = before.l !== fields.lab[0] || before.a !== fields.lab[1] || before.b !== fields.lab[2] || before.whitePoint !== fields.whitePoint;
+    if (valuesChanged) {
+      const readings = tx.select({ n: sql<number>`count(*)` }).from(checkReadings).where(eq(checkReadings.standardId, id)).get()?.n ?? 0;
+      if (readings > 0) {
+        const message = `“${before.name}” already has ${readings} reading${readings === 1 ? "" : "s"} whose ΔE00 were computed against its known value; that value can no longer change. Register the new value as a new check standard and retire this one.`;
+        throw new AppError("conflict", message, { l: [message] });
+      }
+    }
+    const [l, a, b] = fields.lab;
+    tx.update(checkStandards)
+      .set({ name: fields.name, kind: fields.kind, l, a, b, whitePoint: fields.whitePoint, sourceInstrument: fields.sourceInstrument, notes: fields.notes, updatedAt: new Date() })
+      .where(eq(checkStandards.id, id))
+      .run();
+    recordAudit(tx, { actorId, action: "check-standard.update", entity: "check_standard", entityId: id, before: standardFields(before), after: fields });
+  });
+}
+
+/** Retires a check standard: no longer offered on the bench; its readings stay in the profiles' check histories. */
+export function retireCheckStandard(db: Db, { actorId, id, now = new Date() }: { actorId: string; id: string; now?: Date }) {
+  db.transaction((tx) => {
+    const s = tx.select().from(checkStandards).where(eq(checkStandards.id, id)).get();
+    if (!s) throw new AppError("not_found", "That check standard no longer exists.");
+    if (s.retiredAt) throw new AppError("conflict", `“${s.name}” is already retired.`);
+    tx.update(checkStandards).set({ retiredAt: now, retiredBy: actorId, updatedAt: now }).where(eq(checkStandards.id, id)).run();
+    recordAudit(tx, { actorId, action: "check-standard.retire", entity: "check_standard", entityId: id, before: { retiredAt: null }, after: { retiredAt: now } });
+  });
+}
+
+const retiredRefusal = (s: CheckStandard) =>
+  `The check standard “${s.name}” was retired on ${s.retiredAt!.toISOString().slice(0, 10)}; pick one in use from the list, or ask an admin.`;
+
 /** Records a check standard as measured in a bench photo: its Lab (under the standard's white point) and ΔE00 to the known value. */
 export function recordCheckReading(
   db: Db | Tx,
@@ -307,6 +366,7 @@ export function recordCheckReading(
 ) {
   const s = db.select().from(checkStandards).where(eq(checkStandards.id, standardId)).get();
   if (!s) throw new AppError("invalid_input", "That check standard is not registered; pick one from the list.", { checkStandardId: ["Unknown check standard."] });
+  if (s.retiredAt) throw new AppError("invalid_input", retiredRefusal(s), { checkStandardId: ["Retired check standard."] });
   const dE = deltaE00(measuredLab, [s.l, s.a, s.b]);
   const id = `cr_${randomUUID()}`;
   db.insert(checkReadings).values({ id, standardId, profileId, photoId, l: measuredLab[0], a: measuredLab[1], b: measuredLab[2], deltaE00: dE, createdBy: actorId }).run();
@@ -316,7 +376,7 @@ export function recordCheckReading(
 
 export function checkHistory(db: Db, { profileId }: { profileId: string }) {
   return db
-    .select({ reading: checkReadings, standard: checkStandards.name })
+    .select({ reading: checkReadings, standard: checkStandards.name, standardRetiredAt: checkStandards.retiredAt })
     .from(checkReadings)
     .innerJoin(checkStandards, eq(checkReadings.standardId, checkStandards.id))
     .where(eq(checkReadings.profileId, profileId))
@@ -493,11 +553,12 @@ export async function fitProfileFromPhoto(
 
 /**
  * Records the drift of every reference seen in a bench photo through its profile (ΔE00 between the
- * reference as the profile alone sees it and its known value) in one transaction. Returns the
- * readings above the limit, so the caller can tell the admins.
+ * reference as the profile alone sees it and its known value), inside the caller's transaction when
+ * given one (the bench save writes them with the vials). Returns the readings above the limit, so the
+ * caller can tell the admins once the save is committed.
  */
 export function recordPhotoDrift(
-  db: Db,
+  db: Db | Tx,
   { profileId, photoId, references, limit }: { profileId: string | null; photoId: string; references: { label?: string; driftDeltaE00: number }[]; limit: number },
 ) {
   if (!profileId || references.length === 0) return [];
@@ -517,6 +578,7 @@ export function uncertaintiesOf(db: Db, ids: string[]): Map<string, number | nul
 export function standardOrRefuse(db: Db, id: string) {
   const s = db.select().from(checkStandards).where(eq(checkStandards.id, id)).get();
   if (!s) throw new AppError("invalid_input", "A region names a check standard that is not registered; pick one from the Lighting page's list.", { checkStandards: ["Unknown check standard."] });
+  if (s.retiredAt) throw new AppError("invalid_input", retiredRefusal(s), { checkStandards: ["Retired check standard."] });
   return s;
 }
 

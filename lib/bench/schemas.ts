@@ -35,6 +35,8 @@ export const measureRequestSchema = z.object({
   lightingProfileId: profileId,
   references: z.array(referenceSchema).max(10, { error: "Mark at most 10 references." }).default([]),
   vials: z.array(z.object({ key: z.string().max(64), region: regionSchema })).max(200, { error: "Measure at most 200 vials at once." }),
+  /** Regions holding a check standard: read through the same correction as the vials, and only when there is one. */
+  checks: z.array(z.object({ key: z.string().max(64), region: regionSchema })).max(10, { error: "Mark at most 10 check standards." }).default([]),
 });
 
 const optionalNumber = (min: number, max: number, what: string) =>
@@ -105,14 +107,16 @@ export const replicateCheckSchema = z.object({
     .max(200),
 });
 
-export const saveRequestSchema = z.object({
-  photoId: z.string().min(1).max(100),
-  lightingProfileId: profileId,
-  references: z.array(referenceSchema).max(10).default([]),
-  vials: z.array(vialSchema).min(1, { error: "Mark at least one vial before saving." }).max(200),
-  /** Regions holding a registered check standard: each one's ΔE00 to its known value is recorded. */
-  checkStandards: z.array(z.object({ region: regionSchema, standardId: z.string().min(1).max(100) })).max(10).default([]),
-});
+export const saveRequestSchema = z
+  .object({
+    photoId: z.string().min(1).max(100),
+    lightingProfileId: profileId,
+    references: z.array(referenceSchema).max(10).default([]),
+    vials: z.array(vialSchema).max(200, { error: "Save at most 200 vials at once." }).default([]),
+    /** Regions holding a registered check standard: each one's ΔE00 to its known value is recorded (a photo may hold only these). */
+    checkStandards: z.array(z.object({ region: regionSchema, standardId: z.string().min(1).max(100) })).max(10, { error: "Mark at most 10 check standards." }).default([]),
+  })
+  .refine((v) => v.vials.length + v.checkStandards.length > 0, { error: "Mark at least one vial or check standard before saving.", path: ["vials"] });
 export type SaveRequest = z.infer<typeof saveRequestSchema>;
 
 export const templateRegionSchema = z.object({

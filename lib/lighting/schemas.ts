@@ -86,4 +86,7 @@ export const checkStandardSchema = z.object({
   notes: text("Notes", 2000),
 });
 
+export const checkStandardEditSchema = checkStandardSchema.extend({ id: z.string().min(1, { error: "Choose the check standard to edit." }).max(100) });
+export const checkStandardIdSchema = z.object({ id: z.string().min(1, { error: "Choose a check standard." }).max(100) });
+
 export const rederiveSchema = z.object({ id: z.string().min(1).max(100), expected: z.coerce.number().int().min(0) });

@@ -4,6 +4,8 @@ import { db } from "@/db/client";
 import { driftHistory, listCheckStandards, listProfiles } from "@/db/queries/lighting";
 import { listCalibrationTargets } from "@/db/queries/bench";
 import { AccuracyNotes } from "@/components/lighting/accuracy-notes";
+import { retireCheckStandardAction } from "@/app/actions/lighting";
+import { ActionButton } from "@/components/lighting/action-button";
 import { CheckStandardForm, ProfileForm, TargetForm } from "@/components/lighting/forms";
 import { ProfileStatusBadge } from "@/components/lighting/status-badge";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
@@ -140,10 +142,23 @@ export default async function LightingPage() {
       {standards.length === 0 ? (
         <p className="mb-3 text-sm">No check standards registered yet.</p>
       ) : (
-        <ul className="mb-4 space-y-1 text-sm">
+        <ul className="mb-4 space-y-2 text-sm">
           {standards.map((s) => (
-            <li key={s.id}>
-              <strong>{s.name}</strong> ({s.kind}): L* {s.l.toFixed(2)}, a* {s.a.toFixed(2)}, b* {s.b.toFixed(2)} under {s.whitePoint}; measured with {s.sourceInstrument}
+            <li key={s.id} data-testid="check-standard" data-name={s.name}>
+              <strong>{s.name}</strong> ({s.kind}): L* {s.l.toFixed(2)}, a* {s.a.toFixed(2)}, b* {s.b.toFixed(2)} under {s.whitePoint}; measured with {s.sourceInstrument}; {s.readings} reading
+              {s.readings === 1 ? "" : "s"}
+              {s.retiredAt && <span className="text-ink-soft"> · retired {s.retiredAt.toISOString().slice(0, 10)}, no longer offered on the bench; its readings stay in the check histories</span>}
+              {isAdmin && !s.retiredAt && (
+                <details className="mt-1">
+                  <summary className="cursor-pointer text-accent">Edit or retire {s.name}</summary>
+                  <div className="mt-2 space-y-3">
+                    <CheckStandardForm values={{ id: s.id, name: s.name, kind: s.kind, l: s.l, a: s.a, b: s.b, whitePoint: s.whitePoint, sourceInstrument: s.sourceInstrument, notes: s.notes, readings: s.readings }} />
+                    <ActionButton action={retireCheckStandardAction} fields={{ id: s.id }} label={`Retire ${s.name}`} pendingText="Retiring…" variant="danger">
+                      <p className="text-xs text-ink-soft">Retired, it is no longer offered on the bench; its readings stay in the profiles&apos; check histories.</p>
+                    </ActionButton>
+                  </div>
+                </details>
+              )}
             </li>
           ))}
         </ul>

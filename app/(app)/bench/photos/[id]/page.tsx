@@ -4,7 +4,7 @@ import { notFound } from "next/navigation";
 import { db } from "@/db/client";
 import { listCalibrationTargets, listRackTemplates, listSolventPanels, photoMeasurements } from "@/db/queries/bench";
 import { listDyes } from "@/db/queries/dyes";
-import { benchProfiles, listCheckStandards } from "@/db/queries/lighting";
+import { benchCheckStandards, benchProfiles } from "@/db/queries/lighting";
 import { labD50ToLabD65 } from "@/lib/color/convert";
 import { getPhoto } from "@/db/queries/photos";
 import { listSolvents } from "@/db/queries/solvents";
@@ -42,7 +42,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
   const solvents = listSolvents(handle).map((s) => ({ id: s.id, name: s.name, medium: s.medium, cautions: s.cautions }));
   const templates = listRackTemplates(handle).map((t) => ({ id: t.id, name: t.name, regions: t.regions }));
   const panels = listSolventPanels(handle).map((p) => ({ id: p.id, name: p.name, entries: p.entries }));
-  const checkStandards = listCheckStandards(handle).map((c) => ({ id: c.id, name: c.name, kind: c.kind, lab: [c.l, c.a, c.b] as [number, number, number], whitePoint: c.whitePoint === "D50" ? ("D50" as const) : ("D65" as const) }));
+  const checkStandards = benchCheckStandards(handle).map((c) => ({ id: c.id, name: c.name, kind: c.kind, lab: [c.l, c.a, c.b] as [number, number, number], whitePoint: c.whitePoint === "D50" ? ("D50" as const) : ("D65" as const) }));
   const existing = photoMeasurements(handle, { photoId: photo.id });
   const fileMissing = !(await objectStore().has(photo.storageKey));
   return (

@@ -236,7 +236,10 @@ export default async function ProfilePage({ params, searchParams }: { params: Pr
                 {checks.map((c) => (
                   <tr key={c.reading.id}>
                     <td>{day(c.reading.createdAt)}</td>
-                    <td>{c.standard}</td>
+                    <td>
+                      {c.standard}
+                      {c.standardRetiredAt ? <span className="text-ink-soft"> (retired {day(c.standardRetiredAt)})</span> : null}
+                    </td>
                     <td className="text-right tabular-nums">{c.reading.deltaE00.toFixed(2)} ΔE00</td>
                   </tr>
                 ))}
