@@ -127,3 +127,17 @@ it("the formulator cannot reach the bench, its upload or its live measurement", 
   await signIn.signOut();
   await page.close();
 });
+
+it("a demo photo uploaded under the profile that expired in May 2026 opens with no profile chosen and says why", async () => {
+  await browser().clearCookies();
+  const page = await browser().newPage();
+  const errors = watchConsole(page);
+  await new SignInPage(page, base).signIn("chemist@demo.test");
+  // ph_demo_0001 is the demo's first rack, taken under "Light box North", valid until the end of May 2026.
+  await page.goto(`${base}/bench/photos/ph_demo_0001`);
+  const notice = page.getByTestId("stored-profile-gone");
+  await expect(notice.innerText()).resolves.toMatch(/Light box North.*expired on 2026-05-3/s);
+  await expect(page.getByLabel("Lighting profile of this photo").inputValue()).resolves.toBe("");
+  expect(errors).toEqual([]);
+  await page.close();
+});

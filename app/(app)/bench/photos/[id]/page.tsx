@@ -4,7 +4,8 @@ import { notFound } from "next/navigation";
 import { db } from "@/db/client";
 import { listCalibrationTargets, listRackTemplates, listSolventPanels, photoMeasurements } from "@/db/queries/bench";
 import { listDyes } from "@/db/queries/dyes";
-import { benchCheckStandards, benchProfiles } from "@/db/queries/lighting";
+import { benchCheckStandards, benchProfiles, getProfile } from "@/db/queries/lighting";
+import { benchRefusal } from "@/lib/lighting/status";
 import { labD50ToLabD65 } from "@/lib/color/convert";
 import { getPhoto } from "@/db/queries/photos";
 import { listSolvents } from "@/db/queries/solvents";
@@ -13,7 +14,7 @@ import { PhotoFileMissing } from "@/components/bench/photo-file-missing";
 import { objectStore } from "@/lib/storage";
 import { SavedMarking } from "@/components/bench/saved-marking";
 import { FlagBadges } from "@/components/bench/flag-badges";
-import { Badge, Card, PageHeader } from "@/components/ui/card";
+import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
 import { Swatch } from "@/components/ui/swatch";
 import { Refused } from "@/components/shell/refused";
 import { pageAccess } from "@/lib/auth/page";
@@ -31,6 +32,10 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
   if (!photo) notFound();
   // Only approved profiles inside their validity window can be chosen (the server refuses the others too).
   const profiles = benchProfiles(handle).map((p) => ({ ...p, approved: true, validNow: true }));
+  // A photo uploaded under a profile that has since expired or been retired starts with no profile (the
+  // save would refuse it), and the chemist is told why.
+  const storedProfileOffered = !photo.lightingProfileId || profiles.some((p) => p.id === photo.lightingProfileId);
+  const storedProfile = storedProfileOffered ? undefined : getProfile(handle, photo.lightingProfileId!);
   // The editor works in D65; a D50 card's values are Bradford-adapted here, never read as D65.
   const patches = listCalibrationTargets(handle).flatMap((t) =>
     t.patches.map((p) => {
@@ -59,8 +64,16 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
       {fileMissing ? (
         <PhotoFileMissing name={photo.originalName || photo.id} />
       ) : (
+      <>
+      {storedProfile && (
+        <div className="mb-4" data-testid="stored-profile-gone">
+          <Notice tone="caution" title="Choose the light correction again">
+            This photo was uploaded with a profile that can no longer correct new measurements. {benchRefusal(storedProfile)} Choose a current lighting profile below, or mark a white or grey reference of known CIELAB in the photo.
+          </Notice>
+        </div>
+      )}
       <MarkingEditor
-        photo={{ id: photo.id, width: photo.width, height: photo.height, name: photo.originalName, lightingProfileId: photo.lightingProfileId }}
+        photo={{ id: photo.id, width: photo.width, height: photo.height, name: photo.originalName, lightingProfileId: storedProfileOffered ? photo.lightingProfileId : null }}
         displayUrl={`/api/photos/${photo.id}/image?size=display`}
         dyes={dyes}
         solvents={solvents}
@@ -70,6 +83,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
         panels={panels}
         checkStandards={checkStandards}
       />
+      </>
       )}
       <Card title={`Measured in this photo (${existing.length})`} className="mt-6">
         {existing.length === 0 ? (
