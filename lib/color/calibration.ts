@@ -389,11 +389,11 @@ export function hullPatches(patches: readonly CalibrationPatch[], linear: readon
     return out.slice(0, -1);
   };
   const hull = new Set(points.length < 3 ? points.map((p) => p.i) : [...chain(points), ...chain([...points].reverse())].map((p) => p.i));
-  if (toneRefitted) {
-    const greys = patches.map((p, i) => i).filter((i) => isNeutral(patches[i].referenceLab));
-    const byL = greys.sort((a, b) => patches[a].referenceLab[0] - patches[b].referenceLab[0]);
-    hull.add(byL[0]);
-    hull.add(byL[byL.length - 1]);
+  const greys = patches.map((_, i) => i).filter((i) => isNeutral(patches[i].referenceLab));
+  if (toneRefitted && greys.length > 0) {
+    greys.sort((a, b) => patches[a].referenceLab[0] - patches[b].referenceLab[0]);
+    hull.add(greys[0]);
+    hull.add(greys[greys.length - 1]);
   }
   return [...hull].sort((a, b) => a - b);
 }
@@ -499,6 +499,11 @@ function hullAdvantage(simpler: Calibration, flexible: Calibration): { n: number
  * source). Paired tests on leave-one-out errors are known to be too ready to find a difference
  * (T. G. Dietterich, Neural Comput. 10(7), 1895–1923, 1998), which errs towards the simpler method.
  * A kept method with no leave-one-out figure at all gives way to one that has them.
+ *
+ * Neither figure sees everything: a more flexible method can also follow the card's own spectra and do
+ * worse on spectra unlike them (dyes under a tungsten lamp, tests/unit/color-calibration.test.ts), even
+ * inside the card's hull. There the hull narrows its lead without reversing it, and the significance
+ * test is what keeps the simpler method.
  */
 function chooseMethod(fitted: readonly Calibration[]): { cal: Calibration; selection: string } {
   let kept = fitted[0];

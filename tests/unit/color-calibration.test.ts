@@ -26,7 +26,8 @@ import { measureRegion, type DecodedPhoto, type RegionStats } from "@/lib/color/
 import { renderSwatches, SYNTHETIC_CAMERAS, type SyntheticCamera } from "@/lib/color/synthetic-camera";
 import { applyToneCurve, fitToneCurve, monotoneSlopes } from "@/lib/color/tone-curve";
 import type { Lab } from "@/lib/color/types";
-import { CARD, CHROMATIC, GREYS, sceneXyzD65, spectrumLab, VIALS, type Illuminant } from "../support/spectral-card";
+import { mulberry32 } from "@/lib/random";
+import { CARD, CHROMATIC, GREYS, sceneXyzD65, spectrumLab, VIALS, whiteXyz, xyzToLabRef, type Illuminant } from "../support/spectral-card";
 
 type Shot = { card: RegionStats[]; vials: RegionStats[] };
 
@@ -218,6 +219,26 @@ describe("'auto' judged on colours the card does not hold (the dye vials)", () =
       figures.push(`${key} ${light} auto → ${cal.method}: ${cal.selection}`);
     });
   }
+
+  it("takes the more flexible method when its edge on the hull is clear: a camera whose XYZ is exactly a root-polynomial of its RGB (algebra only)", () => {
+    // References from the support module's CIE 015 CIELAB, not lib/color. No greys: linearisation off.
+    const random = mulberry32(7);
+    const M = [
+      [0.41, 0.36, 0.18, 0.2, -0.12, 0.1],
+      [0.21, 0.72, 0.07, 0.15, 0.1, -0.1],
+      [0.02, 0.12, 0.95, -0.1, 0.2, 0.05],
+    ];
+    const patches: CalibrationPatch[] = Array.from({ length: 24 }, (_, i) => {
+      const rgb = [0.05 + 0.85 * random(), 0.05 + 0.85 * random(), 0.05 + 0.85 * random()] as [number, number, number];
+      const t = [...rgb, Math.sqrt(rgb[0] * rgb[1]), Math.sqrt(rgb[1] * rgb[2]), Math.sqrt(rgb[0] * rgb[2])];
+      const xyz = M.map((row) => 100 * row.reduce((s, c, k) => s + c * t[k], 0)) as [number, number, number];
+      return { name: `p${i + 1}`, camera: rgb, referenceLab: xyzToLabRef(xyz, whiteXyz("D65")) as Lab };
+    });
+    const cal = fitCalibration(patches, { method: "auto", linearise: false });
+    expect(cal.method).toBe("root-polynomial-2");
+    expect(cal.selection).toMatch(/root-polynomial correction replaced the 3×3 matrix/);
+    expect(cal.comparison[0].refusal).toMatch(/white or grey patch/);
+  });
 
   it("puts the card's most saturated chromaticities and the lightest and darkest grey on the hull, not a patch inside", () => {
     // Geometry only: the corners of a chromaticity triangle are its hull; its centre and the middle of an
