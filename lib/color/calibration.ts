@@ -25,6 +25,7 @@ export type { ToneCurve } from "./tone-curve";
 export type CalibrationWhitePoint = LabWhite;
 export type CalibrationMethod = "white" | "matrix-3x3" | "root-polynomial-2";
 export type CalibrationMethodChoice = CalibrationMethod | "auto";
+/** In order of flexibility (3, 9, 18 coefficients): "auto" relies on it. */
 export const CALIBRATION_METHODS: readonly CalibrationMethod[] = ["white", "matrix-3x3", "root-polynomial-2"];
 
 /** One patch of the card as measured in the photo, with its known colour. */
@@ -52,6 +53,12 @@ export type CalibrationResidual = {
   /** ΔE00 when the patch is left out of the fit and predicted; null when the rest cannot fit the method. */
   looDeltaE00: number | null;
   neutral: boolean;
+  /**
+   * On the card's hull (see `hullPatches`): left out, this patch is an extrapolation, so its
+   * leave-one-out residual is what a colour beyond the card can expect. Absent in calibrations
+   * fitted before the hull figure existed.
+   */
+  hull?: boolean;
 };
 
 export type MethodComparison = {
@@ -60,6 +67,13 @@ export type MethodComparison = {
   meanDeltaE00: number | null;
   meanLooDeltaE00: number | null;
   maxLooDeltaE00: number | null;
+  /**
+   * Mean leave-one-out ΔE00 over the hull patches only (extrapolations); null when none could be
+   * predicted, absent in calibrations fitted before the figure existed.
+   */
+  meanHullLooDeltaE00?: number | null;
+  /** How many patches are on the hull. */
+  hullPatchCount?: number;
   refusal?: string;
 };
 
@@ -88,12 +102,17 @@ export type Calibration = {
    * the calibration's Type A standard uncertainty per coordinate (JCGM 100:2008 §4.2).
    */
   looLabRmsD65: Vec3 | null;
+  /** Mean and worst leave-one-out ΔE00 over the hull patches (`residuals[].hull`); absent in older calibrations. */
+  meanHullLooDeltaE00?: number | null;
+  maxHullLooDeltaE00?: number | null;
   /** 2-norm condition number of the fit's design matrix. */
   condition: number;
   patchCount: number;
   neutralCount: number;
-  /** With method "auto" (and always for information): every method tried and its leave-one-out ΔE00. */
+  /** With method "auto" (and always for information): every method tried and its leave-one-out ΔE00, plain and on the hull. */
   comparison: MethodComparison[];
+  /** With method "auto": why this method was kept, in plain words with the figures behind it. */
+  selection?: string;
   /** Plain-language cautions that do not stop the fit. */
   warnings: string[];
 };
@@ -337,6 +356,48 @@ function labD65Of(lab: Lab, white: LabWhite): Lab {
 
 const mean = (xs: number[]) => xs.reduce((s, x) => s + x, 0) / xs.length;
 
+/**
+ * The card's hull: the patches that, left out, have to be extrapolated, so that their leave-one-out
+ * residuals show how a method does on colours beyond the card (a plain leave-one-out mean is mostly
+ * interpolation and favours the more flexible method).
+ *
+ * Every correction here is homogeneous of degree 1 in linearised camera RGB (a matrix; root-polynomial
+ * terms scale with exposure), so how far a colour lies beyond the card is a matter of its chromaticity:
+ * the hull is the vertices of the convex hull of the patches' camera chromaticities r/(r+g+b),
+ * g/(r+g+b) (monotone chain: A. M. Andrew, "Another efficient algorithm for convex hulls in two
+ * dimensions", Inf. Process. Lett. 9(5), 216–219, 1979); a patch in the middle of an edge, or the
+ * twin of another, is not a vertex. The tone curve extrapolates in lightness instead: when a grey can
+ * be spared (`toneRefitted`: the curve is refitted without it), the lightest and the darkest grey are
+ * on the hull too. Which patches count is a design choice (common practice, no source).
+ *
+ * Returns indices into `patches`, ascending.
+ */
+export function hullPatches(patches: readonly CalibrationPatch[], linear: readonly LinearRgb[], toneRefitted: boolean): number[] {
+  const points = linear.flatMap((v, i) => {
+    const sum = v[0] + v[1] + v[2];
+    return sum > 0 && v.every(Number.isFinite) ? [{ i, x: v[0] / sum, y: v[1] / sum }] : [];
+  });
+  points.sort((a, b) => a.x - b.x || a.y - b.y);
+  type P = (typeof points)[number];
+  const cross = (o: P, a: P, b: P) => (a.x - o.x) * (b.y - o.y) - (a.y - o.y) * (b.x - o.x);
+  const chain = (ordered: P[]) => {
+    const out: P[] = [];
+    for (const p of ordered) {
+      while (out.length >= 2 && cross(out[out.length - 2], out[out.length - 1], p) <= 0) out.pop();
+      out.push(p);
+    }
+    return out.slice(0, -1);
+  };
+  const hull = new Set(points.length < 3 ? points.map((p) => p.i) : [...chain(points), ...chain([...points].reverse())].map((p) => p.i));
+  const greys = patches.map((_, i) => i).filter((i) => isNeutral(patches[i].referenceLab));
+  if (toneRefitted && greys.length > 0) {
+    greys.sort((a, b) => patches[a].referenceLab[0] - patches[b].referenceLab[0]);
+    hull.add(greys[0]);
+    hull.add(greys[greys.length - 1]);
+  }
+  return [...hull].sort((a, b) => a - b);
+}
+
 function fitMethod(method: CalibrationMethod, patches: readonly CalibrationPatch[], white: LabWhite, linearise: boolean): Calibration {
   const full = fitFull(method, patches, white, linearise, null);
   const warnings: string[] = [];
@@ -364,6 +425,11 @@ function fitMethod(method: CalibrationMethod, patches: readonly CalibrationPatch
   const looPairs = looLabs.flatMap((lab, i) => (lab ? [{ predicted: labD65Of(lab, white), known: labD65Of(patches[i].referenceLab, white) }] : []));
   const looLabRmsD65: Vec3 | null =
     looPairs.length > 0 ? ([0, 1, 2].map((k) => Math.sqrt(mean(looPairs.map(({ predicted, known }) => (predicted[k] - known[k]) ** 2)))) as Vec3) : null;
+  const linear = patches.map((p) => (full.toneCurve ? applyToneCurve(full.toneCurve, p.camera) : p.camera));
+  // The LOO refit has its own tone curve only when ≥ TONE_CURVE_MIN_GREYS greys remain (fitFull).
+  const hull = new Set(hullPatches(patches, linear, Boolean(full.toneCurve) && linearise && neutralCount > TONE_CURVE_MIN_GREYS));
+  residuals.forEach((r, i) => (r.hull = hull.has(i)));
+  const hullLoos = residuals.filter((r) => r.hull && r.looDeltaE00 !== null).map((r) => r.looDeltaE00 as number);
   const loos = residuals.map((r) => r.looDeltaE00).filter((v): v is number => v !== null);
   if (loos.length < residuals.length) {
     warnings.push(`${residuals.length - loos.length} of the ${residuals.length} patches could not be predicted with themselves left out; their leave-one-out residual is missing.`);
@@ -382,6 +448,8 @@ function fitMethod(method: CalibrationMethod, patches: readonly CalibrationPatch
     meanLooDeltaE00: loos.length ? mean(loos) : null,
     maxLooDeltaE00: loos.length ? Math.max(...loos) : null,
     looLabRmsD65,
+    meanHullLooDeltaE00: hullLoos.length ? mean(hullLoos) : null,
+    maxHullLooDeltaE00: hullLoos.length ? Math.max(...hullLoos) : null,
     condition: full.core.condition,
     patchCount: patches.length,
     neutralCount,
@@ -391,9 +459,95 @@ function fitMethod(method: CalibrationMethod, patches: readonly CalibrationPatch
 }
 
 /**
+ * One-sided 95 % quantiles of Student's t for 1–30 degrees of freedom, then 40, 60 and 120
+ * (NIST/SEMATECH e-Handbook of Statistical Methods, §1.3.6.7.2, "Critical values of the Student's t
+ * distribution"); between listed values the one for fewer degrees of freedom (the stricter) is used.
+ */
+const T_95_ONE_SIDED = [
+  6.314, 2.92, 2.353, 2.132, 2.015, 1.943, 1.895, 1.86, 1.833, 1.812, 1.796, 1.782, 1.771, 1.761, 1.753, 1.746, 1.74, 1.734, 1.729, 1.725, 1.721, 1.717, 1.714, 1.711, 1.708,
+  1.706, 1.703, 1.701, 1.699, 1.697,
+];
+function t95OneSided(df: number): number {
+  if (df <= 30) return T_95_ONE_SIDED[df - 1];
+  return df < 40 ? 1.697 : df < 60 ? 1.684 : df < 120 ? 1.671 : 1.658;
+}
+
+/** What the more flexible method gains over the simpler on the hull patches: paired mean and its standard error. */
+function hullAdvantage(simpler: Calibration, flexible: Calibration): { n: number; mean: number; se: number } | null {
+  const d = simpler.residuals.flatMap((r, i) => {
+    const other = flexible.residuals[i];
+    return r.hull && r.looDeltaE00 !== null && other.looDeltaE00 !== null ? [r.looDeltaE00 - other.looDeltaE00] : [];
+  });
+  if (d.length < 2) return null;
+  const m = mean(d);
+  const sd = Math.sqrt(d.reduce((s, x) => s + (x - m) ** 2, 0) / (d.length - 1));
+  return { n: d.length, mean: m, se: sd / Math.sqrt(d.length) };
+}
+
+/**
+ * The "auto" choice between fitted methods, `fitted` in order of flexibility (white: 3 gains, 3×3: 9
+ * coefficients, root-polynomial-2: 18). Starting from the simplest, a more flexible method replaces
+ * the one kept only if
+ * 1. it is better on the hull patches (extrapolation, see `hullPatches`) by a significant margin: the
+ *    mean paired difference of their leave-one-out ΔE00 exceeds the one-sided 95 % Student t quantile
+ *    times its standard error (a paired t-test at 5 %), and
+ * 2. its plain leave-one-out mean (interpolation) is not worse.
+ * The burden of proof lies on the extra coefficients, as in the "one standard error" rule of
+ * L. Breiman, J. Friedman, R. Olshen, C. Stone, "Classification and Regression Trees" (1984) §3.4.3,
+ * and T. Hastie, R. Tibshirani, J. Friedman, "The Elements of Statistical Learning" (2nd ed., 2009)
+ * §7.10; the paired test on the hull patches in its place is a design choice (common practice, no
+ * source). Paired tests on leave-one-out errors are known to be too ready to find a difference
+ * (T. G. Dietterich, Neural Comput. 10(7), 1895–1923, 1998), which errs towards the simpler method.
+ * A kept method with no leave-one-out figure at all gives way to one that has them.
+ *
+ * Neither figure sees everything: a more flexible method can also follow the card's own spectra and do
+ * worse on spectra unlike them (dyes under a tungsten lamp, tests/unit/color-calibration.test.ts), even
+ * inside the card's hull. There the hull narrows its lead without reversing it, and the significance
+ * test is what keeps the simpler method.
+ */
+function chooseMethod(fitted: readonly Calibration[]): { cal: Calibration; selection: string } {
+  let kept = fitted[0];
+  const steps: string[] = [];
+  const f2 = (v: number) => v.toFixed(2);
+  for (const next of fitted.slice(1)) {
+    const a = methodName(kept.method);
+    const b = methodName(next.method);
+    if (kept.meanLooDeltaE00 === null) {
+      if (next.meanLooDeltaE00 !== null) {
+        steps.push(`The ${b} was preferred to the ${a}, which could not be checked by leaving patches out.`);
+        kept = next;
+      }
+      continue;
+    }
+    if (next.meanLooDeltaE00 === null) continue;
+    const gain = hullAdvantage(kept, next);
+    if (!gain) {
+      steps.push(`The ${a} was kept: too few patches on the card's hull to tell whether the ${b} extrapolates better.`);
+      continue;
+    }
+    const margin = t95OneSided(gain.n - 1) * gain.se;
+    const significant = gain.se > 0 ? gain.mean > margin : gain.mean > 0;
+    const over = `mean ± standard error of the paired difference over ${gain.n} hull patches`;
+    const figures = `${f2(gain.mean)} ± ${f2(gain.se)} ΔE00 (${over})`;
+    if (gain.mean <= 0) {
+      steps.push(`The ${a} was kept: the ${b} is no better on the card's hull (worse by ${f2(-gain.mean)} ± ${f2(gain.se)} ΔE00, ${over}).`);
+    } else if (significant && next.meanLooDeltaE00 <= kept.meanLooDeltaE00) {
+      steps.push(`The ${b} replaced the ${a}: it is better on the card's hull by ${figures}, more than the ${f2(margin)} ΔE00 a one-sided t-test at 5 % asks, and not worse on the plain leave-one-out mean (${f2(next.meanLooDeltaE00)} vs ${f2(kept.meanLooDeltaE00)}).`);
+      kept = next;
+    } else if (significant) {
+      steps.push(`The ${a} was kept: the ${b} is better on the card's hull by ${figures} but worse on the plain leave-one-out mean (${f2(next.meanLooDeltaE00)} vs ${f2(kept.meanLooDeltaE00)}).`);
+    } else {
+      steps.push(`The ${a} was kept: the ${b} is better on the card's hull by ${figures}, less than the ${f2(margin)} ΔE00 a one-sided t-test at 5 % asks, so the method with fewer coefficients is used.`);
+    }
+  }
+  return { cal: kept, selection: steps.join(" ") };
+}
+
+/**
  * Fits a calibration from card patches. `method` defaults to "matrix-3x3"; "auto" fits every method
- * the card can support and keeps the one with the smallest mean leave-one-out ΔE00 (each method's
- * figures are in `comparison`). Throws CalibrationError with one clear sentence when refused.
+ * the card can support and keeps the simplest one that no more flexible method beats significantly on
+ * the card's hull (extrapolation; see `chooseMethod`), each method's figures in `comparison` and the
+ * reason in `selection`. Throws CalibrationError with one clear sentence when refused.
  */
 export function fitCalibration(patches: readonly CalibrationPatch[], options: FitCalibrationOptions = {}): Calibration {
   const choice = options.method ?? "matrix-3x3";
@@ -422,20 +576,26 @@ export function fitCalibration(patches: readonly CalibrationPatch[], options: Fi
     }
   });
   const comparison: MethodComparison[] = tried.map((t) =>
-    "cal" in t && t.cal ? summary(t.cal) : { method: t.method, meanDeltaE00: null, meanLooDeltaE00: null, maxLooDeltaE00: null, refusal: (t as { error: Error }).error.message },
+    "cal" in t && t.cal ? summary(t.cal) : { method: t.method, meanDeltaE00: null, meanLooDeltaE00: null, maxLooDeltaE00: null, meanHullLooDeltaE00: null, refusal: (t as { error: Error }).error.message },
   );
   const fitted = tried.filter((t): t is { method: CalibrationMethod; cal: Calibration } => "cal" in t && Boolean(t.cal));
   if (fitted.length === 0) throw (tried[1] as { error: Error }).error ?? (tried[0] as { error: Error }).error;
-  // Methods whose leave-one-out figure exists are ranked by it; a method with none (white from one
-  // patch) wins only if nothing else fitted.
-  const ranked = [...fitted].sort((a, b) => (a.cal.meanLooDeltaE00 ?? Infinity) - (b.cal.meanLooDeltaE00 ?? Infinity));
-  const best = ranked[0].cal;
+  // `tried` follows CALIBRATION_METHODS: least flexible first.
+  const { cal: best, selection } = chooseMethod(fitted.map((t) => t.cal));
   best.comparison = comparison;
+  if (selection) best.selection = selection;
   return best;
 }
 
 function summary(cal: Calibration): MethodComparison {
-  return { method: cal.method, meanDeltaE00: cal.meanDeltaE00, meanLooDeltaE00: cal.meanLooDeltaE00, maxLooDeltaE00: cal.maxLooDeltaE00 };
+  return {
+    method: cal.method,
+    meanDeltaE00: cal.meanDeltaE00,
+    meanLooDeltaE00: cal.meanLooDeltaE00,
+    maxLooDeltaE00: cal.maxLooDeltaE00,
+    meanHullLooDeltaE00: cal.meanHullLooDeltaE00 ?? null,
+    hullPatchCount: cal.residuals.filter((r) => r.hull).length,
+  };
 }
 
 export type CalibratedColour = {
@@ -514,6 +674,10 @@ export function parseCalibration(value: unknown): Calibration {
     throw new CalibrationError("invalid-calibration", INVALID);
   }
   if (!Array.isArray(c.residuals)) throw new CalibrationError("invalid-calibration", INVALID);
+  const optionalFigure = (v: unknown) => v === undefined || v === null || (typeof v === "number" && Number.isFinite(v) && v >= 0);
+  if (!optionalFigure(c.meanHullLooDeltaE00) || !optionalFigure(c.maxHullLooDeltaE00) || (c.selection !== undefined && typeof c.selection !== "string")) {
+    throw new CalibrationError("invalid-calibration", INVALID);
+  }
   const rms = c.looLabRmsD65;
   if (rms !== undefined && rms !== null && !(Array.isArray(rms) && rms.length === 3 && rms.every((v) => typeof v === "number" && Number.isFinite(v) && v >= 0))) {
     throw new CalibrationError("invalid-calibration", INVALID);

@@ -8,7 +8,7 @@
  * residuals). Profiles fitted before that hold a `Correction` (lib/color/correction.ts) and stay
  * readable. Pure: no database, no storage.
  */
-import { applyCalibration, CALIBRATION_LIMITS, fitCalibration, parseCalibration, type Calibration } from "../color/calibration";
+import { applyCalibration, CALIBRATION_LIMITS, fitCalibration, parseCalibration, type Calibration, type MethodComparison } from "../color/calibration";
 import { applyCorrection, correctionFromArray, type Correction } from "../color/correction";
 import { linearSrgbToLab, linearSrgbToXyz, type LabWhite } from "../color/convert";
 import type { Mat3 } from "../color/matrix";
@@ -32,8 +32,13 @@ export type CardFit = {
   trainingMax: number;
   looMean: number;
   looMax: number;
-  /** Every method that could be fitted, with its leave-one-out figures (for "auto" and for the record). */
-  candidates: { method: FittedMethod; looMean: number; looMax: number }[];
+  /**
+   * Every method that could be fitted, with its leave-one-out figures (for "auto" and for the record):
+   * plain, and over the card's hull patches only (extrapolation; null when none could be predicted).
+   */
+  candidates: { method: FittedMethod; looMean: number; looMax: number; hullLooMean: number | null }[];
+  /** With "auto": why the method was chosen, with its figures; null otherwise. */
+  selection: string | null;
   /** Methods that could not be fitted and why (too few patches, too alike …). */
   refused: { method: FittedMethod; reason: string }[];
   warnings: string[];
@@ -49,7 +54,8 @@ const mean = (xs: number[]) => xs.reduce((s, x) => s + x, 0) / xs.length;
 
 /**
  * Fits a card with the colour engine (lib/color/calibration.ts): tone linearisation from the greys,
- * then the method (or "auto": every method the card allows, chosen by leave-one-out ΔE00), to XYZ
+ * then the method (or "auto": every method the card allows, the simplest one that no more flexible
+ * method beats significantly on the card's hull, by leave-one-out ΔE00), to XYZ
  * under the card's own white point. Throws the engine's refusal (a `ColorInputError` with a sentence).
  */
 export function fitCard(samples: readonly CardSample[], white: LabWhite, method: ProfileMethod): CardFit {
@@ -70,7 +76,8 @@ export function fitCard(samples: readonly CardSample[], white: LabWhite, method:
     looMax: Math.max(...loo),
     candidates: calibration.comparison
       .filter((c) => c.meanLooDeltaE00 !== null)
-      .map((c) => ({ method: c.method, looMean: c.meanLooDeltaE00!, looMax: c.maxLooDeltaE00 ?? Number.POSITIVE_INFINITY })),
+      .map((c) => ({ method: c.method, looMean: c.meanLooDeltaE00!, looMax: c.maxLooDeltaE00 ?? Number.POSITIVE_INFINITY, hullLooMean: c.meanHullLooDeltaE00 ?? null })),
+    selection: calibration.selection ?? null,
     refused: calibration.comparison.filter((c) => c.refusal).map((c) => ({ method: c.method, reason: c.refusal! })),
     warnings: calibration.warnings,
   };
@@ -94,6 +101,21 @@ export function profileColour(p: { calibration: Record<string, unknown> | null; 
 export function calibrationOfProfile(p: { calibration: Record<string, unknown> | null }): Calibration | null {
   if (!p.calibration || (p.calibration as { format?: string }).format !== "solvatlas-calibration") return null;
   return parseCalibration(p.calibration);
+}
+
+/**
+ * What a profile's fit tried: every method with its leave-one-out ΔE00 (plain and over the card's hull
+ * patches; the hull figure is absent for fits stored before it existed), the hull patches' names, and
+ * why "auto" kept its method. Empty for profiles without an engine calibration.
+ */
+export function methodsTried(p: { calibration: Record<string, unknown> | null }): { methods: MethodComparison[]; hullPatches: string[]; selection: string | null } {
+  const cal = calibrationOfProfile(p);
+  if (!cal) return { methods: [], hullPatches: [], selection: null };
+  return {
+    methods: cal.comparison,
+    hullPatches: cal.residuals.filter((r) => r.hull).map((r) => r.name),
+    selection: cal.selection ?? null,
+  };
 }
 
 /** The older form of a profile's correction (profiles fitted before the engine calibration; the demo seed's). */

@@ -97,6 +97,14 @@ it("the admin fits and approves a profile from a card photo; the chemist measure
   const loo = await page.getByTestId("loo-summary").innerText();
   const mean = Number(/mean ([\d.]+)/.exec(loo)![1]);
   expect(mean).toBeLessThan(2);
+  // "auto" shows every method tried, with the leave-one-out mean over the card's hull (extrapolation)
+  // beside the plain one, and why it kept the method it used.
+  const tried = page.getByTestId("methods-tried");
+  await expect(tried.locator("tbody tr").count()).resolves.toBe(3);
+  await expect(tried.locator("thead").innerText()).resolves.toMatch(/hull leave-one-out mean/);
+  const used = (await tried.locator("tbody tr", { hasText: "(used)" }).innerText()).trim();
+  expect(used).toMatch(/\d+\.\d\d$/);
+  await expect(page.getByTestId("method-selection").innerText()).resolves.toMatch(/hull/);
 
   await page.getByRole("button", { name: "Approve this profile" }).click();
   // Once approved, the draft-only sections (fit, approve, edit) leave the page and the badge says so.

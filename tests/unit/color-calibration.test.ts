@@ -13,6 +13,7 @@ import {
   CalibrationError,
   checkWhiteReference,
   fitCalibration,
+  hullPatches,
   parseCalibration,
   whiteAdaptation,
   type Calibration,
@@ -25,7 +26,8 @@ import { measureRegion, type DecodedPhoto, type RegionStats } from "@/lib/color/
 import { renderSwatches, SYNTHETIC_CAMERAS, type SyntheticCamera } from "@/lib/color/synthetic-camera";
 import { applyToneCurve, fitToneCurve, monotoneSlopes } from "@/lib/color/tone-curve";
 import type { Lab } from "@/lib/color/types";
-import { CARD, CHROMATIC, GREYS, sceneXyzD65, spectrumLab, VIALS, type Illuminant } from "../support/spectral-card";
+import { mulberry32 } from "@/lib/random";
+import { CARD, CHROMATIC, GREYS, sceneXyzD65, spectrumLab, VIALS, whiteXyz, xyzToLabRef, type Illuminant } from "../support/spectral-card";
 
 type Shot = { card: RegionStats[]; vials: RegionStats[] };
 
@@ -148,11 +150,14 @@ describe("a non-sRGB camera recovered by linearisation + 3×3", () => {
     figures.push(`warmPhone under CIE A, D65 references, matrix-3x3: vials mean ${mean(errors).toFixed(2)} max ${Math.max(...errors).toFixed(2)}, card LOO mean ${cal.meanLooDeltaE00?.toFixed(2)}, vials ± ΔE00 mean ${mean(u).toFixed(2)}`);
   });
 
-  it("picks the method with the lowest mean leave-one-out ΔE00 with 'auto' and reports every method", () => {
+  it("reports every method with its plain and hull leave-one-out ΔE00 with 'auto'", () => {
     const cal = fitCalibration(patchesOf(shots.get("coolPhone") as Shot, "D65"), { method: "auto" });
     expect(cal.comparison.map((c) => c.method)).toEqual(["white", "matrix-3x3", "root-polynomial-2"]);
-    const best = Math.min(...cal.comparison.map((c) => c.meanLooDeltaE00 ?? Infinity));
-    expect(cal.meanLooDeltaE00).toBe(best);
+    for (const c of cal.comparison) {
+      expect(c.meanLooDeltaE00).toBeGreaterThan(0);
+      expect(c.meanHullLooDeltaE00).toBeGreaterThan(0);
+      expect(c.hullPatchCount).toBeGreaterThanOrEqual(3);
+    }
     // The von Kries scaling cannot undo cross-talk: it must lose here.
     expect(cal.method).not.toBe("white");
   });
@@ -168,6 +173,82 @@ describe("a non-sRGB camera recovered by linearisation + 3×3", () => {
     expect(mean(without)).toBeGreaterThan(2);
     expect(mean(withRef)).toBeLessThan(1.5);
     figures.push(`warmPhone after exposure/light drift: vials mean ${mean(without).toFixed(2)} without, ${mean(withRef).toFixed(2)} with the white reference`);
+  });
+});
+
+describe("'auto' judged on colours the card does not hold (the dye vials)", () => {
+  /** Every card/light case above: three cameras under D65, the warm phone under D50 (D50 references) and under CIE A. */
+  const CASES: { key: keyof typeof SYNTHETIC_CAMERAS; light: Illuminant; white: "D65" | "D50" }[] = [
+    ...CAMERAS.map(([key]) => ({ key: key as keyof typeof SYNTHETIC_CAMERAS, light: "D65" as Illuminant, white: "D65" as const })),
+    { key: "warmPhone", light: "D50", white: "D50" },
+    { key: "warmPhone", light: "A", white: "D65" },
+  ];
+  const vialMean = (method: "white" | "matrix-3x3" | "root-polynomial-2", shot: Shot, white: "D65" | "D50") =>
+    mean(vialErrors(fitCalibration(patchesOf(shot, white), { method, whitePoint: white }), shot, white));
+
+  it("under CIE A with the warm phone picks the method that is better on the vials, although the other has the lower plain leave-one-out figure", () => {
+    // Metamerism under A: the root-polynomial follows the card's own spectra (lower card LOO) and does
+    // worse on dye spectra; the plain LOO cannot see that (issue 8).
+    const shot = shoot(SYNTHETIC_CAMERAS.warmPhone, "A");
+    const cal = fitCalibration(patchesOf(shot, "D65"), { method: "auto" });
+    const vials = { "matrix-3x3": vialMean("matrix-3x3", shot, "D65"), "root-polynomial-2": vialMean("root-polynomial-2", shot, "D65") };
+    const better = vials["matrix-3x3"] <= vials["root-polynomial-2"] ? "matrix-3x3" : "root-polynomial-2";
+    expect(cal.method).toBe(better);
+    const lowestPlainLoo = [...cal.comparison].sort((a, b) => (a.meanLooDeltaE00 ?? Infinity) - (b.meanLooDeltaE00 ?? Infinity))[0].method;
+    expect(lowestPlainLoo).not.toBe(better);
+    expect(cal.selection).toMatch(/hull/);
+  });
+
+  for (const { key, light, white } of CASES) {
+    it(`${key} under ${light} (${white} references): 'auto' is within 10 % of the best method's mean vial ΔE00, and the 3×3's hull figure is at least its plain leave-one-out figure`, () => {
+      const shot = light === "D65" ? (shots.get(key) as Shot) : shoot(SYNTHETIC_CAMERAS[key], light);
+      const cal = fitCalibration(patchesOf(shot, white), { method: "auto", whitePoint: white });
+      const perMethod = (["white", "matrix-3x3", "root-polynomial-2"] as const).map((method) => {
+        const c = fitCalibration(patchesOf(shot, white), { method, whitePoint: white });
+        const e = vialErrors(c, shot, white);
+        figures.push(
+          `${key} ${light} ${method}: card LOO mean ${c.meanLooDeltaE00?.toFixed(2)}, hull LOO mean ${c.meanHullLooDeltaE00?.toFixed(2)} (${c.residuals.filter((r) => r.hull).length} patches); vials mean ${mean(e).toFixed(2)} max ${Math.max(...e).toFixed(2)}${cal.method === method ? "  ← auto" : ""}`,
+        );
+        return { method, c, vials: mean(e) };
+      });
+      const best = Math.min(...perMethod.map((m) => m.vials));
+      expect(mean(vialErrors(cal, shot, white))).toBeLessThanOrEqual(1.1 * best);
+      const matrix = perMethod[1].c;
+      expect(matrix.meanHullLooDeltaE00 as number).toBeGreaterThanOrEqual(matrix.meanLooDeltaE00 as number);
+      expect(cal.comparison.map((c) => c.meanHullLooDeltaE00)).toEqual(perMethod.map((m) => m.c.meanHullLooDeltaE00));
+      figures.push(`${key} ${light} auto → ${cal.method}: ${cal.selection}`);
+    });
+  }
+
+  it("takes the more flexible method when its edge on the hull is clear: a camera whose XYZ is exactly a root-polynomial of its RGB (algebra only)", () => {
+    // References from the support module's CIE 015 CIELAB, not lib/color. No greys: linearisation off.
+    const random = mulberry32(7);
+    const M = [
+      [0.41, 0.36, 0.18, 0.2, -0.12, 0.1],
+      [0.21, 0.72, 0.07, 0.15, 0.1, -0.1],
+      [0.02, 0.12, 0.95, -0.1, 0.2, 0.05],
+    ];
+    const patches: CalibrationPatch[] = Array.from({ length: 24 }, (_, i) => {
+      const rgb = [0.05 + 0.85 * random(), 0.05 + 0.85 * random(), 0.05 + 0.85 * random()] as [number, number, number];
+      const t = [...rgb, Math.sqrt(rgb[0] * rgb[1]), Math.sqrt(rgb[1] * rgb[2]), Math.sqrt(rgb[0] * rgb[2])];
+      const xyz = M.map((row) => 100 * row.reduce((s, c, k) => s + c * t[k], 0)) as [number, number, number];
+      return { name: `p${i + 1}`, camera: rgb, referenceLab: xyzToLabRef(xyz, whiteXyz("D65")) as Lab };
+    });
+    const cal = fitCalibration(patches, { method: "auto", linearise: false });
+    expect(cal.method).toBe("root-polynomial-2");
+    expect(cal.selection).toMatch(/root-polynomial correction replaced the 3×3 matrix/);
+    expect(cal.comparison[0].refusal).toMatch(/white or grey patch/);
+  });
+
+  it("puts the card's most saturated chromaticities and the lightest and darkest grey on the hull, not a patch inside", () => {
+    // Geometry only: the corners of a chromaticity triangle are its hull; its centre and the middle of an
+    // edge are not; with greys to spare the lightest and the darkest grey join.
+    const grey = (l: number) => ({ name: `grey ${l}`, camera: [l / 100, l / 100, l / 100] as [number, number, number], referenceLab: [l, 0, 0] as Lab });
+    const colour = (name: string, camera: [number, number, number]) => ({ name, camera, referenceLab: [50, 40, 0] as Lab });
+    const patches = [colour("r", [0.8, 0.1, 0.1]), colour("g", [0.1, 0.8, 0.1]), colour("b", [0.1, 0.1, 0.8]), colour("rg", [0.45, 0.45, 0.1]), colour("centre", [0.3, 0.3, 0.3]), grey(90), grey(60), grey(30), grey(10)];
+    const linear = patches.map((p) => p.camera);
+    expect(hullPatches(patches, linear, false)).toEqual([0, 1, 2]);
+    expect(hullPatches(patches, linear, true)).toEqual([0, 1, 2, 5, 8]);
   });
 });
 
@@ -240,6 +321,20 @@ describe("serialisation", () => {
     expect(() => parseCalibration({ ...cal, coefficients: [[1, 2, 3]] })).toThrow(/damaged/);
     expect(() => parseCalibration({ ...cal, version: 2 })).toThrow(/newer Solvatlas/);
     expect(() => parseCalibration("matrix")).toThrow(CalibrationError);
+  });
+
+  it("reads a calibration stored before the hull figures existed, and keeps them when present", () => {
+    const cal = fitCalibration(patchesOf(shots.get("coolPhone") as Shot, "D65"), { method: "auto" });
+    const stored = JSON.parse(JSON.stringify(cal));
+    expect(parseCalibration(stored).meanHullLooDeltaE00).toBe(cal.meanHullLooDeltaE00);
+    expect(parseCalibration(stored).comparison[1].meanHullLooDeltaE00).toBe(cal.comparison[1].meanHullLooDeltaE00);
+    const { meanHullLooDeltaE00: _a, maxHullLooDeltaE00: _b, selection: _c, ...old } = stored;
+    old.residuals = stored.residuals.map(({ hull: _h, ...r }: { hull?: boolean }) => r);
+    old.comparison = stored.comparison.map(({ meanHullLooDeltaE00: _m, hullPatchCount: _n, ...c }: { meanHullLooDeltaE00?: number; hullPatchCount?: number }) => c);
+    const back = parseCalibration(old);
+    expect(back.meanHullLooDeltaE00).toBeUndefined();
+    expect(back.meanLooDeltaE00).toBe(cal.meanLooDeltaE00);
+    expect(() => parseCalibration({ ...stored, meanHullLooDeltaE00: "low" })).toThrow(/damaged/);
   });
 
 });

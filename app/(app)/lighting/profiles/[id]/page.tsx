@@ -16,7 +16,8 @@ import { Field, TextInput } from "@/components/ui/field";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { labD50ToLabD65, labToHex, linearSrgbToHex } from "@/lib/color/convert";
-import { DEFAULT_TOLERANCE, profileColour } from "@/lib/lighting/calibration";
+import { methodName } from "@/lib/color/calibration";
+import { DEFAULT_TOLERANCE, methodsTried, profileColour } from "@/lib/lighting/calibration";
 import { profileStatus } from "@/lib/lighting/status";
 import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
 import type { GridCorners } from "@/db/schema";
@@ -40,6 +41,8 @@ export default async function ProfilePage({ params, searchParams }: { params: Pr
   const checks = checkHistory(handle, { profileId: p.id });
   const drift = driftHistory(handle, { profileId: p.id });
   const preview = isAdmin && p.state === "approved" && fitted ? previewRederive(handle, { profileId: p.id }) : null;
+  const tried = methodsTried(p);
+  const onHull = new Set(tried.hullPatches);
   const targetLab = (name: string) => {
     const patch = target?.patches.find((t) => t.name === name);
     if (!patch) return null;
@@ -115,7 +118,10 @@ export default async function ProfilePage({ params, searchParams }: { params: Pr
                   const known = targetLab(r.patch);
                   return (
                     <tr key={r.patch} className="border-t border-line">
-                      <td>{r.patch}</td>
+                      <td>
+                        {r.patch}
+                        {onHull.has(r.patch) && <span className="ml-1 text-xs text-ink-soft">(hull)</span>}
+                      </td>
                       <td>
                         {sample && fitted ? (
                           <span className="flex gap-1">
@@ -135,6 +141,50 @@ export default async function ProfilePage({ params, searchParams }: { params: Pr
               </tbody>
             </table>
           </div>
+        </Card>
+      )}
+
+      {tried.methods.length > 0 && (
+        <Card title="Methods tried (ΔE00, CIEDE2000)" className="mt-4">
+          <p className="mb-2 text-xs text-ink-soft">
+            Hull: the leave-one-out mean over the patches at the edge of the card&apos;s colours as the camera sees them, and the lightest and darkest grey ({tried.hullPatches.length} patches, marked above); each is then predicted beyond the others, as a dye more saturated than any patch would be.
+          </p>
+          <div className="overflow-x-auto">
+            <table className="w-full text-sm" data-testid="methods-tried">
+              <thead className="text-left text-ink-soft">
+                <tr>
+                  <th>Method</th>
+                  <th className="text-right">training mean</th>
+                  <th className="text-right">leave-one-out mean / worst</th>
+                  <th className="text-right">hull leave-one-out mean</th>
+                </tr>
+              </thead>
+              <tbody>
+                {tried.methods.map((m) => (
+                  <tr key={m.method} className="border-t border-line">
+                    <td>
+                      {methodName(m.method)}
+                      {m.method === (p.calibration as { method?: string } | null)?.method && <span className="ml-1 text-xs text-ink-soft">(used)</span>}
+                    </td>
+                    {m.refusal ? (
+                      <td colSpan={3} className="text-ink-soft">
+                        not fitted: {m.refusal}
+                      </td>
+                    ) : (
+                      <>
+                        <td className="text-right tabular-nums">{f2(m.meanDeltaE00)}</td>
+                        <td className="text-right tabular-nums">
+                          {f2(m.meanLooDeltaE00)} / {f2(m.maxLooDeltaE00)}
+                        </td>
+                        <td className="text-right tabular-nums">{m.meanHullLooDeltaE00 === undefined ? "— (fitted before this figure existed)" : f2(m.meanHullLooDeltaE00)}</td>
+                      </>
+                    )}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          {tried.selection && <p className="mt-2 text-xs" data-testid="method-selection">{tried.selection}</p>}
         </Card>
       )}
 
