@@ -68,7 +68,7 @@ export default async function MarkPhotoPage({ params }: { params: Promise<{ id: 
       {storedProfile && (
         <div className="mb-4" data-testid="stored-profile-gone">
           <Notice tone="caution" title="Choose the light correction again">
-            This photo was uploaded with a profile that can no longer correct new measurements. {benchRefusal(storedProfile)} Choose a current lighting profile below, or mark a white or grey reference of known CIELAB in the photo.
+            This photo was uploaded with a profile that can no longer correct new measurements. {benchRefusal(storedProfile)} The list below offers the current ones; a white or grey reference of known CIELAB marked in the photo also corrects the light.
           </Notice>
         </div>
       )}
