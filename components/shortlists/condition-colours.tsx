@@ -15,6 +15,8 @@ export function ConditionColours({ colours }: { colours: ConditionSummary[] }) {
     <ul className="grid gap-2 sm:grid-cols-2 xl:grid-cols-3" aria-label="Colour per condition">
       {colours.map((c) => {
         const name = conditionName(c);
+        // Keep a unit on the line of its number ("23 °C", not "23" then "°C").
+        const shown = name.replace(/ (°C)/g, "\u00a0$1");
         const d65 = c.whitePoint.startsWith("D65");
         const usual = c.whitePoint === USUAL_WHITE;
         return (
@@ -25,7 +27,7 @@ export function ConditionColours({ colours }: { colours: ConditionSummary[] }) {
               <span className="flex h-10 w-10 shrink-0 items-center justify-center border border-dashed border-line text-center text-[10px] leading-tight text-ink-soft">no swatch</span>
             )}
             <div className="min-w-0 text-xs">
-              <p className="text-sm font-medium text-ink">{name}</p>
+              <p className="text-sm font-medium text-ink">{shown}</p>
               <p className="tabular-nums">
                 L* {c.mean[0].toFixed(1)} · a* {c.mean[1].toFixed(1)} · b* {c.mean[2].toFixed(1)}
                 {!usual && <span className="text-ink-soft"> ({c.whitePoint})</span>}

@@ -92,7 +92,7 @@ describe("the demo formulator", () => {
     expect(await tiles.count()).toBe(lines.length - 1);
     await expect(tiles.first().innerText()).resolves.toMatch(/L\* -?\d+\.\d · a\* -?\d+\.\d · b\* -?\d+\.\d[\s\S]*\d+ replicates?/);
     expect(await tiles.first().getByRole("img").getAttribute("aria-label")).toMatch(/≈ L\*/);
-    await page.getByText(/Swatches are screen approximations/).waitFor();
+    await expect(page.getByTestId("shortlist-colour-note").innerText()).resolves.toMatch(/Swatches are screen approximations/);
 
     await signIn.signOut();
     expect(errors).toEqual([]);

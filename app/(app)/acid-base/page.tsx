@@ -38,7 +38,7 @@ export default async function PhSeriesPage() {
           <p className="text-sm text-ink-soft">No pH series yet.{canEdit ? " Group measured vials into one, or import one from CSV." : ""}</p>
         ) : (
           <>
-            <ul className="space-y-3 md:hidden" aria-label="pH series" data-testid="ph-series-cards">
+            <ul className="-my-3 divide-y divide-line md:hidden" aria-label="pH series" data-testid="ph-series-cards">
               {rows.map((r) => (
                 <SeriesCard key={r.id} row={r} />
               ))}
@@ -140,12 +140,14 @@ function SeriesCard({ row }: { row: SeriesRowView }) {
     </>
   );
   return (
-    <li className="border border-line p-3" data-testid="ph-series-card">
+    <li className="py-3" data-testid="ph-series-card">
       <p className="text-sm">
         <DyeLink row={row} />
       </p>
       <p className="mt-0.5 text-base font-semibold">
-        <Link href={row.href}>{row.name}</Link>
+        <Link href={row.href} className="underline">
+          {row.name}
+        </Link>
       </p>
       <dl className="mt-2 grid grid-cols-[auto_minmax(0,1fr)] gap-x-3 gap-y-1 text-sm">
         {row.fitted ? (
@@ -162,9 +164,9 @@ function SeriesCard({ row }: { row: SeriesRowView }) {
         {item("Vials", row.vials)}
       </dl>
       {row.fitted && <FitMessages messages={row.fitted.messages} />}
-      <p className="mt-2 text-sm">
-        <Link href={row.href}>Open the series</Link>
-      </p>
+      <ButtonLink href={row.href} className="mt-2">
+        Open the series
+      </ButtonLink>
     </li>
   );
 }

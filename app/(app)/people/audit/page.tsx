@@ -135,7 +135,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                   <span className="font-semibold" data-testid="audit-action">
                     {auditActionWords(e.action)}
                   </span>{" "}
-                  <span className="text-ink-soft">on {e.entity.replace(/_/g, " ")}</span>{" "}
+                  <span className="text-ink-soft">· {e.entity.replace(/_/g, " ")}</span>{" "}
                   {e.entityId &&
                     (href ? (
                       <Link href={href} className="break-all font-mono text-accent">
