@@ -27,7 +27,6 @@ export function formColours(r: Fitted): { lab: Lab; name: string }[] {
   return r.fit.labs.map((lab, i) => ({ lab, name: ["H2In (acid form)", "HIn⁻ (middle form)", "In²⁻ (base form)"][i] }));
 }
 
-
 /** The headings the series list uses, the same in its table (md and up) and its cards (phones). */
 export const SERIES_LABELS = {
   dye: "Dye",

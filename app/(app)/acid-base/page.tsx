@@ -43,7 +43,7 @@ export default async function PhSeriesPage() {
                 <SeriesCard key={r.id} row={r} />
               ))}
             </ul>
-            <div className="hidden md:block">
+            <div className="hidden overflow-x-auto md:block">
               <table className="w-full text-left text-sm" data-testid="ph-series-list">
                 <thead className="text-xs text-ink-soft">
                   <tr>

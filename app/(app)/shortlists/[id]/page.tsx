@@ -79,8 +79,9 @@ export default async function ShortlistPage({ params }: { params: Promise<{ id: 
           {items.length > 0 && (
             <div className="mt-3 space-y-1 border-t border-line pt-3 text-xs text-ink-soft" data-testid="shortlist-colour-note">
               <p>
-                Each colour is the mean CIELAB of the dye&apos;s accepted replicates in that condition, relative to D65 with the CIE 1931 2° observer unless the tile names another; the spread is the root mean square of
-                their ΔE00 from that mean. The CSV export carries the same numbers unrounded, with each solvent&apos;s parameters.
+                Each colour is the mean CIELAB of the dye&apos;s accepted replicates in that condition, relative to D65 with the CIE 1931 2° observer unless the
+                tile names another; the spread is the root mean square of their ΔE00 from that mean. The CSV export carries the same numbers unrounded, with each
+                solvent&apos;s parameters.
               </p>
               <SwatchKey />
             </div>
