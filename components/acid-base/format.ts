@@ -1,5 +1,6 @@
-import type { StoredPhFit } from "@/db/queries/ph-series";
+import type { PhSeriesSummary, StoredPhFit } from "@/db/queries/ph-series";
 import type { Lab } from "@/lib/color/types";
+import { count } from "@/lib/text/count";
 
 /** A pKa's standard error for display: two decimals, or "—" when the bootstrap could not give one. */
 export function seText(se: number | null | undefined): string {
@@ -26,3 +27,43 @@ export function formColours(r: Fitted): { lab: Lab; name: string }[] {
   return r.fit.labs.map((lab, i) => ({ lab, name: ["H2In (acid form)", "HIn⁻ (middle form)", "In²⁻ (base form)"][i] }));
 }
 
+/** The headings the series list uses, the same in its table (md and up) and its cards (phones). */
+export const SERIES_LABELS = {
+  dye: "Dye",
+  series: "Series",
+  medium: "Medium",
+  ionicStrength: "Ionic strength",
+  pka: "Apparent pKa",
+  transition: "Visual transition",
+  forms: "Acid → base form",
+} as const;
+
+/** One series as the list shows it: every text formatted once, for both layouts. */
+export type SeriesRowView = {
+  id: string;
+  href: string;
+  name: string;
+  dye: { code: string; name: string; href: string };
+  medium: string;
+  ionicStrength: string;
+  vials: string;
+  fitted: { pka: string; transition: string; colours: { lab: Lab; name: string }[]; messages: string[] } | null;
+  /** Why there is no pKa, when there is none. */
+  refusal: string | null;
+};
+
+export function seriesRowView(s: PhSeriesSummary & { fit: StoredPhFit }): SeriesRowView {
+  const vials = count(s.fit.vials, "accepted vial");
+  return {
+    id: s.id,
+    href: `/acid-base/${encodeURIComponent(s.id)}`,
+    name: s.name,
+    dye: { code: s.dye.code, name: s.dye.name, href: `/catalogue/${encodeURIComponent(s.dye.code)}` },
+    medium: s.mediumLabel,
+    ionicStrength: s.ionicStrengthMolL === null ? "not recorded" : `${s.ionicStrengthMolL} mol/L`,
+    vials,
+    // pKa is a pH on the medium's own scale: apparent, for this medium and ionic strength.
+    fitted: s.fit.ok ? { pka: `${pkaText(s.fit)} pH units`, transition: transitionText(s.fit), colours: formColours(s.fit), messages: s.fit.fit.messages } : null,
+    refusal: s.fit.ok ? null : `No pKa (${vials}): ${s.fit.error}`,
+  };
+}

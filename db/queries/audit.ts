@@ -1,4 +1,5 @@
 import { and, count, desc, eq, gte, isNull, lt } from "drizzle-orm";
+import type { AuditAction } from "../../lib/audit/actions";
 import type { Db } from "../connection";
 import { auditLog } from "../schema";
 
@@ -7,7 +8,7 @@ type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 /** Writes one audit entry; call it inside the same transaction as the change it records. */
 export function recordAudit(
   tx: Db | Tx,
-  entry: { actorId: string | null; action: string; entity: string; entityId?: string | null; before?: unknown; after?: unknown },
+  entry: { actorId: string | null; action: AuditAction; entity: string; entityId?: string | null; before?: unknown; after?: unknown },
 ): void {
   tx.insert(auditLog)
     .values({

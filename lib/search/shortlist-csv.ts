@@ -1,4 +1,5 @@
 import { csvFileName as safeFileName, writeCsv } from "../csv/write";
+import { replicateMeans } from "./replicates";
 
 export type ShortlistCsvRow = { code: string; name: string; dyeClass: string; casNumber: string | null; molarMass: number | null; acceptedMeasurements: number; note: string; hazards: string };
 
@@ -24,8 +25,19 @@ export type ConditionColour = {
   lab: [number, number, number];
 };
 
-/** The colour of a dye in one condition: mean of its accepted replicates, their count and sample standard deviation. */
-export type ConditionSummary = Omit<ConditionColour, "lab"> & { n: number; mean: [number, number, number]; sd: [number, number, number] | null; chroma: number; hueDeg: number };
+/**
+ * The colour of a dye in one condition: mean of its accepted replicates, their count and sample standard
+ * deviation, and their spread in ΔE00 (null for a single replicate).
+ */
+export type ConditionSummary = Omit<ConditionColour, "lab"> & {
+  n: number;
+  mean: [number, number, number];
+  sd: [number, number, number] | null;
+  /** RMS of the replicates' CIEDE2000 distances from their mean, as the search reports it (lib/search/replicates.ts). */
+  spreadDeltaE00: number | null;
+  chroma: number;
+  hueDeg: number;
+};
 
 /** "Acetonitrile, base, pH 11, 25 °C": the condition in words, as the pages name it. */
 export function conditionName(c: Pick<ConditionColour, "solvent" | "acidBase" | "ph" | "additive" | "temperatureC" | "secondSolvent" | "secondSolventMoleFraction">): string {
@@ -39,7 +51,8 @@ export function conditionName(c: Pick<ConditionColour, "solvent" | "acidBase" | 
 /**
  * Groups accepted measurements by dye and condition. Replicates are summarised as the arithmetic mean
  * of L*, a*, b* with the sample standard deviation (n − 1) of each, so a reader sees the spread and not
- * only a mean; C*ab and hab are computed from the mean (CIE 15:2004, §8.2.1).
+ * only a mean; C*ab and hab are computed from the mean (CIE 15:2004, §8.2.1). The ΔE00 spread is the
+ * search's (lib/search/replicates.ts), so a shortlist and a search hit agree.
  */
 export function summariseByCondition(rows: ConditionColour[]): ConditionSummary[] {
   const groups = new Map<string, ConditionColour[]>();
@@ -55,8 +68,18 @@ export function summariseByCondition(rows: ConditionColour[]): ConditionSummary[
     const sd = n > 1 ? ([0, 1, 2].map((k) => Math.sqrt(list.reduce((s, r) => s + (r.lab[k] - mean[k]) ** 2, 0) / (n - 1))) as [number, number, number]) : null;
     const { lab: _lab, ...condition } = list[0];
     const hue = (Math.atan2(mean[2], mean[1]) * 180) / Math.PI;
-    return { ...condition, n, mean, sd, chroma: Math.hypot(mean[1], mean[2]), hueDeg: hue < 0 ? hue + 360 : hue };
+    const [replicates] = replicateMeans(list.map((r) => ({ dyeId: r.dyeCode, conditionId: r.conditionId, solventId: r.conditionId, acidBase: r.acidBase, ph: r.ph, lab: r.lab })));
+    const spreadDeltaE00 = n > 1 ? replicates.spreadDeltaE00 : null;
+    return { ...condition, n, mean, sd, spreadDeltaE00, chroma: Math.hypot(mean[1], mean[2]), hueDeg: hue < 0 ? hue + 360 : hue };
   });
+}
+
+/** Each dye's condition colours, keyed by dye code, in the order of their condition names. */
+export function coloursByDye(colours: ConditionSummary[]): Map<string, ConditionSummary[]> {
+  const byDye = new Map<string, ConditionSummary[]>();
+  for (const c of colours) byDye.set(c.dyeCode, [...(byDye.get(c.dyeCode) ?? []), c]);
+  for (const list of byDye.values()) list.sort((x, y) => conditionName(x).localeCompare(conditionName(y)));
+  return byDye;
 }
 
 const DYE_FIELDS = ["code", "name", "class", "cas_number", "molar_mass_g_mol", "accepted_measurements", "note", "hazards"];
@@ -74,12 +97,11 @@ const blank = (v: number | string | null | undefined) => (v === null || v === un
  * colours still gets one row, its colour columns empty. Values are not rounded.
  */
 export function shortlistToCsv(rows: ShortlistCsvRow[], colours: ConditionSummary[] = []): string {
-  const byDye = new Map<string, ConditionSummary[]>();
-  for (const c of colours) byDye.set(c.dyeCode, [...(byDye.get(c.dyeCode) ?? []), c]);
+  const byDye = coloursByDye(colours);
   const data: (string | number)[][] = [];
   for (const r of rows) {
     const dye = [r.code, r.name, r.dyeClass, r.casNumber ?? "", r.molarMass ?? "", r.acceptedMeasurements, r.note, r.hazards];
-    const list = (byDye.get(r.code) ?? []).sort((x, y) => conditionName(x).localeCompare(conditionName(y)));
+    const list = byDye.get(r.code) ?? [];
     if (list.length === 0) data.push([...dye, ...COLOUR_FIELDS.map(() => "")]);
     for (const c of list) {
       const p = c.solventParameters;

@@ -1,7 +1,7 @@
 /**
  * The admin's records: an invitation shows up in the audit log (filtered by who and what, linked to
- * its record, the change written out), the audit CSV carries it, and the local mailbox shows the
- * invitation link as a link that opens the invitation page.
+ * its record, the action in words with its code beside them, the change written out), the audit CSV
+ * carries it, and the local mailbox shows the invitation link as a link that opens the invitation page.
  */
 import fs from "node:fs";
 import { describe, expect, inject, it } from "vitest";
@@ -28,7 +28,9 @@ describe("the admin's records", () => {
     expect(await entries.count()).toBeGreaterThanOrEqual(1);
     expect(await entries.count()).toBeLessThanOrEqual(40);
     const first = entries.first();
-    expect(await first.innerText()).toMatch(/invitation\.create/);
+    // Words from lib/audit/actions.ts, the stored code beside them; the CSV below keeps the code alone.
+    expect(await first.getByTestId("audit-action").innerText()).toBe("sent an invitation");
+    expect(await first.getByTestId("audit-code").innerText()).toBe("invitation.create");
     await first.getByText(/field.? changed/).click();
     expect(await first.innerText()).toMatch(/ines\.tarrant@lab\.test/);
 

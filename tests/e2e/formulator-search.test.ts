@@ -87,6 +87,12 @@ describe("the demo formulator", () => {
       expect(line).toContain("deep blue in acetonitrile");
     }
     expect(lines.slice(1).every((l) => /,(protic|dipolar-aprotic|nonpolar),(acid|neutral|base),/.test(l))).toBe(true);
+    // The page shows the same colours: one swatch per exported condition, named, with its CIELAB and replicates.
+    const tiles = page.getByTestId("shortlist-item").first().getByTestId("shortlist-colour");
+    expect(await tiles.count()).toBe(lines.length - 1);
+    await expect(tiles.first().innerText()).resolves.toMatch(/L\* -?\d+\.\d · a\* -?\d+\.\d · b\* -?\d+\.\d[\s\S]*\d+ replicates?/);
+    expect(await tiles.first().getByRole("img").getAttribute("aria-label")).toMatch(/≈ L\*/);
+    await expect(page.getByTestId("shortlist-colour-note").innerText()).resolves.toMatch(/Swatches are screen approximations/);
 
     await signIn.signOut();
     expect(errors).toEqual([]);

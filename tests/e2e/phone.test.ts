@@ -60,6 +60,31 @@ describe("on a 390 px phone", () => {
     await page.close();
   });
 
+  it("lists pH series as cards, each pKa with its unit in view without scrolling sideways", { timeout: 300_000 }, async () => {
+    const page = await browser().newPage();
+    await page.context().clearCookies();
+    await page.setViewportSize({ width: 390, height: 844 });
+    await new SignInPage(page, base).signIn("formulator@demo.test");
+    // The list brings every series' stored fit up to date first (all of them on a fresh demo): allow for it.
+    await page.goto(`${base}/acid-base`, { timeout: 240_000 });
+    const cards = page.getByTestId("ph-series-card");
+    await cards.first().waitFor({ timeout: 60_000 });
+    expect(await page.getByTestId("ph-series-list").isVisible()).toBe(false);
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    const pkas = page.getByTestId("ph-series-card-pka");
+    expect(await pkas.count()).toBeGreaterThan(0);
+    for (const pka of await pkas.all()) {
+      await expect(pka.innerText()).resolves.toMatch(/\d+\.\d\d ± (\d+\.\d\d|—) pH units$/);
+      const box = (await pka.boundingBox())!;
+      expect(box.x + box.width).toBeLessThanOrEqual(390);
+    }
+    await page.setViewportSize({ width: 1440, height: 900 });
+    await page.getByTestId("ph-series-list").waitFor();
+    expect(await cards.first().isVisible()).toBe(false);
+    expect(await page.getByTestId("ph-series-row").count()).toBe(await cards.count());
+    await page.close();
+  });
+
   it("the phone menu opens over the page, reaches every area and closes after a choice", async () => {
     const page = await browser().newPage();
     await page.context().clearCookies();

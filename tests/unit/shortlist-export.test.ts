@@ -48,6 +48,15 @@ describe("shortlist export: colours per condition", () => {
     expect(s.sd![2]).toBeCloseTo(Math.sqrt(12), 12);
   });
 
+  it("gives the replicates' ΔE00 spread from their mean (CIEDE2000 S_L, Sharma, Wu & Dalal 2005, eq. 18), none for one replicate", () => {
+    // Two greys 4 apart in L* around L* = 50: each is 2 in L* from the mean, C* = 0 so only the lightness
+    // term counts, with L̄′ = 49 (or 51): S_L = 1 + 0.015 (L̄′ − 50)² / √(20 + (L̄′ − 50)²), k_L = 1.
+    const [s] = summariseByCondition([colour([48, 0, 0]), colour([52, 0, 0])]);
+    const sL = 1 + (0.015 * 1) / Math.sqrt(20 + 1);
+    expect(s.spreadDeltaE00!).toBeCloseTo(2 / sL, 10);
+    expect(summariseByCondition([colour([48, 0, 0])])[0].spreadDeltaE00).toBeNull();
+  });
+
   it("does not pool different conditions or different dyes", () => {
     const rows = [colour([40, 10, -20]), colour([60, 0, 0], { conditionId: "cond_water", solvent: "Water", medium: "protic" }), colour([50, 5, 5], { dyeCode: "KB-T-2" })];
     expect(summariseByCondition(rows)).toHaveLength(3);

@@ -11,6 +11,7 @@ import { Notice, PageHeader } from "@/components/ui/card";
 import { Refused } from "@/components/shell/refused";
 import { pageAccess } from "@/lib/auth/page";
 import { ADMIN_ONLY } from "@/lib/auth/roles";
+import { auditActionWords } from "@/lib/audit/actions";
 import { auditDiff } from "@/lib/audit/diff";
 import { count } from "@/lib/text/count";
 
@@ -87,7 +88,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
             <option value="">any change</option>
             {choices.actions.map((a) => (
               <option key={a} value={a}>
-                {a}
+                {auditActionWords(a) === a ? a : `${auditActionWords(a)} (${a})`}
               </option>
             ))}
           </select>
@@ -131,8 +132,10 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
               <span>{e.actorId ? (names.get(e.actorId) ?? e.actorId) : "the system"}</span>
               <div className="min-w-0">
                 <p>
-                  <span className="font-mono font-semibold">{e.action}</span>{" "}
-                  <span className="text-ink-soft">on {e.entity.replace(/_/g, " ")}</span>{" "}
+                  <span className="font-semibold" data-testid="audit-action">
+                    {auditActionWords(e.action)}
+                  </span>{" "}
+                  <span className="text-ink-soft">· {e.entity.replace(/_/g, " ")}</span>{" "}
                   {e.entityId &&
                     (href ? (
                       <Link href={href} className="break-all font-mono text-accent">
@@ -142,6 +145,11 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                       <span className="break-all font-mono">{e.entityId}</span>
                     ))}
                 </p>
+                {auditActionWords(e.action) !== e.action && (
+                  <p className="font-mono text-xs text-ink-soft" data-testid="audit-code">
+                    {e.action}
+                  </p>
+                )}
                 {changes.length > 0 && (
                   <details className="mt-1">
                     <summary className="min-h-8 cursor-pointer text-accent underline">{count(changes.length, "field")} changed</summary>

@@ -2,12 +2,15 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { db } from "@/db/client";
-import { findShortlist, shortlistDyes } from "@/db/queries/shortlists";
+import { findShortlist, shortlistConditionColours, shortlistDyes } from "@/db/queries/shortlists";
+import { ConditionColours } from "@/components/shortlists/condition-colours";
 import { ItemNoteForm, RemoveItemForm, ShareShortlistForm } from "@/components/shortlists/shortlist-forms";
 import { ButtonLink } from "@/components/ui/button";
 import { Card, PageHeader } from "@/components/ui/card";
+import { SwatchKey } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
+import { coloursByDye, summariseByCondition } from "@/lib/search/shortlist-csv";
 import { count } from "@/lib/text/count";
 
 export const metadata: Metadata = { title: "Shortlist" };
@@ -20,6 +23,8 @@ export default async function ShortlistPage({ params }: { params: Promise<{ id: 
   if (!found) notFound();
   const { list, owner } = found;
   const items = shortlistDyes(handle, { shortlistId: id });
+  // The export's query and summaries (app/api/shortlists/[id]/export), so the page and the CSV agree.
+  const byDye = coloursByDye(summariseByCondition(shortlistConditionColours(handle, { shortlistId: id })));
   const editable = list.ownerId === user.id || user.role === "admin";
   const codes = items.slice(0, 6).map((i) => encodeURIComponent(i.dye.code));
   return (
@@ -58,6 +63,7 @@ export default async function ShortlistPage({ params }: { params: Promise<{ id: 
                       ({dye.dyeClass}, {accepted} accepted measurements)
                     </span>
                   </div>
+                  <ConditionColours colours={byDye.get(dye.code) ?? []} />
                   {editable ? (
                     <div className="flex flex-wrap items-start gap-2">
                       <ItemNoteForm itemId={item.id} note={item.note} code={dye.code} />
@@ -69,6 +75,16 @@ export default async function ShortlistPage({ params }: { params: Promise<{ id: 
                 </li>
               ))}
             </ul>
+          )}
+          {items.length > 0 && (
+            <div className="mt-3 space-y-1 border-t border-line pt-3 text-xs text-ink-soft" data-testid="shortlist-colour-note">
+              <p>
+                Each colour is the mean CIELAB of the dye&apos;s accepted replicates in that condition, relative to D65 with the CIE 1931 2° observer unless the
+                tile names another; the spread is the root mean square of their ΔE00 from that mean. The CSV export carries the same numbers unrounded, with each
+                solvent&apos;s parameters.
+              </p>
+              <SwatchKey />
+            </div>
           )}
         </Card>
         <Card title="Share">

@@ -6,7 +6,7 @@ import { PrintButton } from "@/components/shortlists/print-button";
 import { Swatch } from "@/components/ui/swatch";
 import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
-import { conditionName, summariseByCondition, type ConditionSummary } from "@/lib/search/shortlist-csv";
+import { coloursByDye, conditionName, summariseByCondition } from "@/lib/search/shortlist-csv";
 import { count } from "@/lib/text/count";
 
 export const metadata: Metadata = { title: "Shortlist (print)" };
@@ -19,8 +19,7 @@ export default async function ShortlistPrintPage({ params }: { params: Promise<{
   if (!found) notFound();
   const items = shortlistDyes(handle, { shortlistId: id });
   const colours = summariseByCondition(shortlistConditionColours(handle, { shortlistId: id }));
-  const byDye = new Map<string, ConditionSummary[]>();
-  for (const c of colours) byDye.set(c.dyeCode, [...(byDye.get(c.dyeCode) ?? []), c]);
+  const byDye = coloursByDye(colours);
   const fmt = (v: number | null | undefined, digits: number) => (v === null || v === undefined ? "—" : v.toFixed(digits));
   return (
     <article className="mx-auto max-w-4xl bg-white p-6 print:p-0">
@@ -33,7 +32,7 @@ export default async function ShortlistPrintPage({ params }: { params: Promise<{
       </p>
       {found.list.notes && <p className="mt-2 text-sm">{found.list.notes}</p>}
       {items.map(({ item, dye, accepted }) => {
-        const list = (byDye.get(dye.code) ?? []).sort((x, y) => conditionName(x).localeCompare(conditionName(y)));
+        const list = byDye.get(dye.code) ?? [];
         return (
           <section key={item.id} className="mt-6 break-inside-avoid border-t-2 border-ink pt-3">
             <h2 className="text-lg font-bold">
