@@ -320,7 +320,7 @@ export function saveMeasurements(
       });
       ids.push(id);
     }
-    const drift = input.drift ? recordPhotoDrift(tx, { profileId: input.lightingProfileId, photoId: photo.id, references: input.drift.references, limit: input.drift.limit }) : [];
+    const drift = input.drift ? recordPhotoDrift(tx, { actorId: input.actorId, profileId: input.lightingProfileId, photoId: photo.id, references: input.drift.references, limit: input.drift.limit }) : [];
     const checks = recordPhotoChecks(tx, { actorId: input.actorId, photoId: photo.id, profileId: input.lightingProfileId, readings: input.checks ?? [] });
     return { ids, checks, driftFlagged: drift.map((d) => ({ label: d.label, deltaE00: d.deltaE00 })) };
   });

@@ -390,11 +390,12 @@ export function driftHistory(db: Db, { profileId }: { profileId: string }) {
   return db.select().from(driftReadings).where(eq(driftReadings.profileId, profileId)).orderBy(asc(driftReadings.createdAt)).all();
 }
 
-export function recordDrift(db: Db | Tx, r: { profileId: string; photoId: string | null; label: string; deltaE00: number; thresholdDeltaE00: number }) {
+/** One drift reading, audited under whoever saved the photo it was seen in (null: no person, e.g. a script). */
+export function recordDrift(db: Db | Tx, { actorId = null, ...r }: { actorId?: string | null; profileId: string; photoId: string | null; label: string; deltaE00: number; thresholdDeltaE00: number }) {
   const id = `dr_${randomUUID()}`;
   const flagged = r.deltaE00 > r.thresholdDeltaE00;
   db.insert(driftReadings).values({ id, ...r, flagged }).run();
-  recordAudit(db, { actorId: null, action: "drift-reading.create", entity: "drift_reading", entityId: id, after: { ...r, flagged } });
+  recordAudit(db, { actorId, action: "drift-reading.create", entity: "drift_reading", entityId: id, after: { ...r, flagged } });
   return { id, flagged };
 }
 
@@ -559,12 +560,12 @@ export async function fitProfileFromPhoto(
  */
 export function recordPhotoDrift(
   db: Db | Tx,
-  { profileId, photoId, references, limit }: { profileId: string | null; photoId: string; references: { label?: string; driftDeltaE00: number }[]; limit: number },
+  { actorId, profileId, photoId, references, limit }: { actorId: string | null; profileId: string | null; photoId: string; references: { label?: string; driftDeltaE00: number }[]; limit: number },
 ) {
   if (!profileId || references.length === 0) return [];
   return db.transaction((tx) =>
     references
-      .map((r, i) => ({ label: r.label || `reference ${i + 1}`, deltaE00: r.driftDeltaE00, ...recordDrift(tx, { profileId, photoId, label: r.label || `reference ${i + 1}`, deltaE00: r.driftDeltaE00, thresholdDeltaE00: limit }) }))
+      .map((r, i) => ({ label: r.label || `reference ${i + 1}`, deltaE00: r.driftDeltaE00, ...recordDrift(tx, { actorId, profileId, photoId, label: r.label || `reference ${i + 1}`, deltaE00: r.driftDeltaE00, thresholdDeltaE00: limit }) }))
       .filter((r) => r.flagged),
   );
 }

@@ -187,7 +187,8 @@ describe("drift readings are written with the vials", { timeout: 120_000 }, () =
     const drift = db().select().from(driftReadings).where(eq(driftReadings.photoId, photoId)).get()!;
     expect(drift).toMatchObject({ profileId: PROFILE, label: "white tile", flagged: true });
     expect(drift.deltaE00).toBeGreaterThan(drift.thresholdDeltaE00);
-    expect(db().select().from(auditLog).where(and(eq(auditLog.entityId, drift.id), eq(auditLog.action, "drift-reading.create"))).all()).toHaveLength(1);
+    // Audited under the chemist who saved the photo.
+    expect(db().select({ actorId: auditLog.actorId }).from(auditLog).where(and(eq(auditLog.entityId, drift.id), eq(auditLog.action, "drift-reading.create"))).all()).toEqual([{ actorId: PEOPLE.chemist.id }]);
     const sent = fs.readdirSync(mailboxDir()).map((f) => JSON.parse(fs.readFileSync(path.join(mailboxDir(), f), "utf8")) as { to: string; subject: string; text: string });
     expect(sent.length).toBe(mails + 1);
     expect(sent.some((m) => m.to === PEOPLE.admin.email && /Light drift on “Identity box”/.test(m.subject) && m.text.includes(`/bench/photos/${photoId}`))).toBe(true);

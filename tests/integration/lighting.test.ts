@@ -159,10 +159,23 @@ describe("profile state machine", { timeout: 180_000 }, () => {
     const res = await saveMeasurementsAction(null, form({ payload: JSON.stringify({ photoId: photo.id, lightingProfileId: expiring, references: [], vials: [{ region: vialRegion, dyeId: "dye_t1", solventId: "solv-methanol", acidBase: "neutral", ph: null, concentrationUmolL: 20, flagReason: "" }] }) }));
     expect(res).toMatchObject({ ok: false, message: expect.stringMatching(/expired on 2021-01-01/) });
 
+    // A profile whose stored calibration is damaged is reported on its own; the list still answers.
+    const damaged = await draft("Bench box X");
+    db().update(lightingProfiles).set({ calibration: { format: "solvatlas-calibration", method: "matrix-3x3" } }).where(eq(lightingProfiles.id, damaged)).run();
+
     const api = await listProfilesRoute(new Request("http://localhost:3000/api/lighting/profiles", { headers: { authorization: `Bearer ${tokenFor("formulator")}` } }));
     expect(api.status).toBe(200);
     const body = await api.json();
     const byName = Object.fromEntries(body.profiles.map((p: { name: string }) => [p.name, p]));
+    expect(byName["Bench box X"].residuals).toMatchObject({ methods: [], problem: expect.stringMatching(/could not be read.*fit the profile again/) });
+    // The methods the fit tried (the one asked for here; "auto" lists all), with plain and hull leave-one-out
+    // ΔE00 (hull patches are predicted beyond the others, so their mean is not below the plain one on this card).
+    const tried = byName["Bench box A"].residuals.methods as { method: string; looMean: number; hullLooMean: number }[];
+    expect(tried.map((m) => m.method)).toEqual(["matrix-3x3"]);
+    const matrix = tried.find((m) => m.method === "matrix-3x3")!;
+    expect(matrix.looMean).toBeCloseTo(byName["Bench box A"].residuals.looMean, 6);
+    expect(matrix.hullLooMean).toBeGreaterThanOrEqual(matrix.looMean);
+    expect(byName["Bench box A"].residuals.hullPatches.length).toBeGreaterThan(0);
     expect(byName["Bench box R"]).toMatchObject({ state: "retired", status: "retired", usableOnBench: false });
     expect(byName["Bench box E"]).toMatchObject({ state: "approved", status: "expired", usableOnBench: false });
     expect(byName["Bench box A"]).toMatchObject({ state: "approved", status: "approved", usableOnBench: true, method: "matrix-3x3", illuminant: "D65" });

@@ -2,12 +2,38 @@ import { db } from "@/db/client";
 import { listProfiles } from "@/db/queries/lighting";
 import { apiRoute } from "@/lib/auth/guard";
 import { ANY_ROLE } from "@/lib/auth/roles";
+import { methodsTried } from "@/lib/lighting/calibration";
 import { profileStatus } from "@/lib/lighting/status";
+
+/**
+ * The methods a profile's fit tried, with plain and hull leave-one-out ΔE00 and why one was kept. A stored
+ * calibration that cannot be read is reported on its own profile instead of failing the whole list.
+ */
+function fitComparison(p: Parameters<typeof methodsTried>[0]) {
+  try {
+    const tried = methodsTried(p);
+    return {
+      methods: tried.methods.map((m) => ({
+        method: m.method,
+        trainingMean: m.meanDeltaE00,
+        looMean: m.meanLooDeltaE00,
+        looMax: m.maxLooDeltaE00,
+        hullLooMean: m.meanHullLooDeltaE00 ?? null,
+        refusal: m.refusal ?? null,
+      })),
+      hullPatches: tried.hullPatches,
+      selection: tried.selection,
+    };
+  } catch (error) {
+    return { methods: [], hullPatches: [], selection: null, problem: `The stored calibration could not be read (${error instanceof Error ? error.message : String(error)}); fit the profile again.` };
+  }
+}
 
 /**
  * Every lighting profile with its state (draft | approved | retired), its status now (expired and
  * not-yet-valid are derived from the validity window), method, illuminant, residuals (training and
- * leave-one-out ΔE00 per patch) and validity window. Read by every role; writes go through the
+ * leave-one-out ΔE00 per patch; with the methods tried, their hull leave-one-out ΔE00 and why one was
+ * kept) and validity window. Read by every role; writes go through the
  * admin-only actions of the Lighting page.
  */
 export const GET = apiRoute({ access: ANY_ROLE }, async () => {
@@ -32,6 +58,8 @@ export const GET = apiRoute({ access: ANY_ROLE }, async () => {
         looMean: p.looMeanDeltaE00,
         looMax: p.looMaxDeltaE00,
         patches: p.residuals ?? [],
+        // Every method the fit tried (empty for profiles fitted before the calibration engine, e.g. the demo's).
+        ...fitComparison(p),
       },
       validFrom: p.validFrom.toISOString(),
       validUntil: p.validUntil?.toISOString() ?? null,
