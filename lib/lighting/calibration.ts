@@ -118,6 +118,18 @@ export function methodsTried(p: { calibration: Record<string, unknown> | null })
   };
 }
 
+/**
+ * `methodsTried`, or — when the stored calibration cannot be read (a damaged row) — nothing tried and the
+ * sentence to show on that profile, so one damaged profile does not break a list or a page.
+ */
+export function readableFit(p: { calibration: Record<string, unknown> | null }): ReturnType<typeof methodsTried> & { problem: string | null } {
+  try {
+    return { ...methodsTried(p), problem: null };
+  } catch {
+    return { methods: [], hullPatches: [], selection: null, problem: "The stored calibration could not be read (damaged or not a Solvatlas calibration); fit the profile again from a card photo, reopening it as a draft first if it is approved." };
+  }
+}
+
 /** The older form of a profile's correction (profiles fitted before the engine calibration; the demo seed's). */
 export function correctionOfProfile(p: { correctionKind: string; correction: number[] }): Correction {
   // Profiles with an engine calibration carry no older correction.

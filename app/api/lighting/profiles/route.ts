@@ -2,31 +2,25 @@ import { db } from "@/db/client";
 import { listProfiles } from "@/db/queries/lighting";
 import { apiRoute } from "@/lib/auth/guard";
 import { ANY_ROLE } from "@/lib/auth/roles";
-import { methodsTried } from "@/lib/lighting/calibration";
+import { readableFit } from "@/lib/lighting/calibration";
 import { profileStatus } from "@/lib/lighting/status";
 
-/**
- * The methods a profile's fit tried, with plain and hull leave-one-out ΔE00 and why one was kept. A stored
- * calibration that cannot be read is reported on its own profile instead of failing the whole list.
- */
-function fitComparison(p: Parameters<typeof methodsTried>[0]) {
-  try {
-    const tried = methodsTried(p);
-    return {
-      methods: tried.methods.map((m) => ({
-        method: m.method,
-        trainingMean: m.meanDeltaE00,
-        looMean: m.meanLooDeltaE00,
-        looMax: m.maxLooDeltaE00,
-        hullLooMean: m.meanHullLooDeltaE00 ?? null,
-        refusal: m.refusal ?? null,
-      })),
-      hullPatches: tried.hullPatches,
-      selection: tried.selection,
-    };
-  } catch (error) {
-    return { methods: [], hullPatches: [], selection: null, problem: `The stored calibration could not be read (${error instanceof Error ? error.message : String(error)}); fit the profile again.` };
-  }
+/** The methods a profile's fit tried, with plain and hull leave-one-out ΔE00 and why one was kept. */
+function fitComparison(p: Parameters<typeof readableFit>[0]) {
+  const { methods, hullPatches, selection, problem } = readableFit(p);
+  return {
+    methods: methods.map((m) => ({
+      method: m.method,
+      trainingMean: m.meanDeltaE00,
+      looMean: m.meanLooDeltaE00,
+      looMax: m.maxLooDeltaE00,
+      hullLooMean: m.meanHullLooDeltaE00 ?? null,
+      refusal: m.refusal ?? null,
+    })),
+    hullPatches,
+    selection,
+    ...(problem ? { problem } : {}),
+  };
 }
 
 /**

@@ -17,7 +17,7 @@ import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { labD50ToLabD65, labToHex, linearSrgbToHex } from "@/lib/color/convert";
 import { methodName } from "@/lib/color/calibration";
-import { DEFAULT_TOLERANCE, methodsTried, profileColour } from "@/lib/lighting/calibration";
+import { DEFAULT_TOLERANCE, profileColour, readableFit } from "@/lib/lighting/calibration";
 import { profileStatus } from "@/lib/lighting/status";
 import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
 import type { GridCorners } from "@/db/schema";
@@ -37,11 +37,12 @@ export default async function ProfilePage({ params, searchParams }: { params: Pr
   if (!p) notFound();
   const status = profileStatus(p);
   const target = p.targetId ? getTarget(handle, p.targetId) : undefined;
-  const fitted = p.correctionKind !== "none";
+  // A stored fit that cannot be read shows its problem instead of breaking the page.
+  const tried = readableFit(p);
+  const fitted = p.correctionKind !== "none" && !tried.problem;
   const checks = checkHistory(handle, { profileId: p.id });
   const drift = driftHistory(handle, { profileId: p.id });
   const preview = isAdmin && p.state === "approved" && fitted ? previewRederive(handle, { profileId: p.id }) : null;
-  const tried = methodsTried(p);
   const onHull = new Set(tried.hullPatches);
   const targetLab = (name: string) => {
     const patch = target?.patches.find((t) => t.name === name);
@@ -56,6 +57,13 @@ export default async function ProfilePage({ params, searchParams }: { params: Pr
           All lighting profiles
         </Link>
       </p>
+      {tried.problem && (
+        <div className="mb-4" data-testid="fit-problem">
+          <Notice tone="error" title="This profile's fit cannot be read">
+            {tried.problem}
+          </Notice>
+        </div>
+      )}
       {created === "1" && isAdmin && p.state === "draft" && (
         <div className="mb-4" data-testid="draft-created">
           <Notice tone="ok">Draft “{p.name}” created. Next, upload a photo of the card under this light and fit it below.</Notice>
