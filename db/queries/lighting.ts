@@ -565,7 +565,10 @@ export function recordPhotoDrift(
   if (!profileId || references.length === 0) return [];
   return db.transaction((tx) =>
     references
-      .map((r, i) => ({ label: r.label || `reference ${i + 1}`, deltaE00: r.driftDeltaE00, ...recordDrift(tx, { actorId, profileId, photoId, label: r.label || `reference ${i + 1}`, deltaE00: r.driftDeltaE00, thresholdDeltaE00: limit }) }))
+      .map((r, i) => {
+        const label = r.label || `reference ${i + 1}`;
+        return { label, deltaE00: r.driftDeltaE00, ...recordDrift(tx, { actorId, profileId, photoId, label, deltaE00: r.driftDeltaE00, thresholdDeltaE00: limit }) };
+      })
       .filter((r) => r.flagged),
   );
 }

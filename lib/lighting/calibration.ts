@@ -106,28 +106,24 @@ export function calibrationOfProfile(p: { calibration: Record<string, unknown> |
 /**
  * What a profile's fit tried: every method with its leave-one-out ΔE00 (plain and over the card's hull
  * patches; the hull figure is absent for fits stored before it existed), the hull patches' names, and
- * why "auto" kept its method. Empty for profiles without an engine calibration.
+ * why "auto" kept its method. Empty for profiles without an engine calibration. A stored calibration
+ * that cannot be read (a damaged row) gives nothing tried and the sentence to show on that profile, so
+ * one damaged profile does not break a list or a page.
  */
-export function methodsTried(p: { calibration: Record<string, unknown> | null }): { methods: MethodComparison[]; hullPatches: string[]; selection: string | null } {
-  const cal = calibrationOfProfile(p);
-  if (!cal) return { methods: [], hullPatches: [], selection: null };
+export function methodsTried(p: { calibration: Record<string, unknown> | null }): { methods: MethodComparison[]; hullPatches: string[]; selection: string | null; problem: string | null } {
+  let cal: Calibration | null;
+  try {
+    cal = calibrationOfProfile(p);
+  } catch {
+    return { methods: [], hullPatches: [], selection: null, problem: "The stored calibration could not be read (damaged or not a Solvatlas calibration); fit the profile again from a card photo, reopening it as a draft first if it is approved." };
+  }
+  if (!cal) return { methods: [], hullPatches: [], selection: null, problem: null };
   return {
     methods: cal.comparison,
     hullPatches: cal.residuals.filter((r) => r.hull).map((r) => r.name),
     selection: cal.selection ?? null,
+    problem: null,
   };
-}
-
-/**
- * `methodsTried`, or — when the stored calibration cannot be read (a damaged row) — nothing tried and the
- * sentence to show on that profile, so one damaged profile does not break a list or a page.
- */
-export function readableFit(p: { calibration: Record<string, unknown> | null }): ReturnType<typeof methodsTried> & { problem: string | null } {
-  try {
-    return { ...methodsTried(p), problem: null };
-  } catch {
-    return { methods: [], hullPatches: [], selection: null, problem: "The stored calibration could not be read (damaged or not a Solvatlas calibration); fit the profile again from a card photo, reopening it as a draft first if it is approved." };
-  }
 }
 
 /** The older form of a profile's correction (profiles fitted before the engine calibration; the demo seed's). */

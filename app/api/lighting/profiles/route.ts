@@ -2,12 +2,12 @@ import { db } from "@/db/client";
 import { listProfiles } from "@/db/queries/lighting";
 import { apiRoute } from "@/lib/auth/guard";
 import { ANY_ROLE } from "@/lib/auth/roles";
-import { readableFit } from "@/lib/lighting/calibration";
+import { methodsTried } from "@/lib/lighting/calibration";
 import { profileStatus } from "@/lib/lighting/status";
 
 /** The methods a profile's fit tried, with plain and hull leave-one-out ΔE00 and why one was kept. */
-function fitComparison(p: Parameters<typeof readableFit>[0]) {
-  const { methods, hullPatches, selection, problem } = readableFit(p);
+function fitComparison(p: Parameters<typeof methodsTried>[0]) {
+  const { methods, hullPatches, selection, problem } = methodsTried(p);
   return {
     methods: methods.map((m) => ({
       method: m.method,

@@ -17,7 +17,7 @@ import { pageAccess } from "@/lib/auth/page";
 import { ANY_ROLE } from "@/lib/auth/roles";
 import { labD50ToLabD65, labToHex, linearSrgbToHex } from "@/lib/color/convert";
 import { methodName } from "@/lib/color/calibration";
-import { DEFAULT_TOLERANCE, profileColour, readableFit } from "@/lib/lighting/calibration";
+import { DEFAULT_TOLERANCE, profileColour, methodsTried } from "@/lib/lighting/calibration";
 import { profileStatus } from "@/lib/lighting/status";
 import { DRIFT_LIMIT_DE00 } from "@/lib/bench/pipeline";
 import type { GridCorners } from "@/db/schema";
@@ -38,7 +38,7 @@ export default async function ProfilePage({ params, searchParams }: { params: Pr
   const status = profileStatus(p);
   const target = p.targetId ? getTarget(handle, p.targetId) : undefined;
   // A stored fit that cannot be read shows its problem instead of breaking the page.
-  const tried = readableFit(p);
+  const tried = methodsTried(p);
   const fitted = p.correctionKind !== "none" && !tried.problem;
   const checks = checkHistory(handle, { profileId: p.id });
   const drift = driftHistory(handle, { profileId: p.id });
