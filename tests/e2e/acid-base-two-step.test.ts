@@ -6,24 +6,16 @@
  * The demo's invented indicators are one-step; the two-step fit itself is checked against thymol blue
  * in tests/unit/color-pka-two-step.test.ts and tests/integration/ph-series-two-step.test.ts.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import type { BrowserContext } from "playwright-core";
-import { launchBrowser, watchConsole } from "./browser";
+import { describe, expect, inject, it } from "vitest";
+import { useBrowser, watchConsole } from "./browser";
 import { SignInPage } from "./pages/sign-in-page";
 
 const base = inject("baseUrl");
-let browser: BrowserContext;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 describe("a pH series page", () => {
   it("shows the fit and lets a chemist choose two steps and back", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     const errors = watchConsole(page);
     await new SignInPage(page, base).signIn("chemist@demo.test");
     // The list brings every series' stored fit up to date first (all of them on a fresh demo): allow for it.

@@ -2,24 +2,16 @@
  * An indicator dye's page on the demo, in Chromium: the titration curve of its pH series, its pKa with
  * an uncertainty, and its absorption spectra with λmax; the pH series page lists its grouped series.
  */
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import type { BrowserContext } from "playwright-core";
-import { launchBrowser, watchConsole } from "./browser";
+import { describe, expect, inject, it } from "vitest";
+import { useBrowser, watchConsole } from "./browser";
 import { SignInPage } from "./pages/sign-in-page";
 
 const base = inject("baseUrl");
-let browser: BrowserContext;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 describe("an indicator dye's page", () => {
   it("shows the titration curve, the pKa ± its uncertainty and the spectra with λmax", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     const errors = watchConsole(page);
     await new SignInPage(page, base).signIn("chemist@demo.test");
     // KB-SP-205 is a demo sulfonephthalein with a 13-vial universal-buffer series and spectra.

@@ -3,25 +3,17 @@
  * a new shortlist, compare two dyes, export the shortlist as CSV.
  */
 import fs from "node:fs";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import type { BrowserContext } from "playwright-core";
-import { launchBrowser, watchConsole } from "./browser";
+import { describe, expect, inject, it } from "vitest";
+import { useBrowser, watchConsole } from "./browser";
 import { SearchPage } from "./pages/search-page";
 import { SignInPage } from "./pages/sign-in-page";
 
 const base = inject("baseUrl");
-let browser: BrowserContext;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = useBrowser();
 
 describe("the demo formulator", () => {
   it("searches blue in an aprotic medium, shortlists a hit, compares two dyes and exports the shortlist", async () => {
-    const page = await browser.newPage();
+    const page = await browser().newPage();
     const errors = watchConsole(page);
     const signIn = new SignInPage(page, base);
     await signIn.signIn("formulator@demo.test");
